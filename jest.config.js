@@ -1,0 +1,41 @@
+// One jest run, three projects: the server (with analysis, parsers, watcher), the Angular web app,
+// and the browser tests that drive Debian's Chromium against a real server.
+const { createCjsPreset } = require('jest-preset-angular/presets');
+
+const esmPackages = ['p-queue', 'p-timeout', 'eventemitter3', 'chokidar', 'readdirp', 'ml-levenberg-marquardt', 'is-any-array', 'ml-matrix'];
+const transformIgnorePatterns = [`node_modules/(?!(${esmPackages.join('|')})/)`];
+const nodeTransform = {
+  '^.+\\.[tj]sx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.spec.json' }],
+};
+
+module.exports = {
+  projects: [
+    {
+      displayName: 'server',
+      rootDir: __dirname,
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/server/src/**/*.spec.ts', '<rootDir>/watcher/src/**/*.spec.ts'],
+      transform: nodeTransform,
+      transformIgnorePatterns,
+    },
+    {
+      displayName: 'web',
+      rootDir: __dirname,
+      ...createCjsPreset({
+        tsconfig: '<rootDir>/web/tsconfig.spec.json',
+        testEnvironment: 'jest-preset-angular/environments/jest-jsdom-env',
+      }),
+      setupFilesAfterEnv: ['<rootDir>/web/src/setup-jest.ts'],
+      testMatch: ['<rootDir>/web/src/**/*.spec.ts'],
+      moduleNameMapper: { '^@equilight/analysis$': '<rootDir>/server/src/analysis/index.ts' },
+    },
+    {
+      displayName: 'browser',
+      rootDir: __dirname,
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/web/e2e/**/*.e2e.ts'],
+      transform: nodeTransform,
+      transformIgnorePatterns,
+    },
+  ],
+};

@@ -1,0 +1,130 @@
+import { detectionLimits } from './detection-limits';
+import { AnalysisError } from './errors';
+import { fitLinear, LinearFit } from './linear-regression';
+
+/** One standard as given to {@link calibrate}. */
+export interface CalibrationStandard {
+  /** Known concentration of the absorbing species, mol/L. */
+  concentrationM: number;
+  /** Blank-corrected absorbance (dimensionless, at the batch path length). */
+  absorbance: number;
+  position?: string;
+  sampleId?: string;
+}
+
+export interface CalibrationOptions {
+  /** Path length, cm (ε = slope / path length). Default 1. */
+  pathLengthCm?: number;
+  /** Fit A = S·c instead of A = S·c + b. Default false. */
+  throughOrigin?: boolean;
+  /** Absorbance above which a standard is flagged as outside the linear range. Default 1.0 (common practice). */
+  linearRangeMaxAbsorbance?: number;
+  /** |studentised residual| above which a standard is flagged as an outlier. Default 3 (common practice). */
+  outlierStudentizedResidual?: number;
+}
+
+/** A standard after the fit, with its checks. */
+export interface CalibrationPoint {
+  position: string | null;
+  sampleId: string | null;
+  concentrationM: number;
+  absorbance: number;
+  predictedAbsorbance: number;
+  residual: number;
+  /** e/(s·√(1−h)); null when the leverage is 1. */
+  studentizedResidual: number | null;
+  aboveLinearRange: boolean;
+  outlier: boolean;
+}
+
+/** Beer–Lambert calibration A = ε·l·c (+ intercept). */
+export interface CalibrationResult {
+  model: 'linear' | 'through-origin';
+  n: number;
+  df: number;
+  /** Absorbance per mol/L. */
+  slope: number;
+  /** Absorbance; 0 through the origin. */
+  intercept: number;
+  slopeSe: number;
+  interceptSe: number | null;
+  /** s_y/x, absorbance. */
+  residualSd: number;
+  r2: number;
+  /** Molar absorptivity ε = slope / l, L·mol⁻¹·cm⁻¹. */
+  epsilonLPerMolCm: number;
+  epsilonSe: number;
+  pathLengthCm: number;
+  /** ICH Q2 limits, mol/L. */
+  lodM: number;
+  loqM: number;
+  /** Mean concentration (mol/L) and absorbance of the standards, and Σ(x−x̄)² (Σx² through the origin). */
+  concentrationMeanM: number;
+  absorbanceMean: number;
+  sxx: number;
+  points: CalibrationPoint[];
+}
+
+/**
+ * Beer–Lambert calibration by ordinary least squares: A = S·c + b (or A = S·c), ε = S/l,
+ * LOD = 3.3·s_y/x/S, LOQ = 10·s_y/x/S, and a linear-range check per standard: absorbance above a
+ * ceiling, or an internally studentised residual e_i/(s·√(1−h_i)) beyond a limit
+ * (h_i = 1/n + (c_i−c̄)²/Sxx; through the origin h_i = c_i²/Σc²).
+ *
+ * Units: concentrations mol/L, absorbance dimensionless, path length cm, ε L·mol⁻¹·cm⁻¹.
+ * Reference: Beer–Lambert law; ICH Q2(R1) for LOD/LOQ; Draper & Smith, Applied Regression Analysis,
+ * §2.7 for studentised residuals.
+ *
+ * @example
+ * const cal = calibrate([
+ *   { concentrationM: 0, absorbance: 0.001 }, { concentrationM: 5e-5, absorbance: 0.236 },
+ *   { concentrationM: 1e-4, absorbance: 0.469 }, { concentrationM: 1.5e-4, absorbance: 0.706 },
+ * ]);
+ * cal.epsilonLPerMolCm; // ≈ 4.7e3
+ */
+export function calibrate(standards: readonly CalibrationStandard[], options: CalibrationOptions = {}): CalibrationResult {
+  const pathLengthCm = options.pathLengthCm ?? 1;
+  const ceiling = options.linearRangeMaxAbsorbance ?? 1;
+  const outlierLimit = options.outlierStudentizedResidual ?? 3;
+  if (!(pathLengthCm > 0)) throw new AnalysisError('invalid-input', 'path length must be positive');
+  const x = standards.map((s) => s.concentrationM);
+  const y = standards.map((s) => s.absorbance);
+  const fit: LinearFit = fitLinear(x, y, options.throughOrigin ?? false);
+  const limits = detectionLimits(fit.residualSd, fit.slope);
+  const points = standards.map((s, i): CalibrationPoint => {
+    const leverage = fit.model === 'linear' ? 1 / fit.n + (x[i] - fit.xMean) ** 2 / fit.sxx : x[i] ** 2 / fit.sxx;
+    const denom = fit.residualSd * Math.sqrt(1 - leverage);
+    const studentized = denom > 0 && leverage < 1 - 1e-12 ? fit.residuals[i] / denom : null;
+    return {
+      position: s.position ?? null,
+      sampleId: s.sampleId ?? null,
+      concentrationM: x[i],
+      absorbance: y[i],
+      predictedAbsorbance: y[i] - fit.residuals[i],
+      residual: fit.residuals[i],
+      studentizedResidual: studentized,
+      aboveLinearRange: y[i] > ceiling,
+      outlier: studentized !== null && Math.abs(studentized) > outlierLimit,
+    };
+  });
+  return {
+    model: fit.model,
+    n: fit.n,
+    df: fit.df,
+    slope: fit.slope,
+    intercept: fit.intercept,
+    slopeSe: fit.slopeSe,
+    interceptSe: fit.interceptSe,
+    residualSd: fit.residualSd,
+    r2: fit.r2,
+    epsilonLPerMolCm: fit.slope / pathLengthCm,
+    epsilonSe: fit.slopeSe / pathLengthCm,
+    pathLengthCm,
+    lodM: limits.lod,
+    loqM: limits.loq,
+    concentrationMeanM: fit.xMean,
+    absorbanceMean: fit.yMean,
+    sxx: fit.sxx,
+    points,
+  };
+}

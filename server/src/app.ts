@@ -1,0 +1,95 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import cookieParser from 'cookie-parser';
+import express, { type Express, type RequestHandler } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import type { DataSource } from 'typeorm';
+import { authRouter } from './auth/auth.router';
+import { csrfProtection } from './auth/csrf';
+import { createPassport } from './auth/passport';
+import { SessionRow } from './auth/session.entity';
+import { TypeOrmSessionStore } from './auth/typeorm-session-store';
+import { apiNotFound, createErrorHandler } from './common/error-handler';
+import type { AppConfig } from './config';
+import { usersRouter } from './users/users.router';
+import { UsersService } from './users/users.service';
+
+export const SESSION_COOKIE = 'equilight.sid';
+
+export interface AppContext {
+  config: AppConfig;
+  dataSource: DataSource;
+  log?: (message: string, err?: unknown) => void;
+}
+
+export interface EquilightApp {
+  app: Express;
+  /** The session middleware, for authenticating WebSocket upgrades with the same cookie. */
+  sessionParser: RequestHandler;
+  services: { users: UsersService };
+  close(): void;
+}
+
+/** Build the Express app without listening: tests drive it with supertest. */
+export function createApp({ config, dataSource, log = console.error }: AppContext): EquilightApp {
+  const users = new UsersService(dataSource);
+  const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
+  const passport = createPassport(users);
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // Angular Material injects component styles at run time.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'connect-src': ["'self'", 'ws:', 'wss:'],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'upgrade-insecure-requests': config.cookieSecure ? [] : null,
+        },
+      },
+    }),
+  );
+  app.use(express.json({ limit: '1mb' }));
+  app.use(cookieParser());
+
+  const sessionParser = session({
+    name: SESSION_COOKIE,
+    secret: config.sessionSecret,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: config.cookieSecure, maxAge: config.sessionMaxAgeMs },
+  });
+
+  const api = express.Router();
+  api.use(csrfProtection({ secret: config.sessionSecret, secureCookie: config.cookieSecure }));
+  api.get('/health', (_req, res) => {
+    res.json({ status: 'ok', service: 'equilight' });
+  });
+  api.use(sessionParser, passport.initialize(), passport.session());
+  api.use('/auth', authRouter(passport, users, config.loginRateLimit));
+  api.use('/users', usersRouter(users, config.publicUrl));
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  serveWebApp(app, config.webDistDir);
+  app.use(createErrorHandler(log));
+
+  return { app, sessionParser, services: { users }, close: () => store.close() };
+}
+
+/** Serve the built Angular app, with index.html for any client route. */
+function serveWebApp(app: Express, webDistDir: string): void {
+  const indexFile = path.join(webDistDir, 'index.html');
+  app.use(express.static(webDistDir, { index: false, maxAge: '1h' }));
+  app.get('/{*any}', (_req, res, next) => {
+    if (!fs.existsSync(indexFile)) return next();
+    res.setHeader('Cache-Control', 'no-cache');
+    res.sendFile(indexFile);
+  });
+}

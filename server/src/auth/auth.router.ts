@@ -1,0 +1,61 @@
+import { Router, type Request } from 'express';
+import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import type { PassportStatic } from 'passport';
+import { AppError } from '../common/app-error';
+import { validateBody } from '../common/validate';
+import { type User, toPublicUser } from '../users/user.entity';
+import type { UsersService } from '../users/users.service';
+import { loginSchema, setPasswordSchema } from './auth.schema';
+
+function authenticate(passport: PassportStatic, req: Request): Promise<User> {
+  return new Promise((resolve, reject) => {
+    passport.authenticate('local', (err: unknown, user: User | false, info?: { message?: string }) => {
+      if (err) return reject(err);
+      if (!user) return reject(AppError.unauthorized(info?.message ?? 'E-mail or password is not correct.'));
+      resolve(user);
+    })(req);
+  });
+}
+
+/** Sign-in, sign-out, who am I, set a password from a one-time link. Open routes: the role check is per handler. */
+export function authRouter(
+  passport: PassportStatic,
+  users: UsersService,
+  limits: { max: number; windowMs: number },
+): Router {
+  const router = Router();
+  const loginLimiter = rateLimit({
+    windowMs: limits.windowMs,
+    limit: limits.max,
+    standardHeaders: 'draft-7',
+    legacyHeaders: false,
+    // Per address and account: one person mistyping does not lock out the lab's shared address.
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
+    handler: (_req, _res, next) =>
+      next(new AppError('too_many_attempts', 429, 'Too many sign-in attempts; wait a few minutes and try again.')),
+  });
+
+  router.post('/login', loginLimiter, validateBody(loginSchema), async (req, res) => {
+    const user = await authenticate(passport, req);
+    await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
+    res.json(toPublicUser(user));
+  });
+
+  router.post('/logout', async (req, res) => {
+    await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())));
+    await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
+    res.clearCookie('equilight.sid');
+    res.status(204).end();
+  });
+
+  router.get('/me', (req, res) => {
+    if (!req.user) throw AppError.unauthorized('Not signed in.');
+    res.json(toPublicUser(req.user as User));
+  });
+
+  router.post('/set-password', loginLimiter, validateBody(setPasswordSchema), async (req, res) => {
+    res.json(await users.setPasswordWithToken(req.body.token, req.body.password));
+  });
+
+  return router;
+}

@@ -1,0 +1,14 @@
+import { z } from 'zod';
+import { passwordSchema } from '../users/users.schema';
+
+export const loginSchema = z.strictObject({
+  email: z.string({ message: 'email is required' }).trim().min(1, 'is required').max(254, 'must be at most 254 characters'),
+  password: z.string({ message: 'password is required' }).min(1, 'is required').max(200, 'must be at most 200 characters'),
+});
+export type LoginInput = z.infer<typeof loginSchema>;
+
+export const setPasswordSchema = z.strictObject({
+  token: z.string().min(20).max(200),
+  password: passwordSchema,
+});
+export type SetPasswordInput = z.infer<typeof setPasswordSchema>;

@@ -1,0 +1,87 @@
+import path from 'node:path';
+import { z } from 'zod';
+
+/**
+ * All configuration, read from the environment once and validated at start.
+ * No other file reads process.env.
+ */
+const booleanText = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'])
+  .transform((value) => value === 'true' || value === '1' || value === 'yes');
+
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(4210),
+  HOST: z.string().min(1).default('127.0.0.1'),
+  DATA_DIR: z.string().min(1).default('data'),
+  DATABASE_URL: z
+    .string()
+    .regex(/^(sqlite:|postgres(ql)?:\/\/)/, 'must start with sqlite: (a file path) or postgres://')
+    .optional(),
+  SESSION_SECRET: z.string().min(16, 'must be at least 16 characters').optional(),
+  SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(12),
+  COOKIE_SECURE: booleanText.default(false),
+  DEMO_PASSWORD: z.string().min(8, 'must be at least 8 characters').default('equilight-demo'),
+  SEED_DEMO: booleanText.default(true),
+  LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(20),
+  LOGIN_RATE_WINDOW_MINUTES: z.coerce.number().positive().default(15),
+  UPLOAD_MAX_MB: z.coerce.number().positive().max(512).default(20),
+  WEB_DIST_DIR: z.string().optional(),
+  PUBLIC_URL: z.string().url().optional(),
+});
+
+export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
+
+export interface AppConfig {
+  env: 'development' | 'production' | 'test';
+  port: number;
+  host: string;
+  dataDir: string;
+  database: DatabaseConfig;
+  sessionSecret: string;
+  sessionMaxAgeMs: number;
+  cookieSecure: boolean;
+  demoPassword: string;
+  seedDemo: boolean;
+  loginRateLimit: { max: number; windowMs: number };
+  uploadMaxBytes: number;
+  /** Folder of the built Angular app; served with an index.html fallback when it exists. */
+  webDistDir: string;
+  publicUrl: string;
+}
+
+export class ConfigError extends Error {}
+
+/** Read and check the environment. Throws a ConfigError naming every bad variable. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.cwd()): AppConfig {
+  const parsed = envSchema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `  ${issue.path.join('.')}: ${issue.message}`);
+    throw new ConfigError(`Invalid configuration:\n${lines.join('\n')}`);
+  }
+  const e = parsed.data;
+  const dataDir = path.resolve(cwd, e.DATA_DIR);
+  const database: DatabaseConfig = e.DATABASE_URL?.startsWith('postgres')
+    ? { type: 'postgres', url: e.DATABASE_URL }
+    : { type: 'sqlite', file: path.resolve(cwd, e.DATABASE_URL?.slice('sqlite:'.length) || path.join(dataDir, 'equilight.sqlite')) };
+  if (e.NODE_ENV === 'production' && !e.SESSION_SECRET) {
+    throw new ConfigError('Invalid configuration:\n  SESSION_SECRET: required when NODE_ENV=production');
+  }
+  return {
+    env: e.NODE_ENV,
+    port: e.PORT,
+    host: e.HOST,
+    dataDir,
+    database,
+    // Development default only; production refuses to start without SESSION_SECRET (above).
+    sessionSecret: e.SESSION_SECRET ?? 'equilight-development-secret-not-for-production',
+    sessionMaxAgeMs: e.SESSION_MAX_AGE_HOURS * 3_600_000,
+    cookieSecure: e.COOKIE_SECURE,
+    demoPassword: e.DEMO_PASSWORD,
+    seedDemo: e.SEED_DEMO,
+    loginRateLimit: { max: e.LOGIN_RATE_LIMIT, windowMs: e.LOGIN_RATE_WINDOW_MINUTES * 60_000 },
+    uploadMaxBytes: Math.round(e.UPLOAD_MAX_MB * 1024 * 1024),
+    webDistDir: path.resolve(cwd, e.WEB_DIST_DIR ?? 'dist/web/browser'),
+    publicUrl: e.PUBLIC_URL ?? `http://localhost:${e.PORT}`,
+  };
+}

@@ -1,0 +1,40 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import 'reflect-metadata';
+import { DataSource, type DataSourceOptions } from 'typeorm';
+import type { AppConfig } from '../config';
+import { SessionRow } from '../auth/session.entity';
+import { User } from '../users/user.entity';
+import { migrations } from './migrations';
+
+export const entities = [User, SessionRow];
+
+/** The one DataSource. SQLite (WAL) by default; PostgreSQL when DATABASE_URL says so. */
+export function createDataSource(config: Pick<AppConfig, 'database'>): DataSource {
+  const common = { entities, migrations, migrationsRun: false, synchronize: false, logging: false } as const;
+  let options: DataSourceOptions;
+  if (config.database.type === 'postgres') {
+    options = { ...common, type: 'postgres', url: config.database.url };
+  } else {
+    fs.mkdirSync(path.dirname(config.database.file), { recursive: true });
+    options = {
+      ...common,
+      type: 'better-sqlite3',
+      database: config.database.file,
+      enableWAL: true,
+      prepareDatabase: (db: { pragma(sql: string): unknown }) => {
+        db.pragma('foreign_keys = ON');
+        db.pragma('busy_timeout = 5000');
+      },
+    };
+  }
+  return new DataSource(options);
+}
+
+/** Open the database and bring its schema up to date. */
+export async function openDatabase(config: Pick<AppConfig, 'database'>): Promise<DataSource> {
+  const dataSource = createDataSource(config);
+  await dataSource.initialize();
+  await dataSource.runMigrations({ transaction: 'each' });
+  return dataSource;
+}

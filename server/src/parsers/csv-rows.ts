@@ -1,0 +1,101 @@
+import { parse } from 'csv-parse';
+import { ParseError } from './parse-error';
+import type { Delimiter } from './parse-rules';
+
+/** One non-blank record of a delimited file, cells trimmed. */
+export interface CsvRow {
+  /** 1-based physical line where the record starts. */
+  line: number;
+  cells: string[];
+}
+
+export interface CsvReadOptions {
+  file: string;
+  delimiter: Delimiter;
+  skipLines: number;
+}
+
+const SNIFF_LINES = 20;
+const QUOTED = /"(?:[^"]|"")*"/g;
+
+/**
+ * Picks the delimiter found on the most of the first lines (quoted text ignored).
+ * Ties go to the one with more cells per line, so `0,5;0,7` is read as `;`.
+ */
+export function detectDelimiter(text: string, skipLines: number, candidates: readonly Delimiter[]): Delimiter {
+  const lines = text
+    .split(/\r?\n|\r/, skipLines + SNIFF_LINES * 4)
+    .slice(skipLines)
+    .filter((l) => l.trim() !== '')
+    .slice(0, SNIFF_LINES)
+    .map((l) => l.replace(QUOTED, ''));
+  let best = candidates[0];
+  let bestScore = -1;
+  for (const d of candidates) {
+    const counts = lines.map((l) => l.split(d).length - 1);
+    const score = counts.filter((c) => c > 0).length * 1e6 + counts.reduce((a, b) => a + b, 0);
+    if (score > bestScore) {
+      best = d;
+      bestScore = score;
+    }
+  }
+  return best;
+}
+
+function csvErrorDetail(code: string): string {
+  switch (code) {
+    case 'CSV_QUOTE_NOT_CLOSED':
+      return 'a quoted cell is never closed: expected a closing quote (the file may be truncated)';
+    case 'CSV_INVALID_CLOSING_QUOTE':
+    case 'CSV_INVALID_OPENING_QUOTE':
+      return 'a stray quote inside a cell: expected quotes only around whole cells';
+    case 'CSV_MAX_RECORD_SIZE':
+      return 'a record is too long: expected lines of a text export';
+    default:
+      return `the file is not valid delimited text (${code})`;
+  }
+}
+
+interface CsvParseErrorLike {
+  code?: unknown;
+  lines?: unknown;
+}
+
+/**
+ * Streams the text through csv-parse and returns every record that has a non-empty cell,
+ * with the line it starts on. Row lengths are checked by the format parsers, which know
+ * what a row should hold.
+ */
+export async function readCsvRows(text: string, options: CsvReadOptions): Promise<CsvRow[]> {
+  const parser = parse({
+    delimiter: options.delimiter,
+    from_line: options.skipLines + 1,
+    relax_column_count: true,
+    skip_empty_lines: true,
+    info: true,
+    max_record_size: 1024 * 1024,
+  });
+  const rows: CsvRow[] = [];
+  // One kind of line end keeps csv-parse's line count exact (blank CRLF lines can count twice).
+  parser.end(text.replace(/\r\n?/g, '\n'));
+  try {
+    for await (const item of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) {
+      const cells = item.record.map((c) => c.trim());
+      if (cells.every((c) => c === '')) continue;
+      // info.lines is the line a record ends on; quoted line breaks move its start up.
+      const breaksInside = item.record.reduce((n, c) => n + (c.match(/\n/g) ?? []).length, 0);
+      rows.push({ line: item.info.lines - breaksInside, cells });
+    }
+  } catch (err) {
+    const e = err as CsvParseErrorLike;
+    if (typeof e.code === 'string' && e.code.startsWith('CSV_')) {
+      throw new ParseError({
+        file: options.file,
+        line: typeof e.lines === 'number' ? e.lines : undefined,
+        detail: csvErrorDetail(e.code),
+      });
+    }
+    throw err;
+  }
+  return rows;
+}

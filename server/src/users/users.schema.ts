@@ -1,0 +1,31 @@
+import { z } from 'zod';
+import { ROLES } from './user.entity';
+
+const email = z
+  .string()
+  .trim()
+  .max(254, 'must be at most 254 characters')
+  .pipe(z.email('must be an e-mail address'))
+  .transform((value) => value.toLowerCase());
+const displayName = z.string().trim().min(1, 'is required').max(120, 'must be at most 120 characters');
+export const passwordSchema = z
+  .string()
+  .min(10, 'must be at least 10 characters')
+  .max(200, 'must be at most 200 characters');
+const role = z.enum(ROLES as [string, ...string[]], { message: `must be one of ${ROLES.join(', ')}` });
+
+export const createUserSchema = z.strictObject({
+  email,
+  displayName,
+  role,
+  /** Without a password the person is invited: they set one through a one-time link. */
+  password: passwordSchema.optional(),
+});
+export type CreateUserInput = z.infer<typeof createUserSchema>;
+
+export const updateUserSchema = z
+  .strictObject({ displayName: displayName.optional(), role: role.optional(), active: z.boolean().optional() })
+  .refine((v) => v.displayName !== undefined || v.role !== undefined || v.active !== undefined, {
+    message: 'give at least one of displayName, role, active',
+  });
+export type UpdateUserInput = z.infer<typeof updateUserSchema>;

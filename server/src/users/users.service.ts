@@ -1,0 +1,111 @@
+import crypto from 'node:crypto';
+import bcrypt from 'bcryptjs';
+import type { DataSource, Repository } from 'typeorm';
+import { AppError } from '../common/app-error';
+import { type PublicUser, type Role, User, toPublicUser } from './user.entity';
+import type { CreateUserInput, UpdateUserInput } from './users.schema';
+
+const BCRYPT_ROUNDS = 10;
+const SET_PASSWORD_TTL_MS = 72 * 3_600_000;
+
+export function hashPassword(password: string): Promise<string> {
+  return bcrypt.hash(password, BCRYPT_ROUNDS);
+}
+
+let dummyHash: string | undefined;
+
+function sha256(text: string): string {
+  return crypto.createHash('sha256').update(text).digest('hex');
+}
+
+export interface CreatedUser {
+  user: PublicUser;
+  /** Present for an invitation: the one-time token for the set-password link. Shown once. */
+  setPasswordToken?: string;
+}
+
+/** People: who may sign in, with which role. */
+export class UsersService {
+  private readonly users: Repository<User>;
+
+  constructor(dataSource: DataSource) {
+    this.users = dataSource.getRepository(User);
+  }
+
+  async list(): Promise<PublicUser[]> {
+    const rows = await this.users.find({ order: { displayName: 'ASC' } });
+    return rows.map(toPublicUser);
+  }
+
+  async count(): Promise<number> {
+    return this.users.count();
+  }
+
+  async findById(id: number): Promise<User | null> {
+    return this.users.findOneBy({ id });
+  }
+
+  /** Check an e-mail and password; answers the same vague message for every failure. */
+  async verifyCredentials(email: string, password: string): Promise<User> {
+    const user = await this.users.findOneBy({ email: email.trim().toLowerCase() });
+    // Compare against a dummy hash when there is no user so timing does not reveal who exists.
+    dummyHash ??= bcrypt.hashSync('no such person', BCRYPT_ROUNDS);
+    const hash = user?.passwordHash ?? dummyHash;
+    const matches = await bcrypt.compare(password, hash);
+    if (!user || !user.passwordHash || !matches) throw AppError.unauthorized('E-mail or password is not correct.');
+    if (!user.active) throw AppError.unauthorized('This account is deactivated; ask an administrator.');
+    return user;
+  }
+
+  async create(input: CreateUserInput): Promise<CreatedUser> {
+    if (await this.users.existsBy({ email: input.email })) {
+      throw AppError.conflict(`A person with e-mail ${input.email} already exists.`);
+    }
+    const user = this.users.create({
+      email: input.email,
+      displayName: input.displayName,
+      role: input.role as Role,
+      active: true,
+      passwordHash: input.password ? await hashPassword(input.password) : null,
+      setPasswordTokenHash: null,
+      setPasswordExpiresAt: null,
+    });
+    let setPasswordToken: string | undefined;
+    if (!input.password) {
+      setPasswordToken = crypto.randomBytes(24).toString('base64url');
+      user.setPasswordTokenHash = sha256(setPasswordToken);
+      user.setPasswordExpiresAt = Date.now() + SET_PASSWORD_TTL_MS;
+    }
+    await this.users.save(user);
+    return { user: toPublicUser(user), setPasswordToken };
+  }
+
+  async update(id: number, input: UpdateUserInput, actingUserId: number): Promise<PublicUser> {
+    const user = await this.findById(id);
+    if (!user) throw AppError.notFound(`No person with id ${id}.`);
+    const losesAdmin = user.role === 'admin' && user.active && (input.active === false || (input.role && input.role !== 'admin'));
+    if (losesAdmin) {
+      const activeAdmins = await this.users.countBy({ role: 'admin', active: true });
+      if (activeAdmins <= 1) throw AppError.conflict('This is the last active administrator; appoint another one first.');
+      if (id === actingUserId && input.active === false) throw AppError.conflict('You cannot deactivate your own account.');
+    }
+    if (input.displayName !== undefined) user.displayName = input.displayName;
+    if (input.role !== undefined) user.role = input.role as Role;
+    if (input.active !== undefined) user.active = input.active;
+    await this.users.save(user);
+    return toPublicUser(user);
+  }
+
+  /** Redeem a one-time invitation or reset token. */
+  async setPasswordWithToken(token: string, password: string): Promise<PublicUser> {
+    const user = await this.users.findOneBy({ setPasswordTokenHash: sha256(token) });
+    if (!user || !user.setPasswordExpiresAt || Number(user.setPasswordExpiresAt) < Date.now()) {
+      throw AppError.badRequest('This link is invalid or has expired; ask an administrator for a new one.');
+    }
+    user.passwordHash = await hashPassword(password);
+    user.setPasswordTokenHash = null;
+    user.setPasswordExpiresAt = null;
+    await this.users.save(user);
+    return toPublicUser(user);
+  }
+}
