@@ -23,7 +23,10 @@ export function isSaturationMarker(text: string): boolean {
 /** Strict number syntax: optional minus, digits with the decimal mark, optional exponent. */
 export function parseDecimal(text: string, decimalMark: '.' | ','): number | undefined {
   const t = text.trim();
-  const pattern = decimalMark === '.' ? /^-?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/ : /^-?(?:\d+(?:,\d*)?|,\d+)(?:[eE][+-]?\d+)?$/;
+  const pattern =
+    decimalMark === '.'
+      ? /^-?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/
+      : /^-?(?:\d+(?:,\d*)?|,\d+)(?:[eE][+-]?\d+)?$/;
   if (!pattern.test(t)) return undefined;
   const value = Number(decimalMark === ',' ? t.replace(',', '.') : t);
   return Number.isFinite(value) ? value : undefined;
@@ -41,14 +44,26 @@ export class CellReader {
     readonly decimalMark: '.' | ',',
   ) {}
 
-  error(line: number, column: string | number | undefined, expected: string, found?: string, detail?: string) {
+  error(
+    line: number,
+    column: string | number | undefined,
+    expected: string,
+    found?: string,
+    detail?: string,
+  ) {
     return new ParseError({ file: this.file, line, column, expected, found, detail });
   }
 
   /** Rejects formula-like text in any cell, whatever its column. */
   checkText(text: string, line: number, column: string | number | undefined): string {
     if (isFormulaLike(text)) {
-      throw this.error(line, column, 'a plain value', text, 'formula-like cells are refused and never evaluated');
+      throw this.error(
+        line,
+        column,
+        'a plain value',
+        text,
+        'formula-like cells are refused and never evaluated',
+      );
     }
     return text.trim();
   }
@@ -67,31 +82,45 @@ export class CellReader {
     const what = `a wavelength in nm (${WAVELENGTH_RANGE_NM.min}–${WAVELENGTH_RANGE_NM.max})`;
     if (text.trim() === '') throw this.error(line, column, what, text, 'the cell is empty');
     const value = this.number(text, line, column, what);
-    if (value < WAVELENGTH_RANGE_NM.min || value > WAVELENGTH_RANGE_NM.max) throw this.error(line, column, what, text);
+    if (value < WAVELENGTH_RANGE_NM.min || value > WAVELENGTH_RANGE_NM.max)
+      throw this.error(line, column, what, text);
     return value;
   }
 
   temperatureC(text: string, line: number, column: string | number | undefined): number {
     const what = `a temperature in °C (${TEMPERATURE_RANGE_C.min}–${TEMPERATURE_RANGE_C.max})`;
     const value = this.number(text, line, column, what);
-    if (value < TEMPERATURE_RANGE_C.min || value > TEMPERATURE_RANGE_C.max) throw this.error(line, column, what, text);
+    if (value < TEMPERATURE_RANGE_C.min || value > TEMPERATURE_RANGE_C.max)
+      throw this.error(line, column, what, text);
     return value;
   }
 
   replicate(text: string, line: number, column: string | number | undefined): number {
     this.checkText(text, line, column);
     const t = text.trim();
-    if (!/^\d{1,6}$/.test(t) || Number(t) < 1) throw this.error(line, column, 'a replicate number 1, 2, …', text);
+    if (!/^\d{1,6}$/.test(t) || Number(t) < 1)
+      throw this.error(line, column, 'a replicate number 1, 2, …', text);
     return Number(t);
   }
 
   /** A position valid in the plate format, normalised (`a01` → `A1`). */
-  position(text: string, line: number, column: string | number | undefined, plateFormat: PlateFormat): string {
+  position(
+    text: string,
+    line: number,
+    column: string | number | undefined,
+    plateFormat: PlateFormat,
+  ): string {
     this.checkText(text, line, column);
     const normal = normalisePosition(text);
     if (normal === undefined || !isValidPosition(normal, plateFormat)) {
       const kind = plateFormat === 'cuvette' ? 'in a cuvette sequence' : `on a ${plateFormat}-well plate`;
-      throw this.error(line, column, describePositions(plateFormat), text, normal ? `no such position ${kind}` : undefined);
+      throw this.error(
+        line,
+        column,
+        describePositions(plateFormat),
+        text,
+        normal ? `no such position ${kind}` : undefined,
+      );
     }
     return normal;
   }
@@ -104,7 +133,12 @@ export class CellReader {
     const what = 'an absorbance (a number, a saturation marker such as OVER, or an empty cell)';
     const value = this.number(t, line, column, what);
     if (value < ABSORBANCE_RANGE.min || value > ABSORBANCE_RANGE.max) {
-      throw this.error(line, column, `an absorbance from ${ABSORBANCE_RANGE.min} to ${ABSORBANCE_RANGE.max}`, t);
+      throw this.error(
+        line,
+        column,
+        `an absorbance from ${ABSORBANCE_RANGE.min} to ${ABSORBANCE_RANGE.max}`,
+        t,
+      );
     }
     return { absorbance: value };
   }

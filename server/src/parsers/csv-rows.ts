@@ -22,7 +22,11 @@ const QUOTED = /"(?:[^"]|"")*"/g;
  * Picks the delimiter found on the most of the first lines (quoted text ignored).
  * Ties go to the one with more cells per line, so `0,5;0,7` is read as `;`.
  */
-export function detectDelimiter(text: string, skipLines: number, candidates: readonly Delimiter[]): Delimiter {
+export function detectDelimiter(
+  text: string,
+  skipLines: number,
+  candidates: readonly Delimiter[],
+): Delimiter {
   const lines = text
     .split(/\r?\n|\r/, skipLines + SNIFF_LINES * 4)
     .slice(skipLines)

@@ -90,13 +90,15 @@ function decodeUtf16le(content: Buffer, file: string): string {
   if (startsWith(content, UTF8_BOM)) {
     throw new ParseError({
       file,
-      detail: 'the file starts with a UTF-8 byte-order mark but the profile says utf-16le; set the encoding to utf-8',
+      detail:
+        'the file starts with a UTF-8 byte-order mark but the profile says utf-16le; set the encoding to utf-8',
     });
   }
   if (content.length % 2 !== 0) {
     throw new ParseError({
       file,
-      detail: 'the file has an odd number of bytes: expected UTF-16LE text as the profile says (truncated, or another encoding)',
+      detail:
+        'the file has an odd number of bytes: expected UTF-16LE text as the profile says (truncated, or another encoding)',
     });
   }
   const text = content.subarray(hasBom ? 2 : 0).toString('utf16le');

@@ -7,7 +7,9 @@ const DELIMITER_NAMES: Record<Delimiter, string> = { ',': '","', ';': '";"', '\t
 /** A hint when a one-cell header holds another delimiter: the profile's delimiter is likely wrong. */
 export function delimiterHint(header: CsvRow, delimiter: Delimiter): string {
   if (header.cells.length !== 1) return '';
-  const other = (Object.keys(DELIMITER_NAMES) as Delimiter[]).find((d) => d !== delimiter && header.cells[0].includes(d));
+  const other = (Object.keys(DELIMITER_NAMES) as Delimiter[]).find(
+    (d) => d !== delimiter && header.cells[0].includes(d),
+  );
   return other
     ? `; the file looks ${DELIMITER_NAMES[other]}-delimited but the profile says ${DELIMITER_NAMES[delimiter]}`
     : '';
@@ -20,7 +22,12 @@ export function indexHeader(header: CsvRow, file: string): Map<string, number> {
     const key = cell.toLowerCase();
     if (key === '') return;
     if (index.has(key)) {
-      throw new ParseError({ file, line: header.line, column: cell, detail: 'the header names this column twice' });
+      throw new ParseError({
+        file,
+        line: header.line,
+        column: cell,
+        detail: 'the header names this column twice',
+      });
     }
     index.set(key, i);
   });

@@ -7,7 +7,12 @@ import type { Delimiter, ParseRules } from './parse-rules';
 import { ReadingSet, sharedValue, type ParsedRun } from './reading-set';
 
 /** One row per reading: a header row with the profile's column names, then data rows. */
-export function parseLongTable(rows: CsvRow[], file: string, rules: ParseRules, delimiter: Delimiter): ParsedRun {
+export function parseLongTable(
+  rows: CsvRow[],
+  file: string,
+  rules: ParseRules,
+  delimiter: Delimiter,
+): ParsedRun {
   const [header, ...data] = rows;
   if (header === undefined) throw new ParseError({ file, detail: 'no readings: the file has no header row' });
   const index = indexHeader(header, file);
@@ -38,7 +43,11 @@ export function parseLongTable(rows: CsvRow[], file: string, rules: ParseRules, 
   const warnings = ignored.length > 0 ? [`ignored column(s): ${ignored.join(', ')}`] : [];
 
   if (data.length === 0) {
-    throw new ParseError({ file, line: header.line, detail: 'no readings: the file has a header row but no data rows' });
+    throw new ParseError({
+      file,
+      line: header.line,
+      detail: 'no readings: the file has a header row but no data rows',
+    });
   }
   const cells = new CellReader(file, rules.decimalMark);
   const set = new ReadingSet(file);

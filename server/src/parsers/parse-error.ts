@@ -18,8 +18,10 @@ const MAX_SHOWN_CHARS = 40;
 
 /** Quotes a cell for a message: control characters escaped, long text shortened. */
 export function showCell(text: string): string {
-  // eslint-disable-next-line no-control-regex
-  const escaped = text.replace(/[\u0000-\u001f\u007f]/g, (c) => `\\x${c.charCodeAt(0).toString(16).padStart(2, '0')}`);
+  const escaped = Array.from(text, (c) => {
+    const code = c.charCodeAt(0);
+    return code < 0x20 || code === 0x7f ? `\\x${code.toString(16).padStart(2, '0')}` : c;
+  }).join('');
   const shown = escaped.length > MAX_SHOWN_CHARS ? `${escaped.slice(0, MAX_SHOWN_CHARS)}…` : escaped;
   return `"${shown}"`;
 }

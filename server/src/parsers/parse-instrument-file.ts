@@ -22,7 +22,9 @@ export async function parseInstrumentFile(
   const text = decodeText(content, fileName, resolved.encoding);
   const candidates: Delimiter[] = resolved.decimalMark === ',' ? [';', '\t'] : [',', ';', '\t'];
   const delimiter =
-    resolved.delimiter === 'auto' ? detectDelimiter(text, resolved.skipLines, candidates) : resolved.delimiter;
+    resolved.delimiter === 'auto'
+      ? detectDelimiter(text, resolved.skipLines, candidates)
+      : resolved.delimiter;
   const rows = await readCsvRows(text, { file: fileName, delimiter, skipLines: resolved.skipLines });
   if (rows.length === 0) {
     const skipped = resolved.skipLines > 0 ? ` after skipping ${resolved.skipLines} line(s)` : '';

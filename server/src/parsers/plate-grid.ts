@@ -28,7 +28,10 @@ function looksLikeGridHeader(cells: string[]): boolean {
 export function parsePlateGrid(rows: CsvRow[], file: string, rules: ParseRules): ParsedRun {
   const size = plateSize(rules.plateFormat);
   if (size === undefined) {
-    throw new ParseError({ file: 'parsing rules', detail: 'plate grids need a 96- or 384-well plate format, not cuvette' });
+    throw new ParseError({
+      file: 'parsing rules',
+      detail: 'plate grids need a 96- or 384-well plate format, not cuvette',
+    });
   }
   const cells = new CellReader(file, rules.decimalMark);
   const set = new ReadingSet(file);
@@ -53,10 +56,17 @@ export function parsePlateGrid(rows: CsvRow[], file: string, rules: ParseRules):
       const value = cells.checkText(c[1] ?? '', row.line, 2);
       if (c.length > 2) {
         const detail = ROW_LETTER.test(c[0]) ? 'a grid row with no grid header line before it' : undefined;
-        throw cells.error(row.line, undefined, 'a "key,value" line or a grid header (an empty cell, then 1…12)', c.join(' '), detail);
+        throw cells.error(
+          row.line,
+          undefined,
+          'a "key,value" line or a grid header (an empty cell, then 1…12)',
+          c.join(' '),
+          detail,
+        );
       }
       if (keys.wavelength.has(key)) pendingWavelength = cells.wavelengthNm(value, row.line, 2);
-      else if (keys.temperature.has(key)) temperatureC = metadata.temperatureC = cells.temperatureC(value, row.line, 2);
+      else if (keys.temperature.has(key))
+        temperatureC = metadata.temperatureC = cells.temperatureC(value, row.line, 2);
       else if (keys.readTime.has(key)) readTime = metadata.readTime = value;
       else if (key === 'run_id') metadata.runId = value;
       else metadata.extra[c[0]] = value;
@@ -114,11 +124,22 @@ export function parsePlateGrid(rows: CsvRow[], file: string, rules: ParseRules):
         );
       }
       if (gridRow.cells[0].toUpperCase() !== letter) {
-        throw cells.error(gridRow.line, 1, `row ${letter}`, gridRow.cells[0], `rows must run A…${rowLetter(size.rows - 1)} in order`);
+        throw cells.error(
+          gridRow.line,
+          1,
+          `row ${letter}`,
+          gridRow.cells[0],
+          `rows must run A…${rowLetter(size.rows - 1)} in order`,
+        );
       }
       const values = trimTrailingEmpty(gridRow.cells).slice(1);
       if (values.length > size.columns) {
-        throw cells.error(gridRow.line, size.columns + 1, `${size.columns} values after the row letter`, `${values.length} values`);
+        throw cells.error(
+          gridRow.line,
+          size.columns + 1,
+          `${size.columns} values after the row letter`,
+          `${values.length} values`,
+        );
       }
       if (gridRow.cells.length - 1 < size.columns) {
         throw cells.error(
@@ -146,7 +167,8 @@ export function parsePlateGrid(rows: CsvRow[], file: string, rules: ParseRules):
   if (grids === 0) {
     throw new ParseError({
       file,
-      detail: 'no readings: expected a grid header line (an empty cell, then the column numbers 1…12 or 1…24)',
+      detail:
+        'no readings: expected a grid header line (an empty cell, then the column numbers 1…12 or 1…24)',
     });
   }
   return set.finish('plate_grid', metadata, []);

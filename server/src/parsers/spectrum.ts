@@ -6,7 +6,12 @@ import type { Delimiter, ParseRules } from './parse-rules';
 import { ReadingSet, type ParsedRun } from './reading-set';
 
 /** A wavelength column, then one absorbance column per position (the header cells name the positions). */
-export function parseSpectrum(rows: CsvRow[], file: string, rules: ParseRules, delimiter: Delimiter): ParsedRun {
+export function parseSpectrum(
+  rows: CsvRow[],
+  file: string,
+  rules: ParseRules,
+  delimiter: Delimiter,
+): ParsedRun {
   const [header, ...data] = rows;
   if (header === undefined) throw new ParseError({ file, detail: 'no readings: the file has no header row' });
   const index = indexHeader(header, file);
@@ -27,21 +32,41 @@ export function parseSpectrum(rows: CsvRow[], file: string, rules: ParseRules, d
   header.cells.forEach((text, i) => {
     if (i === wavelengthAt) return;
     if (text === '') {
-      throw cells.error(header.line, i + 1, 'a position in every header cell after the wavelength column', text);
+      throw cells.error(
+        header.line,
+        i + 1,
+        'a position in every header cell after the wavelength column',
+        text,
+      );
     }
     const position = cells.position(text, header.line, text, rules.plateFormat);
     const twin = seen.get(position);
     if (twin !== undefined) {
-      throw cells.error(header.line, text, 'each position once in the header', text, `same position as "${twin}"`);
+      throw cells.error(
+        header.line,
+        text,
+        'each position once in the header',
+        text,
+        `same position as "${twin}"`,
+      );
     }
     seen.set(position, text);
     positions.set(i, position);
   });
   if (positions.size === 0) {
-    throw cells.error(header.line, undefined, 'at least one position column after the wavelength column', header.cells.join(' '));
+    throw cells.error(
+      header.line,
+      undefined,
+      'at least one position column after the wavelength column',
+      header.cells.join(' '),
+    );
   }
   if (data.length === 0) {
-    throw new ParseError({ file, line: header.line, detail: 'no readings: the file has a header row but no data rows' });
+    throw new ParseError({
+      file,
+      line: header.line,
+      detail: 'no readings: the file has a header row but no data rows',
+    });
   }
   const set = new ReadingSet(file);
   for (const row of data) {
@@ -49,7 +74,11 @@ export function parseSpectrum(rows: CsvRow[], file: string, rules: ParseRules, d
     row.cells.forEach((text, i) => cells.checkText(text, row.line, header.cells[i] || i + 1));
     const wavelengthNm = cells.wavelengthNm(row.cells[wavelengthAt], row.line, header.cells[wavelengthAt]);
     for (const [i, position] of positions) {
-      set.add({ position, wavelengthNm, ...cells.absorbance(row.cells[i], row.line, header.cells[i]) }, row.line, header.cells[i]);
+      set.add(
+        { position, wavelengthNm, ...cells.absorbance(row.cells[i], row.line, header.cells[i]) },
+        row.line,
+        header.cells[i],
+      );
     }
   }
   return set.finish('spectrum', { extra: {} }, []);
