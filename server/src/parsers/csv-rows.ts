@@ -1,4 +1,4 @@
-import { parse } from 'csv-parse';
+import { CsvError, parse } from 'csv-parse';
 import { ParseError } from './parse-error';
 import type { Delimiter } from './parse-rules';
 
@@ -51,18 +51,13 @@ function csvErrorDetail(code: string): string {
     case 'CSV_QUOTE_NOT_CLOSED':
       return 'a quoted cell is never closed: expected a closing quote (the file may be truncated)';
     case 'CSV_INVALID_CLOSING_QUOTE':
-    case 'CSV_INVALID_OPENING_QUOTE':
+    case 'INVALID_OPENING_QUOTE':
       return 'a stray quote inside a cell: expected quotes only around whole cells';
     case 'CSV_MAX_RECORD_SIZE':
       return 'a record is too long: expected lines of a text export';
     default:
       return `the file is not valid delimited text (${code})`;
   }
-}
-
-interface CsvParseErrorLike {
-  code?: unknown;
-  lines?: unknown;
 }
 
 /**
@@ -75,6 +70,8 @@ export async function readCsvRows(text: string, options: CsvReadOptions): Promis
     delimiter: options.delimiter,
     from_line: options.skipLines + 1,
     relax_column_count: true,
+    // A quote inside an unquoted cell is kept as text, so the cell check names it.
+    relax_quotes: true,
     skip_empty_lines: true,
     info: true,
     max_record_size: 1024 * 1024,
@@ -91,12 +88,11 @@ export async function readCsvRows(text: string, options: CsvReadOptions): Promis
       rows.push({ line: item.info.lines - breaksInside, cells });
     }
   } catch (err) {
-    const e = err as CsvParseErrorLike;
-    if (typeof e.code === 'string' && e.code.startsWith('CSV_')) {
+    if (err instanceof CsvError) {
       throw new ParseError({
         file: options.file,
-        line: typeof e.lines === 'number' ? e.lines : undefined,
-        detail: csvErrorDetail(e.code),
+        line: typeof err.lines === 'number' ? err.lines : undefined,
+        detail: csvErrorDetail(err.code),
       });
     }
     throw err;

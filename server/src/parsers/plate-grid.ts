@@ -84,7 +84,7 @@ export function parsePlateGrid(rows: CsvRow[], file: string, rules: ParseRules):
       throw cells.error(
         row.line,
         undefined,
-        `a ${size.rows}×${size.columns} grid for a ${rules.plateFormat}-well profile`,
+        `a grid of ${size.rows}×${size.columns} for a ${rules.plateFormat}-well profile`,
         `${numbers.length} columns`,
       );
     }

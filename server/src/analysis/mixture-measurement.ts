@@ -1,0 +1,27 @@
+import { MixtureRecipe } from './dilution';
+
+/** A mixture with its recipe and its measured absorbance: the input of the K-uncertainty methods. */
+export interface MixtureMeasurement extends MixtureRecipe {
+  /** Blank-corrected absorbance (mean of the replicates). */
+  absorbance: number;
+  pathLengthCm: number;
+  /** Number of readings averaged into `absorbance` (default 1). */
+  replicates?: number;
+}
+
+/** Standard uncertainties of the inputs of a mixture, as the K-uncertainty methods use them. */
+export interface InputUncertainties {
+  /** Relative SD of each pipetted volume (fraction). */
+  pipetteRelSd: number;
+  /** Relative SD of a made-up total volume (volumetric flask), fraction. */
+  flaskRelSd: number;
+  /** Relative SD of each stock concentration, fraction (one draw per distinct stock). */
+  stockRelSd: number;
+  /** SD of one absorbance reading; null: use the residual SD of the global fit. */
+  absorbanceSd: number | null;
+}
+
+/** True when the total volume was made up to a mark (independent of the pipetted volumes). */
+export function isMadeUpToVolume(m: MixtureRecipe): boolean {
+  return m.totalVolumeMl !== undefined && m.totalVolumeMl > (m.volumeAMl + m.volumeBMl) * (1 + 1e-9);
+}

@@ -1,0 +1,183 @@
+import { AnalysisError } from './errors';
+import { InputUncertainties } from './mixture-measurement';
+import { parseStoichiometry } from './stoichiometry-model';
+
+/** A position left out of the analysis by a person, with the reason they gave. */
+export interface Exclusion {
+  position: string;
+  reason: string;
+}
+
+/**
+ * Analysis settings as a batch, instrument profile or user gives them: every field is optional and
+ * {@link resolveAnalysisSettings} fills in the defaults. Thresholds marked "common practice" are
+ * conventions of the trade, not standards; a lab may set its own.
+ */
+export interface AnalysisSettings {
+  /** Wavelength to analyse, nm. Default: the only wavelength present, else the most frequent. */
+  wavelengthNm?: number | null;
+  /** Readings within this distance of the wavelength count, nm. Default 0.5. */
+  wavelengthToleranceNm?: number;
+  /** Path length of the batch, cm. Default 1. */
+  pathLengthCm?: number;
+  /** Per-position path lengths (plates: fill volume or water peak), cm; absorbances are scaled to `pathLengthCm`. */
+  pathLengthByPositionCm?: Record<string, number>;
+  /** Calibration line with or without intercept. Default 'linear'. */
+  calibrationModel?: 'linear' | 'through-origin';
+  /** Absorbance ceiling of the linear range. Default 1.0 (common practice). */
+  linearRangeMaxAbsorbance?: number;
+  /** |studentised residual| that flags a standard. Default 3 (common practice). */
+  outlierStudentizedResidual?: number;
+  /** Calibration R² below this is flagged. Default 0.995 (common practice). */
+  r2Min?: number;
+  /** Replicate CV (fraction) above this is flagged. Default 0.05 (common practice). */
+  replicateCvMax?: number;
+  /** Corrected absorbance below −tolerance is flagged as negative. Default 0.005. */
+  negativeAbsorbanceTolerance?: number;
+  /** Candidate stoichiometries "a:b" (A:B). Default 1:1, 1:2, 2:1, 1:3. */
+  candidates?: string[];
+  /** K CV (fraction) above which K is "not constant". Default 0.15 (common practice). */
+  kCvMax?: number;
+  /** ΔAIC under which the two best candidates are indistinguishable. Default 2 (Burnham & Anderson 2002). */
+  ambiguityDeltaAic?: number;
+  /** ΔAIC over which a candidate is ruled out. Default 10 (Burnham & Anderson 2002). */
+  ruledOutDeltaAic?: number;
+  /** Fit a constant absorbance offset in the global fits. Default false. */
+  fitBaseline?: boolean;
+  /** ε of the complex for the per-mixture ICE tables, L·mol⁻¹·cm⁻¹. Default: from the calibration. */
+  epsilonLPerMolCm?: number | null;
+  /** Positions to leave out, with reasons. */
+  exclusions?: Exclusion[];
+  job?: { relativeTolerance?: number; minPoints?: number };
+  benesiHildebrand?: { minExcessRatio?: number; minPoints?: number };
+  uncertainty?: Partial<InputUncertainties>;
+  /** Draws (0 = off) and seed of the Monte Carlo for K. Default 0 draws, seed 1. */
+  monteCarlo?: { draws?: number; seed?: number };
+  /** Levenberg–Marquardt limits. */
+  fit?: { maxIterations?: number; parameterTolerance?: number };
+  /** Equilibrium root-finder limits. */
+  solver?: { tolerance?: number; maxIterations?: number };
+}
+
+/** Settings with every default filled in: what the analysis actually used (echoed in the result). */
+export interface ResolvedAnalysisSettings {
+  wavelengthNm: number | null;
+  wavelengthToleranceNm: number;
+  pathLengthCm: number;
+  pathLengthByPositionCm: Record<string, number>;
+  calibrationModel: 'linear' | 'through-origin';
+  linearRangeMaxAbsorbance: number;
+  outlierStudentizedResidual: number;
+  r2Min: number;
+  replicateCvMax: number;
+  negativeAbsorbanceTolerance: number;
+  candidates: string[];
+  kCvMax: number;
+  ambiguityDeltaAic: number;
+  ruledOutDeltaAic: number;
+  fitBaseline: boolean;
+  epsilonLPerMolCm: number | null;
+  exclusions: Exclusion[];
+  job: { relativeTolerance: number; minPoints: number };
+  benesiHildebrand: { minExcessRatio: number; minPoints: number };
+  uncertainty: InputUncertainties;
+  monteCarlo: { draws: number; seed: number };
+  fit: { maxIterations: number; parameterTolerance: number };
+  solver: { tolerance: number; maxIterations: number };
+}
+
+/**
+ * Default input uncertainties. Pipette: ISO 8655-2:2002 at 1000 µL, random CV 0.3 % combined with the
+ * 0.8 % systematic limit taken as rectangular (0.8 %/√3): √(0.3² + 0.46²) ≈ 0.55 %. Flask: ASTM E288
+ * class A 10 mL ± 0.02 mL as rectangular: 0.2 %/√3 ≈ 0.12 %. Stock: 0.5 % (common practice).
+ * Absorbance: null = the global fit's residual SD.
+ */
+export const DEFAULT_INPUT_UNCERTAINTIES: InputUncertainties = {
+  pipetteRelSd: 0.0055,
+  flaskRelSd: 0.0012,
+  stockRelSd: 0.005,
+  absorbanceSd: null,
+};
+
+function positive(name: string, v: number): number {
+  if (!(v > 0) || !Number.isFinite(v)) throw new AnalysisError('invalid-settings', `${name} must be a positive number`);
+  return v;
+}
+
+function nonNegative(name: string, v: number): number {
+  if (!(v >= 0) || !Number.isFinite(v)) throw new AnalysisError('invalid-settings', `${name} must be a number ≥ 0`);
+  return v;
+}
+
+/**
+ * Resolves and checks analysis settings once: fills every default and rejects impossible values
+ * (non-positive path length, malformed stoichiometry, negative tolerances…).
+ *
+ * Units: as named in {@link AnalysisSettings}.
+ * Reference: defaults documented per field (ICH Q2, ISO 8655-2, ASTM E288, Burnham & Anderson, common practice).
+ *
+ * @throws AnalysisError 'invalid-settings'
+ * @example
+ * resolveAnalysisSettings({ pathLengthCm: 0.5 }).linearRangeMaxAbsorbance; // 1
+ */
+export function resolveAnalysisSettings(settings: AnalysisSettings = {}): ResolvedAnalysisSettings {
+  const s = settings;
+  const candidates = s.candidates ?? ['1:1', '1:2', '2:1', '1:3'];
+  if (candidates.length === 0) throw new AnalysisError('invalid-settings', 'at least one candidate stoichiometry is needed');
+  const labels = candidates.map((c) => parseStoichiometry(c).label);
+  const byPosition: Record<string, number> = {};
+  for (const [pos, l] of Object.entries(s.pathLengthByPositionCm ?? {})) byPosition[pos.toUpperCase()] = positive(`path length of ${pos}`, l);
+  const exclusions = (s.exclusions ?? []).map((e) => {
+    if (!e.position || !e.reason || !e.reason.trim()) {
+      throw new AnalysisError('invalid-settings', 'every exclusion needs a position and a reason');
+    }
+    return { position: e.position.toUpperCase(), reason: e.reason.trim() };
+  });
+  const draws = s.monteCarlo?.draws ?? 0;
+  if (!Number.isInteger(draws) || draws < 0 || (draws > 0 && draws < 10)) {
+    throw new AnalysisError('invalid-settings', 'Monte Carlo draws must be 0 (off) or an integer ≥ 10');
+  }
+  const u = { ...DEFAULT_INPUT_UNCERTAINTIES, ...(s.uncertainty ?? {}) };
+  return {
+    wavelengthNm: s.wavelengthNm == null ? null : positive('wavelength', s.wavelengthNm),
+    wavelengthToleranceNm: nonNegative('wavelength tolerance', s.wavelengthToleranceNm ?? 0.5),
+    pathLengthCm: positive('path length', s.pathLengthCm ?? 1),
+    pathLengthByPositionCm: byPosition,
+    calibrationModel: s.calibrationModel ?? 'linear',
+    linearRangeMaxAbsorbance: positive('linear-range ceiling', s.linearRangeMaxAbsorbance ?? 1),
+    outlierStudentizedResidual: positive('outlier limit', s.outlierStudentizedResidual ?? 3),
+    r2Min: nonNegative('minimum R²', s.r2Min ?? 0.995),
+    replicateCvMax: positive('maximum replicate CV', s.replicateCvMax ?? 0.05),
+    negativeAbsorbanceTolerance: nonNegative('negative-absorbance tolerance', s.negativeAbsorbanceTolerance ?? 0.005),
+    candidates: [...new Set(labels)],
+    kCvMax: positive('maximum K CV', s.kCvMax ?? 0.15),
+    ambiguityDeltaAic: nonNegative('ambiguity ΔAIC', s.ambiguityDeltaAic ?? 2),
+    ruledOutDeltaAic: positive('ruled-out ΔAIC', s.ruledOutDeltaAic ?? 10),
+    fitBaseline: s.fitBaseline ?? false,
+    epsilonLPerMolCm: s.epsilonLPerMolCm == null ? null : positive('ε', s.epsilonLPerMolCm),
+    exclusions,
+    job: {
+      relativeTolerance: positive('Job total tolerance', s.job?.relativeTolerance ?? 0.02),
+      minPoints: Math.max(4, Math.floor(s.job?.minPoints ?? 5)),
+    },
+    benesiHildebrand: {
+      minExcessRatio: positive('Benesi–Hildebrand excess ratio', s.benesiHildebrand?.minExcessRatio ?? 10),
+      minPoints: Math.max(3, Math.floor(s.benesiHildebrand?.minPoints ?? 3)),
+    },
+    uncertainty: {
+      pipetteRelSd: nonNegative('pipette relative SD', u.pipetteRelSd),
+      flaskRelSd: nonNegative('flask relative SD', u.flaskRelSd),
+      stockRelSd: nonNegative('stock relative SD', u.stockRelSd),
+      absorbanceSd: u.absorbanceSd == null ? null : nonNegative('absorbance SD', u.absorbanceSd),
+    },
+    monteCarlo: { draws, seed: Math.floor(s.monteCarlo?.seed ?? 1) },
+    fit: {
+      maxIterations: Math.floor(positive('fit iterations', s.fit?.maxIterations ?? 200)),
+      parameterTolerance: positive('fit tolerance', s.fit?.parameterTolerance ?? 1e-11),
+    },
+    solver: {
+      tolerance: positive('solver tolerance', s.solver?.tolerance ?? 1e-14),
+      maxIterations: Math.floor(positive('solver iterations', s.solver?.maxIterations ?? 100)),
+    },
+  };
+}

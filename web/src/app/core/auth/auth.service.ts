@@ -1,0 +1,50 @@
+import { HttpClient } from '@angular/common/http';
+import { Injectable, computed, inject, signal } from '@angular/core';
+import { firstValueFrom } from 'rxjs';
+import { type Role, type User, isUser } from './user';
+
+/** Who is signed in. The one source of that truth in the browser. */
+@Injectable({ providedIn: 'root' })
+export class AuthService {
+  private readonly http = inject(HttpClient);
+  private readonly user = signal<User | null>(null);
+
+  readonly currentUser = this.user.asReadonly();
+  readonly signedIn = computed(() => this.user() !== null);
+
+  hasRole(...roles: Role[]): boolean {
+    const user = this.user();
+    return !!user && roles.includes(user.role);
+  }
+
+  /** Ask the server who we are; a 401 simply means nobody. */
+  async refresh(): Promise<User | null> {
+    try {
+      const me = await firstValueFrom(this.http.get<unknown>('/api/auth/me'));
+      this.user.set(isUser(me) ? me : null);
+    } catch {
+      this.user.set(null);
+    }
+    return this.user();
+  }
+
+  async signIn(email: string, password: string): Promise<User> {
+    const me = await firstValueFrom(this.http.post<unknown>('/api/auth/login', { email, password }));
+    if (!isUser(me)) throw new Error('The server answered sign-in with an unexpected shape.');
+    this.user.set(me);
+    return me;
+  }
+
+  async signOut(): Promise<void> {
+    try {
+      await firstValueFrom(this.http.post('/api/auth/logout', {}));
+    } finally {
+      this.user.set(null);
+    }
+  }
+
+  /** Forget the user locally (the server already did, e.g. after a 401). */
+  clear(): void {
+    this.user.set(null);
+  }
+}

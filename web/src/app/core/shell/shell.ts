@@ -1,0 +1,69 @@
+import { BreakpointObserver } from '@angular/cdk/layout';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatListModule } from '@angular/material/list';
+import { MatMenuModule } from '@angular/material/menu';
+import { MatSidenavModule } from '@angular/material/sidenav';
+import { MatToolbarModule } from '@angular/material/toolbar';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { map } from 'rxjs';
+import { AuthService } from '../auth/auth.service';
+import { ROLE_LABELS } from '../auth/user';
+import { navItemsFor } from './navigation';
+
+const DARK_KEY = 'equilight.dark';
+
+@Component({
+  selector: 'eq-shell',
+  imports: [
+    RouterOutlet,
+    RouterLink,
+    RouterLinkActive,
+    MatToolbarModule,
+    MatSidenavModule,
+    MatListModule,
+    MatIconModule,
+    MatButtonModule,
+    MatMenuModule,
+    MatTooltipModule,
+  ],
+  templateUrl: './shell.html',
+  styleUrl: './shell.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class Shell {
+  private readonly auth = inject(AuthService);
+  private readonly router = inject(Router);
+
+  protected readonly user = this.auth.currentUser;
+  protected readonly roleLabel = computed(() => {
+    const user = this.user();
+    return user ? ROLE_LABELS[user.role] : '';
+  });
+  protected readonly navItems = computed(() => navItemsFor(this.user()?.role));
+  protected readonly narrow = toSignal(
+    inject(BreakpointObserver)
+      .observe('(max-width: 840px)')
+      .pipe(map((state) => state.matches)),
+    { initialValue: false },
+  );
+  protected readonly dark = signal(localStorage.getItem(DARK_KEY) === '1');
+
+  constructor() {
+    document.documentElement.classList.toggle('eq-dark', this.dark());
+  }
+
+  protected toggleDark(): void {
+    this.dark.update((dark) => !dark);
+    localStorage.setItem(DARK_KEY, this.dark() ? '1' : '0');
+    document.documentElement.classList.toggle('eq-dark', this.dark());
+  }
+
+  protected async signOut(): Promise<void> {
+    await this.auth.signOut();
+    await this.router.navigate(['/sign-in']);
+  }
+}
