@@ -2,7 +2,16 @@
 // and the browser tests that drive Debian's Chromium against a real server.
 const { createCjsPreset } = require('jest-preset-angular/presets');
 
-const esmPackages = ['p-queue', 'p-timeout', 'eventemitter3', 'chokidar', 'readdirp', 'ml-levenberg-marquardt', 'is-any-array', 'ml-matrix'];
+const esmPackages = [
+  'p-queue',
+  'p-timeout',
+  'eventemitter3',
+  'chokidar',
+  'readdirp',
+  'ml-levenberg-marquardt',
+  'is-any-array',
+  'ml-matrix',
+];
 const transformIgnorePatterns = [`node_modules/(?!(${esmPackages.join('|')})/)`];
 const nodeTransform = {
   '^.+\\.[tj]sx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.spec.json' }],

@@ -63,7 +63,13 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
   const dataDir = path.resolve(cwd, e.DATA_DIR);
   const database: DatabaseConfig = e.DATABASE_URL?.startsWith('postgres')
     ? { type: 'postgres', url: e.DATABASE_URL }
-    : { type: 'sqlite', file: path.resolve(cwd, e.DATABASE_URL?.slice('sqlite:'.length) || path.join(dataDir, 'equilight.sqlite')) };
+    : {
+        type: 'sqlite',
+        file: path.resolve(
+          cwd,
+          e.DATABASE_URL?.slice('sqlite:'.length) || path.join(dataDir, 'equilight.sqlite'),
+        ),
+      };
   if (e.NODE_ENV === 'production' && !e.SESSION_SECRET) {
     throw new ConfigError('Invalid configuration:\n  SESSION_SECRET: required when NODE_ENV=production');
   }

@@ -13,7 +13,9 @@ async function main(): Promise<void> {
   }
   const server = http.createServer(equilight.app);
   await new Promise<void>((resolve) => server.listen(config.port, config.host, resolve));
-  console.log(`Equilight listening on http://${config.host === '0.0.0.0' ? 'localhost' : config.host}:${config.port}`);
+  console.log(
+    `Equilight listening on http://${config.host === '0.0.0.0' ? 'localhost' : config.host}:${config.port}`,
+  );
 
   let stopping = false;
   const stop = async (signal: string): Promise<void> => {

@@ -19,7 +19,7 @@ export interface CalibrationOptions {
   throughOrigin?: boolean;
   /** Absorbance above which a standard is flagged as outside the linear range. Default 1.0 (common practice). */
   linearRangeMaxAbsorbance?: number;
-  /** |studentised residual| above which a standard is flagged as an outlier. Default 3 (common practice). */
+  /** |externally studentised residual| above which a standard is flagged as an outlier. Default 3 (common practice). */
   outlierStudentizedResidual?: number;
 }
 
@@ -31,7 +31,7 @@ export interface CalibrationPoint {
   absorbance: number;
   predictedAbsorbance: number;
   residual: number;
-  /** e/(s·√(1−h)); null when the leverage is 1. */
+  /** Externally studentised residual t_i = r_i·√((df−1)/(df−r_i²)), r_i = e_i/(s·√(1−h_i)); null when undefined. */
   studentizedResidual: number | null;
   aboveLinearRange: boolean;
   outlier: boolean;
@@ -68,12 +68,12 @@ export interface CalibrationResult {
 /**
  * Beer–Lambert calibration by ordinary least squares: A = S·c + b (or A = S·c), ε = S/l,
  * LOD = 3.3·s_y/x/S, LOQ = 10·s_y/x/S, and a linear-range check per standard: absorbance above a
- * ceiling, or an internally studentised residual e_i/(s·√(1−h_i)) beyond a limit
- * (h_i = 1/n + (c_i−c̄)²/Sxx; through the origin h_i = c_i²/Σc²).
+ * ceiling, or an externally studentised residual t_i = r_i·√((df−1)/(df−r_i²)) beyond a limit, with
+ * r_i = e_i/(s·√(1−h_i)), h_i = 1/n + (c_i−c̄)²/Sxx (through the origin h_i = c_i²/Σc²).
  *
  * Units: concentrations mol/L, absorbance dimensionless, path length cm, ε L·mol⁻¹·cm⁻¹.
  * Reference: Beer–Lambert law; ICH Q2(R1) for LOD/LOQ; Draper & Smith, Applied Regression Analysis,
- * §2.7 for studentised residuals.
+ * §8.1 and Belsley, Kuh & Welsch, Regression Diagnostics (Wiley, 1980) for studentised residuals.
  *
  * @example
  * const cal = calibrate([
@@ -94,7 +94,12 @@ export function calibrate(standards: readonly CalibrationStandard[], options: Ca
   const points = standards.map((s, i): CalibrationPoint => {
     const leverage = fit.model === 'linear' ? 1 / fit.n + (x[i] - fit.xMean) ** 2 / fit.sxx : x[i] ** 2 / fit.sxx;
     const denom = fit.residualSd * Math.sqrt(1 - leverage);
-    const studentized = denom > 0 && leverage < 1 - 1e-12 ? fit.residuals[i] / denom : null;
+    const internal = denom > 0 && leverage < 1 - 1e-12 ? fit.residuals[i] / denom : null;
+    // Externally studentised (deleted) residual: unbounded, unlike the internal one (|r| ≤ √df).
+    const studentized =
+      internal !== null && fit.df > 1 && fit.df - internal * internal > 0
+        ? internal * Math.sqrt((fit.df - 1) / (fit.df - internal * internal))
+        : null;
     return {
       position: s.position ?? null,
       sampleId: s.sampleId ?? null,

@@ -55,6 +55,7 @@ export function solveEquilibrium(
   });
   if (!(a0M > 0) || !(b0M > 0) || !(k > 0)) return state(0, true, 0);
   const xMax = Math.min(a0M / a, b0M / b);
+  if (!(xMax > 0)) return state(0, true, 0); // denormal inputs: nothing can form
   if (k === Infinity) return state(xMax, true, 0);
   if (a === 1 && b === 1 && (options.method ?? 'auto') === 'auto') {
     return state(solveOneToOne(k, a0M, b0M), true, 0);

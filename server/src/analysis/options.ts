@@ -26,7 +26,7 @@ export interface AnalysisSettings {
   calibrationModel?: 'linear' | 'through-origin';
   /** Absorbance ceiling of the linear range. Default 1.0 (common practice). */
   linearRangeMaxAbsorbance?: number;
-  /** |studentised residual| that flags a standard. Default 3 (common practice). */
+  /** |externally studentised residual| that flags a standard. Default 3 (common practice). */
   outlierStudentizedResidual?: number;
   /** Calibration R² below this is flagged. Default 0.995 (common practice). */
   r2Min?: number;

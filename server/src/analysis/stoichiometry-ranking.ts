@@ -88,7 +88,11 @@ export function rankStoichiometries(
     }
     if (c.kStats?.kCv != null && c.kStats.kCv > kCvMax) reasons.push(`its K drifts ${pct(c.kStats.kCv)} across mixtures`);
     if (deltaAic !== null && deltaAic > ruledOutDeltaAic) reasons.push(`its global fit is far worse (ΔAIC ${deltaAic.toFixed(1)})`);
-    if (aic === null) reasons.push(c.fit ? `its global fit failed (${c.fit.message})` : 'no global fit');
+    if (aic === null) {
+      if (!c.fit) reasons.push('no global fit');
+      else if (c.fit.converged && c.fit.k === null) reasons.push('its K is not determined (the fit runs to complete binding)');
+      else reasons.push(`its global fit failed (${c.fit.message})`);
+    }
     const ruledOut = i > 0 && reasons.length > 0;
     return {
       model: c.model,

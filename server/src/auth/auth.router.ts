@@ -30,9 +30,16 @@ export function authRouter(
     standardHeaders: 'draft-7',
     legacyHeaders: false,
     // Per address and account: one person mistyping does not lock out the lab's shared address.
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
+    keyGenerator: (req) =>
+      `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
     handler: (_req, _res, next) =>
-      next(new AppError('too_many_attempts', 429, 'Too many sign-in attempts; wait a few minutes and try again.')),
+      next(
+        new AppError(
+          'too_many_attempts',
+          429,
+          'Too many sign-in attempts; wait a few minutes and try again.',
+        ),
+      ),
   });
 
   router.post('/login', loginLimiter, validateBody(loginSchema), async (req, res) => {

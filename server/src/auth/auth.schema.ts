@@ -2,8 +2,15 @@ import { z } from 'zod';
 import { passwordSchema } from '../users/users.schema';
 
 export const loginSchema = z.strictObject({
-  email: z.string({ message: 'email is required' }).trim().min(1, 'is required').max(254, 'must be at most 254 characters'),
-  password: z.string({ message: 'password is required' }).min(1, 'is required').max(200, 'must be at most 200 characters'),
+  email: z
+    .string({ message: 'email is required' })
+    .trim()
+    .min(1, 'is required')
+    .max(254, 'must be at most 254 characters'),
+  password: z
+    .string({ message: 'password is required' })
+    .min(1, 'is required')
+    .max(200, 'must be at most 200 characters'),
 });
 export type LoginInput = z.infer<typeof loginSchema>;
 

@@ -40,7 +40,12 @@ export function csrfProtection(options: { secret: string; secureCookie: boolean 
     const bearerOnly = req.headers.authorization?.startsWith('Bearer ') && !req.headers.cookie;
     if (bearerOnly) return next();
     const headerToken = req.get(CSRF_HEADER);
-    if (!cookieToken || !headerToken || headerToken !== cookieToken || !isGenuine(options.secret, cookieToken)) {
+    if (
+      !cookieToken ||
+      !headerToken ||
+      headerToken !== cookieToken ||
+      !isGenuine(options.secret, cookieToken)
+    ) {
       return next(new AppError('csrf', 403, 'Missing or invalid XSRF token: reload the page and try again.'));
     }
     next();

@@ -13,7 +13,10 @@ export function createPassport(users: UsersService): PassportStatic {
     new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
       users.verifyCredentials(email, password).then(
         (user) => done(null, user),
-        (err: unknown) => (err instanceof AppError && err.status === 401 ? done(null, false, { message: err.message }) : done(err)),
+        (err: unknown) =>
+          err instanceof AppError && err.status === 401
+            ? done(null, false, { message: err.message })
+            : done(err),
       );
     }),
   );

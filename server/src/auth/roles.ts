@@ -7,7 +7,10 @@ declare global {
   namespace Express {
     // passport puts the signed-in person here
     // eslint-disable-next-line @typescript-eslint/no-empty-object-type
-    interface User extends Pick<import('../users/user.entity').User, 'id' | 'email' | 'displayName' | 'role' | 'active'> {}
+    interface User extends Pick<
+      import('../users/user.entity').User,
+      'id' | 'email' | 'displayName' | 'role' | 'active'
+    > {}
   }
 }
 

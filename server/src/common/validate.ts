@@ -14,7 +14,9 @@ export function validateBody<T extends z.ZodType>(schema: T): RequestHandler {
   return (req, _res, next) => {
     const result = schema.safeParse(req.body ?? {});
     if (!result.success) {
-      next(AppError.badRequest(`Invalid request: ${describeIssues(result.error.issues)}`, result.error.issues));
+      next(
+        AppError.badRequest(`Invalid request: ${describeIssues(result.error.issues)}`, result.error.issues),
+      );
       return;
     }
     req.body = result.data;
@@ -25,6 +27,7 @@ export function validateBody<T extends z.ZodType>(schema: T): RequestHandler {
 /** Parse a route parameter as a positive integer id. */
 export function idParam(value: unknown, what: string): number {
   const id = Number(value);
-  if (!Number.isInteger(id) || id <= 0) throw AppError.badRequest(`${what} id must be a positive whole number.`);
+  if (!Number.isInteger(id) || id <= 0)
+    throw AppError.badRequest(`${what} id must be a positive whole number.`);
   return id;
 }

@@ -16,6 +16,9 @@ export interface CsvReadOptions {
 }
 
 const SNIFF_LINES = 20;
+const SNIFF_CHARS = 256 * 1024;
+/** Far above any real export line (a 384-position spectrum row is about 5 kB). */
+const MAX_RECORD_CHARS = 64 * 1024;
 const QUOTED = /"(?:[^"]|"")*"/g;
 
 /**
@@ -28,6 +31,7 @@ export function detectDelimiter(
   candidates: readonly Delimiter[],
 ): Delimiter {
   const lines = text
+    .slice(0, SNIFF_CHARS)
     .split(/\r?\n|\r/, skipLines + SNIFF_LINES * 4)
     .slice(skipLines)
     .filter((l) => l.trim() !== '')
@@ -74,7 +78,7 @@ export async function readCsvRows(text: string, options: CsvReadOptions): Promis
     relax_quotes: true,
     skip_empty_lines: true,
     info: true,
-    max_record_size: 1024 * 1024,
+    max_record_size: MAX_RECORD_CHARS,
   });
   const rows: CsvRow[] = [];
   // One kind of line end keeps csv-parse's line count exact (blank CRLF lines can count twice).
@@ -84,7 +88,8 @@ export async function readCsvRows(text: string, options: CsvReadOptions): Promis
       const cells = item.record.map((c) => c.trim());
       if (cells.every((c) => c === '')) continue;
       // info.lines is the line a record ends on; quoted line breaks move its start up.
-      const breaksInside = item.record.reduce((n, c) => n + (c.match(/\n/g) ?? []).length, 0);
+      let breaksInside = 0;
+      for (const c of item.record) if (c.includes('\n')) breaksInside += c.split('\n').length - 1;
       rows.push({ line: item.info.lines - breaksInside, cells });
     }
   } catch (err) {

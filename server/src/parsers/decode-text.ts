@@ -6,6 +6,14 @@ export const MAX_FILE_BYTES = 20 * 1024 * 1024;
 
 const UTF8_BOM = [0xef, 0xbb, 0xbf];
 const UTF16LE_BOM = [0xff, 0xfe];
+const UTF16BE_BOM = [0xfe, 0xff];
+// UTF-8 multi-byte characters (°, µ, é, …) read as latin1 show up as Â or Ã before a high character.
+const UTF8_READ_AS_LATIN1 = /[\u00c2\u00c3][\u0080-\u00bf]/;
+
+export interface DecodedText {
+  text: string;
+  warnings: string[];
+}
 
 function startsWith(content: Buffer, bytes: number[]): boolean {
   return bytes.every((b, i) => content[i] === b);
@@ -41,7 +49,7 @@ function oddCharacterShare(text: string): number {
  * Binary content, bytes that are not valid in the declared encoding and oversize
  * files are refused with a message that says what the file seems to be instead.
  */
-export function decodeText(content: Buffer, file: string, encoding: ParseRules['encoding']): string {
+export function decodeText(content: Buffer, file: string, encoding: ParseRules['encoding']): DecodedText {
   if (content.length > MAX_FILE_BYTES) {
     throw new ParseError({
       file,
@@ -50,7 +58,14 @@ export function decodeText(content: Buffer, file: string, encoding: ParseRules['
   }
   if (content.length === 0) throw new ParseError({ file, detail: 'the file is empty: no readings' });
 
-  if (encoding === 'utf-16le') return decodeUtf16le(content, file);
+  if (startsWith(content, UTF16BE_BOM)) {
+    throw new ParseError({
+      file,
+      detail:
+        'the file is UTF-16 big-endian text: expected utf-8, latin1 or utf-16le; export it again as UTF-8',
+    });
+  }
+  if (encoding === 'utf-16le') return { text: decodeUtf16le(content, file), warnings: [] };
 
   if (startsWith(content, UTF16LE_BOM) || (content.length >= 4 && content[1] === 0 && content[3] === 0)) {
     throw new ParseError({
@@ -67,11 +82,25 @@ export function decodeText(content: Buffer, file: string, encoding: ParseRules['
     });
   }
   if (encoding === 'latin1') {
-    return content.toString('latin1');
+    if (startsWith(content, UTF8_BOM)) {
+      throw new ParseError({
+        file,
+        detail:
+          'the file starts with a UTF-8 byte-order mark but the profile says latin1; set the encoding to utf-8',
+      });
+    }
+    const text = content.toString('latin1');
+    const mojibake = UTF8_READ_AS_LATIN1.exec(text);
+    const warnings = mojibake
+      ? [
+          `line ${lineOfIndex(text, mojibake.index)} reads "${mojibake[0]}": the file may be UTF-8 although the profile says latin1`,
+        ]
+      : [];
+    return { text, warnings };
   }
   const body = startsWith(content, UTF8_BOM) ? content.subarray(3) : content;
   try {
-    return new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(body);
+    return { text: new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(body), warnings: [] };
   } catch {
     const lossy = body.toString('utf8');
     const bad = lossy.indexOf('\ufffd');

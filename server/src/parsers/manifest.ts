@@ -56,7 +56,7 @@ function canonicalColumn(name: string): string | undefined {
  * Files that are not a manifest at all (binary, empty, no sample rows) throw a ParseError.
  */
 export async function parseManifestCsv(content: Buffer, fileName: string): Promise<ManifestParseResult> {
-  const text = decodeText(content, fileName, 'utf-8');
+  const { text } = decodeText(content, fileName, 'utf-8');
   const delimiter = detectDelimiter(text, 0, [',', ';', '\t']);
   const rows = await readCsvRows(text, { file: fileName, delimiter, skipLines: 0 });
   const [header, ...data] = rows;

@@ -1,8 +1,8 @@
-import { readCsvRows, detectDelimiter } from './csv-rows';
+import { readCsvRows, detectDelimiter, type CsvRow } from './csv-rows';
 import { decodeText } from './decode-text';
 import { parseLongTable } from './long-table';
 import { ParseError } from './parse-error';
-import { resolveParseRules, type Delimiter, type ParseRulesInput } from './parse-rules';
+import { resolveParseRules, type Delimiter, type ParseRules, type ParseRulesInput } from './parse-rules';
 import { parsePlateGrid } from './plate-grid';
 import type { ParsedRun } from './reading-set';
 import { parseSpectrum } from './spectrum';
@@ -19,7 +19,7 @@ export async function parseInstrumentFile(
   rules?: ParseRulesInput,
 ): Promise<ParsedRun> {
   const resolved = resolveParseRules(rules);
-  const text = decodeText(content, fileName, resolved.encoding);
+  const { text, warnings } = decodeText(content, fileName, resolved.encoding);
   const candidates: Delimiter[] = resolved.decimalMark === ',' ? [';', '\t'] : [',', ';', '\t'];
   const delimiter =
     resolved.delimiter === 'auto'
@@ -30,12 +30,17 @@ export async function parseInstrumentFile(
     const skipped = resolved.skipLines > 0 ? ` after skipping ${resolved.skipLines} line(s)` : '';
     throw new ParseError({ file: fileName, detail: `no readings: the file has no data${skipped}` });
   }
-  switch (resolved.format) {
+  const run = parseRows(rows, fileName, resolved, delimiter);
+  return warnings.length > 0 ? { ...run, warnings: [...warnings, ...run.warnings] } : run;
+}
+
+function parseRows(rows: CsvRow[], fileName: string, rules: ParseRules, delimiter: Delimiter): ParsedRun {
+  switch (rules.format) {
     case 'long_table':
-      return parseLongTable(rows, fileName, resolved, delimiter);
+      return parseLongTable(rows, fileName, rules, delimiter);
     case 'plate_grid':
-      return parsePlateGrid(rows, fileName, resolved);
+      return parsePlateGrid(rows, fileName, rules);
     case 'spectrum':
-      return parseSpectrum(rows, fileName, resolved, delimiter);
+      return parseSpectrum(rows, fileName, rules, delimiter);
   }
 }

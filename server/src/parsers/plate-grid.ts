@@ -46,6 +46,7 @@ export function parsePlateGrid(rows: CsvRow[], file: string, rules: ParseRules):
   let readTime: string | undefined;
   const gridLineOfWavelength = new Map<number, number>();
   let grids = 0;
+  const warnings: string[] = [];
 
   let i = 0;
   while (i < rows.length) {
@@ -64,7 +65,8 @@ export function parsePlateGrid(rows: CsvRow[], file: string, rules: ParseRules):
           detail,
         );
       }
-      if (keys.wavelength.has(key)) pendingWavelength = cells.wavelengthNm(value, row.line, 2);
+      if (key === '') warnings.push(`line ${row.line}: a value without a key was ignored`);
+      else if (keys.wavelength.has(key)) pendingWavelength = cells.wavelengthNm(value, row.line, 2);
       else if (keys.temperature.has(key))
         temperatureC = metadata.temperatureC = cells.temperatureC(value, row.line, 2);
       else if (keys.readTime.has(key)) readTime = metadata.readTime = value;
@@ -171,5 +173,5 @@ export function parsePlateGrid(rows: CsvRow[], file: string, rules: ParseRules):
         'no readings: expected a grid header line (an empty cell, then the column numbers 1…12 or 1…24)',
     });
   }
-  return set.finish('plate_grid', metadata, []);
+  return set.finish('plate_grid', metadata, warnings);
 }

@@ -28,7 +28,13 @@ export interface TestApp extends EquilightApp {
 /** A real app on a real SQLite file in a temporary folder, seeded with the demo people. */
 export async function startTestApp(env: Record<string, string> = {}): Promise<TestApp> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-test-'));
-  const config = loadConfig({ NODE_ENV: 'test', DATA_DIR: dir, DEMO_PASSWORD, WEB_DIST_DIR: path.join(dir, 'no-web'), ...env });
+  const config = loadConfig({
+    NODE_ENV: 'test',
+    DATA_DIR: dir,
+    DEMO_PASSWORD,
+    WEB_DIST_DIR: path.join(dir, 'no-web'),
+    ...env,
+  });
   const dataSource = await openDatabase(config);
   const equilight = createApp({ config, dataSource, log: () => undefined });
   await seedDemoPeople(equilight.services.users, DEMO_PASSWORD);
@@ -41,7 +47,8 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
     a.set('X-XSRF-TOKEN', decodeURIComponent(xsrf));
     if (role) {
       const res = await a.post('/api/auth/login').send({ email: DEMO_EMAILS[role], password: DEMO_PASSWORD });
-      if (res.status !== 200) throw new Error(`sign-in as ${role} failed: ${res.status} ${JSON.stringify(res.body)}`);
+      if (res.status !== 200)
+        throw new Error(`sign-in as ${role} failed: ${res.status} ${JSON.stringify(res.body)}`);
     }
     return a;
   };

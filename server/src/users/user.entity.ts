@@ -49,5 +49,11 @@ export interface PublicUser {
 }
 
 export function toPublicUser(user: User): PublicUser {
-  return { id: user.id, email: user.email, displayName: user.displayName, role: user.role, active: user.active };
+  return {
+    id: user.id,
+    email: user.email,
+    displayName: user.displayName,
+    role: user.role,
+    active: user.active,
+  };
 }

@@ -24,7 +24,11 @@ export const createUserSchema = z.strictObject({
 export type CreateUserInput = z.infer<typeof createUserSchema>;
 
 export const updateUserSchema = z
-  .strictObject({ displayName: displayName.optional(), role: role.optional(), active: z.boolean().optional() })
+  .strictObject({
+    displayName: displayName.optional(),
+    role: role.optional(),
+    active: z.boolean().optional(),
+  })
   .refine((v) => v.displayName !== undefined || v.role !== undefined || v.active !== undefined, {
     message: 'give at least one of displayName, role, active',
   });

@@ -52,7 +52,8 @@ export class UsersService {
     dummyHash ??= bcrypt.hashSync('no such person', BCRYPT_ROUNDS);
     const hash = user?.passwordHash ?? dummyHash;
     const matches = await bcrypt.compare(password, hash);
-    if (!user || !user.passwordHash || !matches) throw AppError.unauthorized('E-mail or password is not correct.');
+    if (!user || !user.passwordHash || !matches)
+      throw AppError.unauthorized('E-mail or password is not correct.');
     if (!user.active) throw AppError.unauthorized('This account is deactivated; ask an administrator.');
     return user;
   }
@@ -83,11 +84,16 @@ export class UsersService {
   async update(id: number, input: UpdateUserInput, actingUserId: number): Promise<PublicUser> {
     const user = await this.findById(id);
     if (!user) throw AppError.notFound(`No person with id ${id}.`);
-    const losesAdmin = user.role === 'admin' && user.active && (input.active === false || (input.role && input.role !== 'admin'));
+    const losesAdmin =
+      user.role === 'admin' &&
+      user.active &&
+      (input.active === false || (input.role && input.role !== 'admin'));
     if (losesAdmin) {
       const activeAdmins = await this.users.countBy({ role: 'admin', active: true });
-      if (activeAdmins <= 1) throw AppError.conflict('This is the last active administrator; appoint another one first.');
-      if (id === actingUserId && input.active === false) throw AppError.conflict('You cannot deactivate your own account.');
+      if (activeAdmins <= 1)
+        throw AppError.conflict('This is the last active administrator; appoint another one first.');
+      if (id === actingUserId && input.active === false)
+        throw AppError.conflict('You cannot deactivate your own account.');
     }
     if (input.displayName !== undefined) user.displayName = input.displayName;
     if (input.role !== undefined) user.role = input.role as Role;

@@ -2,7 +2,11 @@ import type { Routes } from '@angular/router';
 import { roleGuard, signedInGuard } from './core/auth/auth.guards';
 
 export const routes: Routes = [
-  { path: 'sign-in', title: 'Sign in · Equilight', loadComponent: () => import('./auth/sign-in/sign-in-page').then((m) => m.SignInPage) },
+  {
+    path: 'sign-in',
+    title: 'Sign in · Equilight',
+    loadComponent: () => import('./auth/sign-in/sign-in-page').then((m) => m.SignInPage),
+  },
   {
     path: 'set-password',
     title: 'Set your password · Equilight',
@@ -13,7 +17,12 @@ export const routes: Routes = [
     canActivate: [signedInGuard],
     loadComponent: () => import('./core/shell/shell').then((m) => m.Shell),
     children: [
-      { path: '', pathMatch: 'full', title: 'Overview · Equilight', loadComponent: () => import('./home/home-page').then((m) => m.HomePage) },
+      {
+        path: '',
+        pathMatch: 'full',
+        title: 'Overview · Equilight',
+        loadComponent: () => import('./home/home-page').then((m) => m.HomePage),
+      },
       {
         path: 'people',
         title: 'People · Equilight',

@@ -10,7 +10,9 @@ describe('sign-in', () => {
 
   it('when the password is right then it answers the user without secrets', async () => {
     const a = await t.agent();
-    const res = await a.post('/api/auth/login').send({ email: 'Scientist@Equilight.test', password: DEMO_PASSWORD });
+    const res = await a
+      .post('/api/auth/login')
+      .send({ email: 'Scientist@Equilight.test', password: DEMO_PASSWORD });
     expect(res.status).toBe(200);
     expect(res.body).toEqual({
       id: expect.any(Number),
@@ -27,14 +29,18 @@ describe('sign-in', () => {
 
   it('when the password is wrong then 401 with a clear message', async () => {
     const a = await t.agent();
-    const res = await a.post('/api/auth/login').send({ email: DEMO_EMAILS.admin, password: 'not-the-password' });
+    const res = await a
+      .post('/api/auth/login')
+      .send({ email: DEMO_EMAILS.admin, password: 'not-the-password' });
     expect(res.status).toBe(401);
     expect(res.body.error).toEqual({ code: 'unauthorized', message: 'E-mail or password is not correct.' });
   });
 
   it('when the e-mail is unknown then the same 401 message', async () => {
     const a = await t.agent();
-    const res = await a.post('/api/auth/login').send({ email: 'nobody@equilight.test', password: DEMO_PASSWORD });
+    const res = await a
+      .post('/api/auth/login')
+      .send({ email: 'nobody@equilight.test', password: DEMO_PASSWORD });
     expect(res.status).toBe(401);
     expect(res.body.error.message).toBe('E-mail or password is not correct.');
   });
@@ -51,7 +57,11 @@ describe('sign-in', () => {
     ['empty', {}, /email/],
     ['without password', { email: DEMO_EMAILS.admin }, /password/],
     ['an over-long e-mail', { email: 'x'.repeat(300), password: 'p' }, /email: must be at most 254/],
-    ['an over-long password', { email: DEMO_EMAILS.admin, password: 'p'.repeat(500) }, /password: must be at most 200/],
+    [
+      'an over-long password',
+      { email: DEMO_EMAILS.admin, password: 'p'.repeat(500) },
+      /password: must be at most 200/,
+    ],
     ['an unknown field', { email: DEMO_EMAILS.admin, password: DEMO_PASSWORD, extra: 1 }, /extra/],
   ])('when the body is %s then 400 naming the field', async (_label, body, message) => {
     const a = await t.agent();
@@ -68,7 +78,9 @@ describe('sign-in', () => {
   });
 
   it('when a mutating request lacks the XSRF header then 403', async () => {
-    const res = await request(t.app).post('/api/auth/login').send({ email: DEMO_EMAILS.admin, password: DEMO_PASSWORD });
+    const res = await request(t.app)
+      .post('/api/auth/login')
+      .send({ email: DEMO_EMAILS.admin, password: DEMO_PASSWORD });
     expect(res.status).toBe(403);
     expect(res.body.error.code).toBe('csrf');
   });
@@ -118,7 +130,9 @@ describe('sign-in rate limit', () => {
     const a = await t.agent();
     const statuses: number[] = [];
     for (let i = 0; i < 5; i++) {
-      statuses.push((await a.post('/api/auth/login').send({ email: DEMO_EMAILS.admin, password: 'wrong-one' })).status);
+      statuses.push(
+        (await a.post('/api/auth/login').send({ email: DEMO_EMAILS.admin, password: 'wrong-one' })).status,
+      );
     }
     expect(statuses).toEqual([401, 401, 401, 429, 429]);
   });

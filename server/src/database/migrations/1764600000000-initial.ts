@@ -10,7 +10,13 @@ export class Initial1764600000000 implements MigrationInterface {
       new Table({
         name: 'users',
         columns: [
-          { name: 'id', type: 'integer', isPrimary: true, isGenerated: true, generationStrategy: 'increment' },
+          {
+            name: 'id',
+            type: 'integer',
+            isPrimary: true,
+            isGenerated: true,
+            generationStrategy: 'increment',
+          },
           { name: 'email', type: 'varchar', length: '254', isUnique: true },
           { name: 'display_name', type: 'varchar', length: '120' },
           { name: 'role', type: 'varchar', length: '20' },
@@ -33,7 +39,10 @@ export class Initial1764600000000 implements MigrationInterface {
         ],
       }),
     );
-    await queryRunner.createIndex('sessions', new TableIndex({ name: 'idx_sessions_expires_at', columnNames: ['expires_at'] }));
+    await queryRunner.createIndex(
+      'sessions',
+      new TableIndex({ name: 'idx_sessions_expires_at', columnNames: ['expires_at'] }),
+    );
   }
 
   async down(queryRunner: QueryRunner): Promise<void> {

@@ -17,7 +17,12 @@ describe('long table', () => {
       replicate: 1,
     });
     expect(run.readings[1].replicate).toBe(2);
-    expect(run.metadata).toEqual({ wavelengthsNm: [520], temperatureC: 25, readTime: '2025-03-14T09:12:11', extra: {} });
+    expect(run.metadata).toEqual({
+      wavelengthsNm: [520],
+      temperatureC: 25,
+      readTime: '2025-03-14T09:12:11',
+      extra: {},
+    });
     expect(run.warnings).toEqual([]);
   });
 
@@ -44,7 +49,10 @@ describe('long table', () => {
   });
 
   it.each([',', ';', '\t'] as const)('honours an explicit delimiter %j', async (delimiter) => {
-    const text = ['position', 'wavelength_nm', 'absorbance'].join(delimiter) + '\n' + ['A1', '520', '0.5'].join(delimiter);
+    const text =
+      ['position', 'wavelength_nm', 'absorbance'].join(delimiter) +
+      '\n' +
+      ['A1', '520', '0.5'].join(delimiter);
     const run = await parseInstrumentFile(Buffer.from(text), 'x.csv', { delimiter });
     expect(run.readings).toEqual([{ position: 'A1', wavelengthNm: 520, absorbance: 0.5 }]);
   });
@@ -87,14 +95,26 @@ describe('long table', () => {
     expect(utf16.readings.map((r) => r.position)).toEqual(['B7', 'B8']);
   });
 
+  it('warns when a latin1 profile reads what looks like UTF-8 text', async () => {
+    const text = 'position,wavelength_nm,absorbance,note\nA1,520,0.4,22 °C\n';
+    const run = await parseInstrumentFile(Buffer.from(text, 'utf8'), 'w.csv', { encoding: 'latin1' });
+    expect(run.readings).toHaveLength(1);
+    expect(run.warnings[0]).toMatch(
+      /^line 2 reads "Â°": the file may be UTF-8 although the profile says latin1$/,
+    );
+  });
+
   it('accepts quoted cells and empty trailing cells', async () => {
     const run = await parseInstrumentFile(good('long-quoted-trailing.csv'), 'q.csv');
     expect(run.readings.map((r) => r.absorbance)).toEqual([0.4215, 0.398, 0.3312]);
   });
 
   it('names the line of a quoted cell that spans lines correctly for later rows', async () => {
-    const text = 'position,wavelength_nm,absorbance,note\nA1,520,0.1,"two\nlines"\nA2,520,0.2,x\nQ99,520,0.3,x\n';
-    await expect(parseInstrumentFile(Buffer.from(text), 'm.csv')).rejects.toThrow(/^m\.csv line 5, column "position"/);
+    const text =
+      'position,wavelength_nm,absorbance,note\nA1,520,0.1,"two\nlines"\nA2,520,0.2,x\nQ99,520,0.3,x\n';
+    await expect(parseInstrumentFile(Buffer.from(text), 'm.csv')).rejects.toThrow(
+      /^m\.csv line 5, column "position"/,
+    );
   });
 
   it('reads a 384-well long table and refuses its far wells on a 96-well profile', async () => {
@@ -126,7 +146,8 @@ describe('plate grid', () => {
     const run = await parseInstrumentFile(good('grid-96-multi.csv'), 'g.csv', { format: 'plate_grid' });
     expect(run.readings).toHaveLength(3 * 96);
     expect(run.metadata.wavelengthsNm).toEqual([450, 520, 600]);
-    const find = (p: string, nm: number) => run.readings.find((r) => r.position === p && r.wavelengthNm === nm);
+    const find = (p: string, nm: number) =>
+      run.readings.find((r) => r.position === p && r.wavelengthNm === nm);
     expect(find('A1', 450)).toMatchObject({ absorbance: null, flag: 'saturated' });
     expect(find('D6', 520)).toMatchObject({ absorbance: null, flag: 'missing' });
     expect(find('H12', 600)).toMatchObject({ absorbance: null, flag: 'saturated' });
@@ -144,6 +165,17 @@ describe('plate grid', () => {
     expect(run.metadata.temperatureC).toBe(37);
     expect(run.readings.at(-1)?.position).toBe('P24');
     expect(run.readings.every((r) => r.absorbance !== null && r.absorbance > 0)).toBe(true);
+  });
+
+  it('ignores a value without a key, with a warning', async () => {
+    const grid = [
+      ',1,2,3,4,5,6,7,8,9,10,11,12',
+      ...'ABCDEFGH'.split('').map((r) => `${r}${',0.1'.repeat(12)}`),
+    ];
+    const text = ['wavelength_nm,520', ',Plate 1 of 1', ...grid].join('\n');
+    const run = await parseInstrumentFile(Buffer.from(text), 'g.csv', { format: 'plate_grid' });
+    expect(run.readings).toHaveLength(96);
+    expect(run.warnings).toEqual(['line 2: a value without a key was ignored']);
   });
 
   it('uses the default wavelength of the profile for a grid without a wavelength line (tab file)', async () => {
@@ -181,7 +213,10 @@ describe('spectrum', () => {
 
   it('uses a renamed wavelength column', async () => {
     const text = 'Lambda,A1\n400,0.2\n';
-    const run = await parseInstrumentFile(Buffer.from(text), 's.csv', { format: 'spectrum', spectrumWavelengthColumn: 'lambda' });
+    const run = await parseInstrumentFile(Buffer.from(text), 's.csv', {
+      format: 'spectrum',
+      spectrumWavelengthColumn: 'lambda',
+    });
     expect(run.readings).toEqual([{ position: 'A1', wavelengthNm: 400, absorbance: 0.2 }]);
   });
 });
@@ -191,9 +226,10 @@ describe('file names', () => {
     const name = '../../etc/passwd';
     const run = await parseInstrumentFile(good('long-basic.csv'), name);
     expect(run.readings).toHaveLength(8);
-    const error = await parseInstrumentFile(Buffer.from('position,wavelength_nm,absorbance\nQ99,520,1\n'), name).catch(
-      (e: unknown) => e,
-    );
+    const error = await parseInstrumentFile(
+      Buffer.from('position,wavelength_nm,absorbance\nQ99,520,1\n'),
+      name,
+    ).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ParseError);
     expect((error as ParseError).file).toBe(name);
     expect((error as ParseError).message.startsWith(`${name} line 2, column "position"`)).toBe(true);

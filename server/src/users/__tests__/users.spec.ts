@@ -18,9 +18,14 @@ describe('people API', () => {
     [
       'POST /api/users',
       (a: Awaited<ReturnType<typeof as>>) =>
-        a.post('/api/users').send({ email: `new-${Math.random()}@lab.test`, displayName: 'New', role: 'scientist' }),
+        a
+          .post('/api/users')
+          .send({ email: `new-${Math.random()}@lab.test`, displayName: 'New', role: 'scientist' }),
     ],
-    ['PATCH /api/users/:id', (a: Awaited<ReturnType<typeof as>>) => a.patch('/api/users/3').send({ displayName: 'Sam S.' })],
+    [
+      'PATCH /api/users/:id',
+      (a: Awaited<ReturnType<typeof as>>) => a.patch('/api/users/3').send({ displayName: 'Sam S.' }),
+    ],
   ])('%s', (_route, call) => {
     it.each(EVERYONE)('as %s', async (who) => {
       const res = await call(await as(who));
@@ -34,34 +39,82 @@ describe('people API', () => {
     const admin = await as('admin');
     const res = await admin
       .post('/api/users')
-      .send({ email: 'Lena.Lab@Example.test', displayName: 'Lena Lab', role: 'lab_manager', password: 'a-long-passphrase' });
+      .send({
+        email: 'Lena.Lab@Example.test',
+        displayName: 'Lena Lab',
+        role: 'lab_manager',
+        password: 'a-long-passphrase',
+      });
     expect(res.status).toBe(201);
-    expect(res.body.user).toMatchObject({ email: 'lena.lab@example.test', role: 'lab_manager', active: true });
+    expect(res.body.user).toMatchObject({
+      email: 'lena.lab@example.test',
+      role: 'lab_manager',
+      active: true,
+    });
     expect(res.body.setPasswordUrl).toBeUndefined();
     const lena = await t.agent();
-    const login = await lena.post('/api/auth/login').send({ email: 'lena.lab@example.test', password: 'a-long-passphrase' });
+    const login = await lena
+      .post('/api/auth/login')
+      .send({ email: 'lena.lab@example.test', password: 'a-long-passphrase' });
     expect(login.status).toBe(200);
   });
 
   it('when an admin invites a person then the one-time link sets the password once', async () => {
     const admin = await as('admin');
-    const res = await admin.post('/api/users').send({ email: 'invitee@lab.test', displayName: 'Invitee', role: 'scientist' });
+    const res = await admin
+      .post('/api/users')
+      .send({ email: 'invitee@lab.test', displayName: 'Invitee', role: 'scientist' });
     expect(res.status).toBe(201);
     const token = new URL(res.body.setPasswordUrl).searchParams.get('token');
     expect(token).toBeTruthy();
     const anon = await t.agent();
-    expect((await anon.post('/api/auth/login').send({ email: 'invitee@lab.test', password: 'anything-at-all' })).status).toBe(401);
-    expect((await anon.post('/api/auth/set-password').send({ token, password: 'invited-passphrase' })).status).toBe(200);
-    expect((await anon.post('/api/auth/set-password').send({ token, password: 'second-passphrase' })).status).toBe(400);
-    expect((await anon.post('/api/auth/login').send({ email: 'invitee@lab.test', password: 'invited-passphrase' })).status).toBe(200);
+    expect(
+      (await anon.post('/api/auth/login').send({ email: 'invitee@lab.test', password: 'anything-at-all' }))
+        .status,
+    ).toBe(401);
+    expect(
+      (await anon.post('/api/auth/set-password').send({ token, password: 'invited-passphrase' })).status,
+    ).toBe(200);
+    expect(
+      (await anon.post('/api/auth/set-password').send({ token, password: 'second-passphrase' })).status,
+    ).toBe(400);
+    expect(
+      (await anon.post('/api/auth/login').send({ email: 'invitee@lab.test', password: 'invited-passphrase' }))
+        .status,
+    ).toBe(200);
   });
 
   it.each([
-    ['a duplicate e-mail', { email: DEMO_EMAILS.admin, displayName: 'X', role: 'admin', password: 'long-enough-1' }, 409, /already exists/],
-    ['an unknown role', { email: 'r@lab.test', displayName: 'R', role: 'wizard' }, 400, /role: must be one of/],
-    ['a short password', { email: 's@lab.test', displayName: 'S', role: 'scientist', password: 'short' }, 400, /password: must be at least 10/],
-    ['a bad e-mail', { email: 'not-an-email', displayName: 'S', role: 'scientist' }, 400, /email: must be an e-mail/],
-    ['an over-long name', { email: 'n@lab.test', displayName: 'n'.repeat(200), role: 'scientist' }, 400, /displayName: must be at most 120/],
+    [
+      'a duplicate e-mail',
+      { email: DEMO_EMAILS.admin, displayName: 'X', role: 'admin', password: 'long-enough-1' },
+      409,
+      /already exists/,
+    ],
+    [
+      'an unknown role',
+      { email: 'r@lab.test', displayName: 'R', role: 'wizard' },
+      400,
+      /role: must be one of/,
+    ],
+    [
+      'a short password',
+      { email: 's@lab.test', displayName: 'S', role: 'scientist', password: 'short' },
+      400,
+      /password: must be at least 10/,
+    ],
+    [
+      'a bad e-mail',
+      { email: 'not-an-email', displayName: 'S', role: 'scientist' },
+      400,
+      /email: must be an e-mail/,
+    ],
+    [
+      'an over-long name',
+      { email: 'n@lab.test', displayName: 'n'.repeat(200), role: 'scientist' },
+      400,
+      /displayName: must be at most 120/,
+    ],
   ])('when the new person has %s then a clear error', async (_label, body, status, message) => {
     const res = await (await as('admin')).post('/api/users').send(body);
     expect(res.status).toBe(status);
@@ -72,11 +125,18 @@ describe('people API', () => {
     const admin = await as('admin');
     const created = await admin
       .post('/api/users')
-      .send({ email: 'mover@lab.test', displayName: 'Mover', role: 'scientist', password: 'mover-passphrase' });
+      .send({
+        email: 'mover@lab.test',
+        displayName: 'Mover',
+        role: 'scientist',
+        password: 'mover-passphrase',
+      });
     const mover = await t.agent();
     await mover.post('/api/auth/login').send({ email: 'mover@lab.test', password: 'mover-passphrase' });
     expect((await mover.get('/api/users')).status).toBe(403);
-    expect((await admin.patch(`/api/users/${created.body.user.id}`).send({ role: 'admin' })).status).toBe(200);
+    expect((await admin.patch(`/api/users/${created.body.user.id}`).send({ role: 'admin' })).status).toBe(
+      200,
+    );
     expect((await mover.get('/api/users')).status).toBe(200);
   });
 
@@ -84,13 +144,24 @@ describe('people API', () => {
     const admin = await as('admin');
     const created = await admin
       .post('/api/users')
-      .send({ email: 'leaver@lab.test', displayName: 'Leaver', role: 'scientist', password: 'leaver-passphrase' });
+      .send({
+        email: 'leaver@lab.test',
+        displayName: 'Leaver',
+        role: 'scientist',
+        password: 'leaver-passphrase',
+      });
     const leaver = await t.agent();
     await leaver.post('/api/auth/login').send({ email: 'leaver@lab.test', password: 'leaver-passphrase' });
     expect((await leaver.get('/api/auth/me')).status).toBe(200);
-    expect((await admin.patch(`/api/users/${created.body.user.id}`).send({ active: false })).status).toBe(200);
+    expect((await admin.patch(`/api/users/${created.body.user.id}`).send({ active: false })).status).toBe(
+      200,
+    );
     expect((await leaver.get('/api/auth/me')).status).toBe(401);
-    const again = await (await t.agent()).post('/api/auth/login').send({ email: 'leaver@lab.test', password: 'leaver-passphrase' });
+    const again = await (
+      await t.agent()
+    )
+      .post('/api/auth/login')
+      .send({ email: 'leaver@lab.test', password: 'leaver-passphrase' });
     expect(again.status).toBe(401);
     expect(again.body.error.message).toMatch(/deactivated/);
   });

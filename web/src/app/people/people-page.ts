@@ -1,4 +1,12 @@
-import { ChangeDetectionStrategy, Component, type OnInit, effect, inject, signal, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  type OnInit,
+  effect,
+  inject,
+  signal,
+  viewChild,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatChipsModule } from '@angular/material/chips';
 import { MatDialog } from '@angular/material/dialog';
@@ -16,7 +24,15 @@ import { PersonDialog, type PersonDialogData, type PersonDialogResult } from './
 /** Admins: everyone who may sign in, with their role and whether they are active. */
 @Component({
   selector: 'eq-people-page',
-  imports: [MatTableModule, MatSortModule, MatFormFieldModule, MatInputModule, MatButtonModule, MatIconModule, MatChipsModule],
+  imports: [
+    MatTableModule,
+    MatSortModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatButtonModule,
+    MatIconModule,
+    MatChipsModule,
+  ],
   templateUrl: './people-page.html',
   styleUrl: './people-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -73,7 +89,10 @@ export class PeoplePage implements OnInit {
 
   protected openDialog(person?: User): void {
     this.dialog
-      .open<PersonDialog, PersonDialogData, PersonDialogResult>(PersonDialog, { data: { person }, width: '480px' })
+      .open<PersonDialog, PersonDialogData, PersonDialogResult>(PersonDialog, {
+        data: { person },
+        width: '480px',
+      })
       .afterClosed()
       .subscribe((result) => {
         if (!result) return;

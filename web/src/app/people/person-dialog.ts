@@ -17,7 +17,8 @@ export interface PersonDialogData {
   person?: User;
 }
 
-export type PersonDialogResult = { kind: 'created'; created: CreatedPerson } | { kind: 'updated'; user: User };
+export type PersonDialogResult =
+  { kind: 'created'; created: CreatedPerson } | { kind: 'updated'; user: User };
 
 @Component({
   selector: 'eq-person-dialog',
@@ -42,7 +43,10 @@ export class PersonDialog {
   protected readonly editing = !!this.data.person;
 
   protected readonly form = inject(FormBuilder).nonNullable.group({
-    email: [this.data.person?.email ?? '', [Validators.required, Validators.email, Validators.maxLength(254)]],
+    email: [
+      this.data.person?.email ?? '',
+      [Validators.required, Validators.email, Validators.maxLength(254)],
+    ],
     displayName: [this.data.person?.displayName ?? '', [Validators.required, Validators.maxLength(120)]],
     role: [this.data.person?.role ?? ('scientist' as Role), Validators.required],
     access: ['invite' as 'invite' | 'password'],
@@ -66,7 +70,11 @@ export class PersonDialog {
     try {
       if (this.data.person) {
         const user = await firstValueFrom(
-          this.people.update(this.data.person.id, { displayName: v.displayName, role: v.role, active: v.active }),
+          this.people.update(this.data.person.id, {
+            displayName: v.displayName,
+            role: v.role,
+            active: v.active,
+          }),
         );
         this.dialogRef.close({ kind: 'updated', user });
       } else {

@@ -12,14 +12,25 @@ import { apiErrorMessage } from '../../core/http/auth.interceptor';
 /** Redeem a one-time invitation or reset link. */
 @Component({
   selector: 'eq-set-password-page',
-  imports: [ReactiveFormsModule, MatCardModule, MatFormFieldModule, MatInputModule, MatButtonModule, RouterLink],
+  imports: [
+    ReactiveFormsModule,
+    MatCardModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatButtonModule,
+    RouterLink,
+  ],
   template: `
     <div class="eq-center">
       <mat-card appearance="outlined" class="eq-card">
-        <mat-card-header><mat-card-title><h1>Set your password</h1></mat-card-title></mat-card-header>
+        <mat-card-header
+          ><mat-card-title><h1>Set your password</h1></mat-card-title></mat-card-header
+        >
         @if (done()) {
           <mat-card-content><p role="status">Your password is set. You can sign in now.</p></mat-card-content>
-          <mat-card-actions align="end"><a mat-flat-button routerLink="/sign-in">Sign in</a></mat-card-actions>
+          <mat-card-actions align="end"
+            ><a mat-flat-button routerLink="/sign-in">Sign in</a></mat-card-actions
+          >
         } @else {
           <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
             <mat-card-content>
@@ -65,7 +76,10 @@ export class SetPasswordPage {
     this.error.set(null);
     try {
       await firstValueFrom(
-        this.http.post('/api/auth/set-password', { token: this.token(), password: this.form.getRawValue().password }),
+        this.http.post('/api/auth/set-password', {
+          token: this.token(),
+          password: this.form.getRawValue().password,
+        }),
       );
       this.done.set(true);
     } catch (err) {

@@ -12,7 +12,15 @@ import { apiErrorMessage } from '../../core/http/auth.interceptor';
 
 @Component({
   selector: 'eq-sign-in-page',
-  imports: [ReactiveFormsModule, MatCardModule, MatFormFieldModule, MatInputModule, MatButtonModule, MatIconModule, MatProgressBarModule],
+  imports: [
+    ReactiveFormsModule,
+    MatCardModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+  ],
   templateUrl: './sign-in-page.html',
   styleUrl: './sign-in-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -42,7 +50,8 @@ export class SignInPage {
     try {
       const { email, password } = this.form.getRawValue();
       await this.auth.signIn(email, password);
-      const target = this.returnUrl()?.startsWith('/') && !this.returnUrl().startsWith('//') ? this.returnUrl() : '/';
+      const target =
+        this.returnUrl()?.startsWith('/') && !this.returnUrl().startsWith('//') ? this.returnUrl() : '/';
       await this.router.navigateByUrl(target === '/sign-in' ? '/' : target);
     } catch (err) {
       this.error.set(apiErrorMessage(err, 'Sign-in failed; try again.'));
