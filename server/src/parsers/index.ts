@@ -1,3 +1,4 @@
+/** Instrument-file and manifest parsers: raw export bytes in, readings or sample definitions out. */
 export type { Reading, SampleDefinition } from '../analysis/types';
 export { ParseError } from './parse-error';
 export {
