@@ -31,7 +31,9 @@ async function readInput(path: string): Promise<Buffer> {
   try {
     return await readFile(path);
   } catch (e) {
-    throw new UsageError(`${path}: cannot be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+    throw new UsageError(
+      `${path}: cannot be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`,
+    );
   }
 }
 
@@ -64,8 +66,18 @@ export function toCliJson(r: BatchResult): Record<string, unknown> {
       loq: cal.loqM,
       n: cal.n,
     },
-    unknowns: r.unknowns.map((u) => ({ sample_id: u.sampleId, concentration_M: u.concentrationM, se_M: u.seM, flags: u.flags })),
-    mixtures: r.mixtures.map((m) => ({ sample_id: m.sampleId, a0_M: m.a0M, b0_M: m.b0M, product_M: m.productM })),
+    unknowns: r.unknowns.map((u) => ({
+      sample_id: u.sampleId,
+      concentration_M: u.concentrationM,
+      se_M: u.seM,
+      flags: u.flags,
+    })),
+    mixtures: r.mixtures.map((m) => ({
+      sample_id: m.sampleId,
+      a0_M: m.a0M,
+      b0_M: m.b0M,
+      product_M: m.productM,
+    })),
     stoichiometry: (r.stoichiometry?.candidates ?? []).map((c) => ({
       model: c.model,
       K_mean: c.kMean,
@@ -88,7 +100,11 @@ export function toCliJson(r: BatchResult): Record<string, unknown> {
       K_mc_ci95: r.uncertainty.monteCarlo?.kCi95 ?? null,
       mc_draws: r.uncertainty.monteCarlo?.draws ?? 0,
     },
-    job: r.job && { max_mole_fraction_b: r.job.maxMoleFractionB, nearest_model: r.job.nearestModel, n: r.job.n },
+    job: r.job && {
+      max_mole_fraction_b: r.job.maxMoleFractionB,
+      nearest_model: r.job.nearestModel,
+      n: r.job.n,
+    },
     benesi_hildebrand: r.benesiHildebrand && {
       applicable: r.benesiHildebrand.applicable,
       K: r.benesiHildebrand.result?.k ?? null,
@@ -100,11 +116,14 @@ export function toCliJson(r: BatchResult): Record<string, unknown> {
   };
 }
 
-const g = (v: number | null | undefined, digits = 4): string => (v === null || v === undefined ? '—' : v.toPrecision(digits));
+const g = (v: number | null | undefined, digits = 4): string =>
+  v === null || v === undefined ? '—' : v.toPrecision(digits);
 
 function summary(r: BatchResult): string {
   const out: string[] = [];
-  out.push(`Wavelength ${r.wavelengthNm ?? '—'} nm, path ${r.pathLengthCm} cm; blank ${g(r.blank.meanAbsorbance, 3)} (n = ${r.blank.n})`);
+  out.push(
+    `Wavelength ${r.wavelengthNm ?? '—'} nm, path ${r.pathLengthCm} cm; blank ${g(r.blank.meanAbsorbance, 3)} (n = ${r.blank.n})`,
+  );
   const c = r.calibration;
   if (c) {
     out.push(
@@ -114,7 +133,9 @@ function summary(r: BatchResult): string {
     );
   } else out.push('Calibration: none');
   for (const u of r.unknowns) {
-    out.push(`  ${u.sampleId}: ${g(u.concentrationM)} ± ${g(u.seM, 2)} M (×${u.dilutionFactor}${u.flags.length ? `; ${u.flags.join(', ')}` : ''})`);
+    out.push(
+      `  ${u.sampleId}: ${g(u.concentrationM)} ± ${g(u.seM, 2)} M (×${u.dilutionFactor}${u.flags.length ? `; ${u.flags.join(', ')}` : ''})`,
+    );
   }
   if (r.mixtures.length) out.push(`Mixtures: ${r.mixtures.length}`);
   for (const s of r.stoichiometry?.candidates ?? []) {
@@ -126,11 +147,21 @@ function summary(r: BatchResult): string {
   }
   if (r.stoichiometry) out.push(`Verdict: ${r.stoichiometry.verdict}`);
   const u = r.uncertainty;
-  if (u?.propagation) out.push(`Uncertainty of K (${u.model}): ±${(u.propagation.lnKSd * 100).toFixed(1)} % (first order)`);
-  if (u?.monteCarlo) out.push(`  Monte Carlo (${u.monteCarlo.draws} draws): 95 % [${g(u.monteCarlo.kCi95[0])}, ${g(u.monteCarlo.kCi95[1])}]`);
-  if (r.job?.maxMoleFractionB != null) out.push(`Job's plot: maximum at x_B = ${r.job.maxMoleFractionB.toFixed(3)} (nearest ${r.job.nearestModel})`);
+  if (u?.propagation)
+    out.push(`Uncertainty of K (${u.model}): ±${(u.propagation.lnKSd * 100).toFixed(1)} % (first order)`);
+  if (u?.monteCarlo)
+    out.push(
+      `  Monte Carlo (${u.monteCarlo.draws} draws): 95 % [${g(u.monteCarlo.kCi95[0])}, ${g(u.monteCarlo.kCi95[1])}]`,
+    );
+  if (r.job?.maxMoleFractionB != null)
+    out.push(
+      `Job's plot: maximum at x_B = ${r.job.maxMoleFractionB.toFixed(3)} (nearest ${r.job.nearestModel})`,
+    );
   const bh = r.benesiHildebrand;
-  if (bh?.result?.k != null) out.push(`Benesi–Hildebrand (1:1): K = ${g(bh.result.k)} (×${g(bh.kRatioToGlobalFit, 3)} of the global fit)`);
+  if (bh?.result?.k != null)
+    out.push(
+      `Benesi–Hildebrand (1:1): K = ${g(bh.result.k)} (×${g(bh.kRatioToGlobalFit, 3)} of the global fit)`,
+    );
   for (const f of r.qc) out.push(`QC ${f.severity}: ${f.message}`);
   for (const w of r.warnings) out.push(`Warning: ${w}`);
   return out.join('\n');
@@ -172,7 +203,9 @@ async function main(): Promise<number> {
       : values.plate === 'cuvette'
         ? 'cuvette'
         : (Number(values.plate) as 96 | 384);
-  const run = await parseInstrumentFile(await readInput(values.readings), basename(values.readings), { plateFormat });
+  const run = await parseInstrumentFile(await readInput(values.readings), basename(values.readings), {
+    plateFormat,
+  });
   const result = analyzeBatch(run.readings, manifest.samples, {
     wavelengthNm: wavelengthNm ?? null,
     pathLengthCm,
@@ -193,7 +226,10 @@ main().then(
     } else if (e instanceof AnalysisError) {
       process.stderr.write(`analyze: ${e.message}\n`);
       process.exitCode = 1;
-    } else if (e instanceof TypeError && (e as NodeJS.ErrnoException).code === 'ERR_PARSE_ARGS_UNKNOWN_OPTION') {
+    } else if (
+      e instanceof TypeError &&
+      (e as NodeJS.ErrnoException).code === 'ERR_PARSE_ARGS_UNKNOWN_OPTION'
+    ) {
       process.stderr.write(`analyze: ${(e as Error).message}\n${USAGE}\n`);
       process.exitCode = 2;
     } else {

@@ -38,7 +38,13 @@ const pos = (): string => `C${next++}`;
 rows.push({ position: pos(), sampleId: 'BLK-1', role: 'blank', replicateGroup: 'BLK', complexM: 0 });
 rows.push({ position: pos(), sampleId: 'BLK-1', role: 'blank', replicateGroup: 'BLK', complexM: 0 });
 for (const c of [1e-4, 2e-4, 3e-4, 4e-4, 5e-4, 6e-4, 7e-4]) {
-  rows.push({ position: pos(), sampleId: `STD-${(c * 1e6).toFixed(0)}uM`, role: 'standard', concentrationM: c, complexM: c });
+  rows.push({
+    position: pos(),
+    sampleId: `STD-${(c * 1e6).toFixed(0)}uM`,
+    role: 'standard',
+    concentrationM: c,
+    complexM: c,
+  });
 }
 for (const [id, cInCuvette, dilution] of [
   ['SMP-017', 2.4e-4, 1],
@@ -46,7 +52,14 @@ for (const [id, cInCuvette, dilution] of [
   ['SMP-019', 4.6e-4, 10],
 ] as const) {
   for (let r = 0; r < 2; r++) {
-    rows.push({ position: pos(), sampleId: id, role: 'unknown', dilutionFactor: dilution, replicateGroup: id, complexM: cInCuvette });
+    rows.push({
+      position: pos(),
+      sampleId: id,
+      role: 'unknown',
+      dilutionFactor: dilution,
+      replicateGroup: id,
+      complexM: cInCuvette,
+    });
   }
 }
 // Job's series: stocks 5.00 mM, 4.00 mL of reactants made up to 10.00 mL (A₀ + B₀ = 2.00 mM).
@@ -85,12 +98,24 @@ for (const [i, volumeBMl] of [0.4, 0.6, 0.8, 1.2, 1.6, 2.0].entries()) {
   });
 }
 
-const num = (v: number | undefined, digits = 6): string => (v === undefined ? '' : Number(v.toPrecision(digits)).toString());
+const num = (v: number | undefined, digits = 6): string =>
+  v === undefined ? '' : Number(v.toPrecision(digits)).toString();
 const manifest = [
   'position,sample_id,role,concentration_M,dilution_factor,stock_a_M,volume_a_mL,stock_b_M,volume_b_mL,total_volume_mL,replicate_group',
   ...rows.map((r) =>
-    [r.position, r.sampleId, r.role, num(r.concentrationM), num(r.dilutionFactor), num(r.stockAM), num(r.volumeAMl),
-      num(r.stockBM), num(r.volumeBMl), num(r.totalVolumeMl), r.replicateGroup ?? ''].join(','),
+    [
+      r.position,
+      r.sampleId,
+      r.role,
+      num(r.concentrationM),
+      num(r.dilutionFactor),
+      num(r.stockAM),
+      num(r.volumeAMl),
+      num(r.stockBM),
+      num(r.volumeBMl),
+      num(r.totalVolumeMl),
+      r.replicateGroup ?? '',
+    ].join(','),
   ),
 ];
 const readings = [

@@ -12,6 +12,14 @@ import { SessionRow } from './auth/session.entity';
 import { TypeOrmSessionStore } from './auth/typeorm-session-store';
 import { apiNotFound, createErrorHandler } from './common/error-handler';
 import type { AppConfig } from './config';
+import { EventBus } from './events/event-bus';
+import { RawFileArchive } from './ingest/archive';
+import { type IngestJobData, IngestService } from './ingest/ingest.service';
+import { ingestRouter } from './ingest/ingest.router';
+import { intakeRouter } from './ingest/intake.router';
+import { instrumentsRouter } from './instruments/instruments.router';
+import { InstrumentsService } from './instruments/instruments.service';
+import { SqliteJobQueue, SqliteJobWorker } from './queue/sqlite-queue';
 import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
 
@@ -27,8 +35,13 @@ export interface EquilightApp {
   app: Express;
   /** The session middleware, for authenticating WebSocket upgrades with the same cookie. */
   sessionParser: RequestHandler;
-  services: { users: UsersService };
-  close(): void;
+  services: { users: UsersService; instruments: InstrumentsService; ingest: IngestService };
+  events: EventBus;
+  worker: SqliteJobWorker<IngestJobData>;
+  /** Start background work: resume queued jobs left by a previous run. */
+  start(): Promise<void>;
+  /** Stop background work and wait for running jobs. */
+  close(): Promise<void>;
 }
 
 /** Build the Express app without listening: tests drive it with supertest. */
@@ -36,6 +49,18 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   const users = new UsersService(dataSource);
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
   const passport = createPassport(users);
+  const events = new EventBus();
+  const instruments = new InstrumentsService(dataSource);
+  const queue = new SqliteJobQueue<IngestJobData>('ingest', dataSource);
+  const ingest = new IngestService(
+    dataSource,
+    new RawFileArchive(path.join(config.dataDir, 'archive')),
+    queue,
+    events,
+  );
+  const worker = new SqliteJobWorker(queue, (job) => ingest.process(job), { concurrency: 2 });
+  worker.on('failed', (job, err) => log(`Ingest job ${job.id} failed after ${job.attemptsMade} tries`, err));
+  worker.on('error', (err) => log('Ingest worker error', err));
 
   const app = express();
   app.disable('x-powered-by');
@@ -74,13 +99,31 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   api.use(sessionParser, passport.initialize(), passport.session());
   api.use('/auth', authRouter(passport, users, config.loginRateLimit));
   api.use('/users', usersRouter(users, config.publicUrl));
+  api.use('/instruments', instrumentsRouter(instruments, config.uploadMaxBytes));
+  api.use('/ingest', ingestRouter(ingest, instruments, config.uploadMaxBytes));
+  api.use('/intake', intakeRouter(ingest));
   api.use(apiNotFound);
   app.use('/api', api);
 
   serveWebApp(app, config.webDistDir);
   app.use(createErrorHandler(log));
 
-  return { app, sessionParser, services: { users }, close: () => store.close() };
+  return {
+    app,
+    sessionParser,
+    services: { users, instruments, ingest },
+    events,
+    worker,
+    async start() {
+      await worker.start();
+      await ingest.recoverUnqueued();
+    },
+    async close() {
+      await worker.close();
+      await queue.close();
+      store.close();
+    },
+  };
 }
 
 /** Serve the built Angular app, with index.html for any client route. */

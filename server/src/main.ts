@@ -2,6 +2,7 @@ import http from 'node:http';
 import { createApp } from './app';
 import { ConfigError, loadConfig } from './config';
 import { openDatabase } from './database/data-source';
+import { attachLiveEvents } from './events/live-events';
 import { seedDemoPeople } from './seed/demo-people';
 
 async function main(): Promise<void> {
@@ -12,6 +13,12 @@ async function main(): Promise<void> {
     console.log('Seeded demo people (admin@, manager@, scientist@equilight.test) with the demo password.');
   }
   const server = http.createServer(equilight.app);
+  const live = attachLiveEvents(server, {
+    sessionParser: equilight.sessionParser,
+    users: equilight.services.users,
+    events: equilight.events,
+  });
+  await equilight.start();
   await new Promise<void>((resolve) => server.listen(config.port, config.host, resolve));
   console.log(
     `Equilight listening on http://${config.host === '0.0.0.0' ? 'localhost' : config.host}:${config.port}`,
@@ -22,9 +29,10 @@ async function main(): Promise<void> {
     if (stopping) return;
     stopping = true;
     console.log(`${signal}: shutting down`);
+    live.close();
     server.closeAllConnections();
     await new Promise<void>((resolve) => server.close(() => resolve()));
-    equilight.close();
+    await equilight.close();
     await dataSource.destroy();
     process.exit(0);
   };

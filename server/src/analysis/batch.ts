@@ -52,7 +52,11 @@ function comparePositions(a: string, b: string): number {
   return a < b ? -1 : a > b ? 1 : 0;
 }
 
-function chooseWavelength(readings: readonly Reading[], s: ResolvedAnalysisSettings, warnings: string[]): number | null {
+function chooseWavelength(
+  readings: readonly Reading[],
+  s: ResolvedAnalysisSettings,
+  warnings: string[],
+): number | null {
   if (s.wavelengthNm !== null) return s.wavelengthNm;
   const counts = new Map<number, number>();
   for (const r of readings) counts.set(r.wavelengthNm, (counts.get(r.wavelengthNm) ?? 0) + 1);
@@ -108,7 +112,16 @@ export function analyzeBatch(
     message: string,
     extra: Partial<Pick<QcFlag, 'position' | 'sampleId' | 'value' | 'threshold'>> = {},
   ): void => {
-    qc.push({ code, severity, message, position: null, sampleId: null, value: null, threshold: null, ...extra });
+    qc.push({
+      code,
+      severity,
+      message,
+      position: null,
+      sampleId: null,
+      value: null,
+      threshold: null,
+      ...extra,
+    });
   };
   let mark = instrumentation?.clock() ?? 0;
   const step = (name: string): void => {
@@ -140,7 +153,9 @@ export function analyzeBatch(
       warnings.push(`exclusion of ${e.position} matches no position in this batch`);
     }
   }
-  const allPositions = [...new Set([...sampleByPosition.keys(), ...readsByPosition.keys()])].sort(comparePositions);
+  const allPositions = [...new Set([...sampleByPosition.keys(), ...readsByPosition.keys()])].sort(
+    comparePositions,
+  );
   const positions: PositionResult[] = allPositions.map((position) => {
     const sample = sampleByPosition.get(position);
     const reads = readsByPosition.get(position) ?? [];
@@ -159,7 +174,8 @@ export function analyzeBatch(
     };
     const finiteReads = reads.filter((r) => r.absorbance !== null && Number.isFinite(r.absorbance));
     if (finiteReads.length > 0) {
-      base.absorbanceRaw = finiteReads.reduce((sum, r) => sum + (r.absorbance as number), 0) / finiteReads.length;
+      base.absorbanceRaw =
+        finiteReads.reduce((sum, r) => sum + (r.absorbance as number), 0) / finiteReads.length;
     }
     if (!sample) base.status = 'no-sample';
     else if (exclusionByPosition.has(position)) {
@@ -172,21 +188,30 @@ export function analyzeBatch(
     return base;
   });
   const unassigned = positions.filter((p) => p.status === 'no-sample').map((p) => p.position);
-  if (unassigned.length) warnings.push(`readings at ${unassigned.join(', ')} have no manifest row and were not used`);
+  if (unassigned.length)
+    warnings.push(`readings at ${unassigned.join(', ')} have no manifest row and were not used`);
   const unread = positions.filter((p) => p.status === 'no-reading').map((p) => p.position);
   if (unread.length) warnings.push(`no reading at ${wavelengthNm ?? '?'} nm for ${unread.join(', ')}`);
   for (const p of positions) {
     if (p.status === 'saturated') {
-      flag('saturated-reading', 'warning', `${p.position}: saturated reading skipped`, { position: p.position, sampleId: p.sampleId });
+      flag('saturated-reading', 'warning', `${p.position}: saturated reading skipped`, {
+        position: p.position,
+        sampleId: p.sampleId,
+      });
     } else if (p.status === 'missing') {
-      flag('missing-reading', 'warning', `${p.position}: missing reading skipped`, { position: p.position, sampleId: p.sampleId });
+      flag('missing-reading', 'warning', `${p.position}: missing reading skipped`, {
+        position: p.position,
+        sampleId: p.sampleId,
+      });
     }
   }
   step('positions');
 
   // Blank correction and path-length scaling.
   const blank = blankCorrection(
-    positions.filter((p) => p.role === 'blank' && p.status === 'used').map((p) => ({ position: p.position, absorbance: p.absorbanceRaw })),
+    positions
+      .filter((p) => p.role === 'blank' && p.status === 'used')
+      .map((p) => ({ position: p.position, absorbance: p.absorbanceRaw })),
   );
   if (blank.n === 0) warnings.push('no usable blank: absorbances are used as read');
   for (const p of positions) {
@@ -194,20 +219,30 @@ export function analyzeBatch(
     p.absorbanceCorrected = (p.absorbanceRaw - blank.meanAbsorbance) * (s.pathLengthCm / p.pathLengthCm);
     if (p.role === 'blank') continue;
     if (p.absorbanceCorrected < -s.negativeAbsorbanceTolerance) {
-      flag('negative-absorbance', 'warning', `${p.position}: corrected absorbance ${p.absorbanceCorrected.toFixed(4)} is negative`, {
-        position: p.position,
-        sampleId: p.sampleId,
-        value: p.absorbanceCorrected,
-        threshold: -s.negativeAbsorbanceTolerance,
-      });
+      flag(
+        'negative-absorbance',
+        'warning',
+        `${p.position}: corrected absorbance ${p.absorbanceCorrected.toFixed(4)} is negative`,
+        {
+          position: p.position,
+          sampleId: p.sampleId,
+          value: p.absorbanceCorrected,
+          threshold: -s.negativeAbsorbanceTolerance,
+        },
+      );
     }
     if (p.absorbanceCorrected > s.linearRangeMaxAbsorbance) {
-      flag('above-linear-range', 'warning', `${p.position}: absorbance ${p.absorbanceCorrected.toFixed(3)} is above the linear range`, {
-        position: p.position,
-        sampleId: p.sampleId,
-        value: p.absorbanceCorrected,
-        threshold: s.linearRangeMaxAbsorbance,
-      });
+      flag(
+        'above-linear-range',
+        'warning',
+        `${p.position}: absorbance ${p.absorbanceCorrected.toFixed(3)} is above the linear range`,
+        {
+          position: p.position,
+          sampleId: p.sampleId,
+          value: p.absorbanceCorrected,
+          threshold: s.linearRangeMaxAbsorbance,
+        },
+      );
     }
   }
   step('blank');
@@ -217,11 +252,15 @@ export function analyzeBatch(
   for (const p of positions) {
     const sample = sampleByPosition.get(p.position);
     if (!sample) continue;
-    const key = sample.replicateGroup ? `${sample.role}:${sample.replicateGroup}` : `${sample.role}@${p.position}`;
+    const key = sample.replicateGroup
+      ? `${sample.role}:${sample.replicateGroup}`
+      : `${sample.role}@${p.position}`;
     const g = groups.get(key);
     if (g) {
       if (g.sample.sampleId !== sample.sampleId) {
-        warnings.push(`replicate group ${sample.replicateGroup} mixes samples ${g.sample.sampleId} and ${sample.sampleId}`);
+        warnings.push(
+          `replicate group ${sample.replicateGroup} mixes samples ${g.sample.sampleId} and ${sample.sampleId}`,
+        );
       }
       g.positions.push(p);
     } else groups.set(key, { key, sample, positions: [p] });
@@ -231,7 +270,9 @@ export function analyzeBatch(
   for (const g of groups.values()) {
     const used = g.positions.filter((p) => p.status === 'used');
     const stats = replicateStats(used.map((p) => p.absorbanceCorrected));
-    const skipped = g.positions.filter((p) => p.status === 'saturated' || p.status === 'missing' || p.status === 'no-reading').length;
+    const skipped = g.positions.filter(
+      (p) => p.status === 'saturated' || p.status === 'missing' || p.status === 'no-reading',
+    ).length;
     replicates.push({
       group: g.sample.replicateGroup ?? g.positions[0].position,
       sampleId: g.sample.sampleId,
@@ -246,12 +287,17 @@ export function analyzeBatch(
     });
     groupMean.set(g.key, { mean: stats.mean, n: stats.n });
     if (g.sample.role !== 'blank' && stats.cv !== null && stats.cv > s.replicateCvMax) {
-      flag('replicate-cv-high', 'warning', `${g.sample.sampleId}: replicate CV ${(stats.cv * 100).toFixed(1)} % is above the limit`, {
-        sampleId: g.sample.sampleId,
-        position: g.positions.map((p) => p.position).join(' '),
-        value: stats.cv,
-        threshold: s.replicateCvMax,
-      });
+      flag(
+        'replicate-cv-high',
+        'warning',
+        `${g.sample.sampleId}: replicate CV ${(stats.cv * 100).toFixed(1)} % is above the limit`,
+        {
+          sampleId: g.sample.sampleId,
+          position: g.positions.map((p) => p.position).join(' '),
+          value: stats.cv,
+          threshold: s.replicateCvMax,
+        },
+      );
     }
   }
   step('replicates');
@@ -265,7 +311,12 @@ export function analyzeBatch(
       warnings.push(`standard at ${p.position} has no concentration and was not used`);
       continue;
     }
-    standards.push({ concentrationM: c, absorbance: p.absorbanceCorrected, position: p.position, sampleId: p.sampleId ?? undefined });
+    standards.push({
+      concentrationM: c,
+      absorbance: p.absorbanceCorrected,
+      position: p.position,
+      sampleId: p.sampleId ?? undefined,
+    });
   }
   let calibration: CalibrationResult | null = null;
   const needed = s.calibrationModel === 'linear' ? 3 : 2;
@@ -281,26 +332,41 @@ export function analyzeBatch(
       warnings.push(`calibration failed: ${(e as Error).message}`);
     }
   } else if (standards.length > 0 || positions.some((p) => p.role === 'unknown')) {
-    flag('no-calibration', 'warning', `a calibration needs at least ${needed} usable standards, found ${standards.length}`, {
-      value: standards.length,
-      threshold: needed,
-    });
+    flag(
+      'no-calibration',
+      'warning',
+      `a calibration needs at least ${needed} usable standards, found ${standards.length}`,
+      {
+        value: standards.length,
+        threshold: needed,
+      },
+    );
   }
   if (calibration) {
     if (calibration.r2 < s.r2Min) {
-      flag('calibration-r2-low', 'warning', `calibration R² ${calibration.r2.toFixed(4)} is below ${s.r2Min}`, {
-        value: calibration.r2,
-        threshold: s.r2Min,
-      });
+      flag(
+        'calibration-r2-low',
+        'warning',
+        `calibration R² ${calibration.r2.toFixed(4)} is below ${s.r2Min}`,
+        {
+          value: calibration.r2,
+          threshold: s.r2Min,
+        },
+      );
     }
     for (const pt of calibration.points) {
       if (pt.outlier) {
-        flag('calibration-outlier', 'warning', `${pt.position}: standard residual is an outlier (studentised ${pt.studentizedResidual?.toFixed(2)})`, {
-          position: pt.position,
-          sampleId: pt.sampleId,
-          value: pt.studentizedResidual,
-          threshold: s.outlierStudentizedResidual,
-        });
+        flag(
+          'calibration-outlier',
+          'warning',
+          `${pt.position}: standard residual is an outlier (studentised ${pt.studentizedResidual?.toFixed(2)})`,
+          {
+            position: pt.position,
+            sampleId: pt.sampleId,
+            value: pt.studentizedResidual,
+            threshold: s.outlierStudentizedResidual,
+          },
+        );
       }
     }
   }
@@ -340,11 +406,16 @@ export function analyzeBatch(
   for (const u of unknowns) {
     for (const f of u.flags) {
       if (f === 'below-lod' || f === 'below-loq') {
-        flag(f, 'info', `${u.sampleId}: concentration is ${f === 'below-lod' ? 'below the LOD' : 'below the LOQ'}`, {
-          sampleId: u.sampleId,
-          value: u.concentrationM,
-          threshold: f === 'below-lod' ? calibration?.lodM ?? null : calibration?.loqM ?? null,
-        });
+        flag(
+          f,
+          'info',
+          `${u.sampleId}: concentration is ${f === 'below-lod' ? 'below the LOD' : 'below the LOQ'}`,
+          {
+            sampleId: u.sampleId,
+            value: u.concentrationM,
+            threshold: f === 'below-lod' ? (calibration?.lodM ?? null) : (calibration?.loqM ?? null),
+          },
+        );
       }
     }
   }
@@ -355,7 +426,9 @@ export function analyzeBatch(
   const epsilon = s.epsilonLPerMolCm ?? calibration?.epsilonLPerMolCm ?? null;
   const mixtureGroups = groupList.filter((g) => g.sample.role === 'mixture');
   if (mixtureGroups.length > 0 && epsilon === null) {
-    warnings.push('no ε (no calibration and none in the settings): per-mixture K is not computed; global fits still run');
+    warnings.push(
+      'no ε (no calibration and none in the settings): per-mixture K is not computed; global fits still run',
+    );
   }
   const mixtures: MixtureResult[] = [];
   const measurements: MixtureMeasurement[] = [];
@@ -378,7 +451,10 @@ export function analyzeBatch(
     const { mean, n } = groupMean.get(g.key) as { mean: number | null; n: number };
     const productM = epsilon !== null && mean !== null ? mean / (epsilon * s.pathLengthCm) : null;
     const flags: QcCode[] = [];
-    const stats = productM !== null ? candidates.map((c) => kStatistics([{ a0M: init.a0M, b0M: init.b0M, productM }], c)) : [];
+    const stats =
+      productM !== null
+        ? candidates.map((c) => kStatistics([{ a0M: init.a0M, b0M: init.b0M, productM }], c))
+        : [];
     const ice = stats.map((k) => k.rows[0]);
     if (ice.some((r) => !r.feasible)) flags.push('candidate-impossible');
     mixtures.push({
@@ -396,7 +472,13 @@ export function analyzeBatch(
       flags,
     });
     if (mean !== null && n > 0) {
-      measurements.push({ ...recipe, totalVolumeMl: init.totalVolumeMl, absorbance: mean, pathLengthCm: s.pathLengthCm, replicates: n });
+      measurements.push({
+        ...recipe,
+        totalVolumeMl: init.totalVolumeMl,
+        absorbance: mean,
+        pathLengthCm: s.pathLengthCm,
+        replicates: n,
+      });
     }
   }
   step('mixtures');
@@ -406,7 +488,12 @@ export function analyzeBatch(
   let stoichiometry: StoichiometryResult | null = null;
   const fits = new Map<string, GlobalFitResult>();
   if (usableMixtures.length > 0) {
-    const points = usableMixtures.map((m) => ({ a0M: m.a0M, b0M: m.b0M, absorbance: m.absorbance as number, pathLengthCm: s.pathLengthCm }));
+    const points = usableMixtures.map((m) => ({
+      a0M: m.a0M,
+      b0M: m.b0M,
+      absorbance: m.absorbance as number,
+      pathLengthCm: s.pathLengthCm,
+    }));
     const evidence = candidates.map((c) => {
       const kStats: KStatistics | null =
         epsilon !== null
@@ -451,25 +538,46 @@ export function analyzeBatch(
         reason: r.reason,
       };
     });
-    stoichiometry = { candidates: ranked, best: ranking.best, ambiguous: ranking.ambiguous, verdict: ranking.verdict };
+    stoichiometry = {
+      candidates: ranked,
+      best: ranking.best,
+      ambiguous: ranking.ambiguous,
+      verdict: ranking.verdict,
+    };
     for (const c of ranked) {
       if (c.nInfeasible > 0) {
-        const where = usableMixtures.filter((m) => m.ice.find((r) => r.model === c.model && !r.feasible)).map((m) => m.sampleId);
-        flag('candidate-impossible', 'info', `${c.model} is impossible for ${where.join(', ')} (a reactant would go negative)`, {
-          value: c.nInfeasible,
-        });
+        const where = usableMixtures
+          .filter((m) => m.ice.find((r) => r.model === c.model && !r.feasible))
+          .map((m) => m.sampleId);
+        flag(
+          'candidate-impossible',
+          'info',
+          `${c.model} is impossible for ${where.join(', ')} (a reactant would go negative)`,
+          {
+            value: c.nInfeasible,
+          },
+        );
       }
       if (c.fit && !c.fit.converged) {
-        flag('fit-not-converged', c.rank === 1 ? 'warning' : 'info', `${c.model}: global fit did not converge (${c.fit.message})`);
+        flag(
+          'fit-not-converged',
+          c.rank === 1 ? 'warning' : 'info',
+          `${c.model}: global fit did not converge (${c.fit.message})`,
+        );
       }
       for (const w of c.fit?.warnings ?? []) if (c.rank === 1) warnings.push(w);
     }
     const cvs = ranked.map((c) => c.kCv).filter((v): v is number => v !== null);
     if (cvs.length > 0 && cvs.every((v) => v > s.kCvMax)) {
-      flag('k-not-constant', 'warning', `K is not constant under any candidate (smallest CV ${(Math.min(...cvs) * 100).toFixed(1)} %)`, {
-        value: Math.min(...cvs),
-        threshold: s.kCvMax,
-      });
+      flag(
+        'k-not-constant',
+        'warning',
+        `K is not constant under any candidate (smallest CV ${(Math.min(...cvs) * 100).toFixed(1)} %)`,
+        {
+          value: Math.min(...cvs),
+          threshold: s.kCvMax,
+        },
+      );
     }
     if (ranking.ambiguous) flag('stoichiometry-ambiguous', 'info', ranking.verdict);
   }
@@ -479,13 +587,22 @@ export function analyzeBatch(
   let uncertainty: UncertaintyResult | null = null;
   const bestLabel = stoichiometry?.best ?? null;
   const bestFit = bestLabel ? fits.get(bestLabel) : undefined;
-  if (bestLabel && bestFit && bestFit.converged && bestFit.k !== null && measurements.length === usableMixtures.length) {
+  if (
+    bestLabel &&
+    bestFit &&
+    bestFit.converged &&
+    bestFit.k !== null &&
+    measurements.length === usableMixtures.length
+  ) {
     const model = parseStoichiometry(bestLabel);
     const propagation = propagateKUncertainty(measurements, model, bestFit, s.uncertainty);
     step('uncertainty');
     const monteCarlo =
-      s.monteCarlo.draws > 0 ? monteCarloK(measurements, model, bestFit, s.uncertainty, s.monteCarlo.draws, s.monteCarlo.seed) : null;
-    if (monteCarlo && monteCarlo.failed > 0) warnings.push(`Monte Carlo: ${monteCarlo.failed} of ${monteCarlo.draws} refits did not converge`);
+      s.monteCarlo.draws > 0
+        ? monteCarloK(measurements, model, bestFit, s.uncertainty, s.monteCarlo.draws, s.monteCarlo.seed)
+        : null;
+    if (monteCarlo && monteCarlo.failed > 0)
+      warnings.push(`Monte Carlo: ${monteCarlo.failed} of ${monteCarlo.draws} refits did not converge`);
     uncertainty = { model: bestLabel, propagation, monteCarlo };
     step('monteCarlo');
   }
@@ -510,7 +627,12 @@ export function analyzeBatch(
     const ratio = s.benesiHildebrand.minExcessRatio;
     const excessB = usableMixtures.filter((m) => m.b0M >= ratio * m.a0M && m.a0M > 0);
     const excessA = usableMixtures.filter((m) => m.a0M >= ratio * m.b0M && m.b0M > 0);
-    const use = excessB.length >= s.benesiHildebrand.minPoints ? { list: excessB, who: 'B' as const } : excessA.length >= s.benesiHildebrand.minPoints ? { list: excessA, who: 'A' as const } : null;
+    const use =
+      excessB.length >= s.benesiHildebrand.minPoints
+        ? { list: excessB, who: 'B' as const }
+        : excessA.length >= s.benesiHildebrand.minPoints
+          ? { list: excessA, who: 'A' as const }
+          : null;
     if (!use) {
       bh = {
         applicable: false,
@@ -521,7 +643,12 @@ export function analyzeBatch(
       };
     } else {
       const result = benesiHildebrand(
-        use.list.map((m) => ({ a0M: m.a0M, b0M: m.b0M, absorbance: m.absorbance as number, pathLengthCm: s.pathLengthCm })),
+        use.list.map((m) => ({
+          a0M: m.a0M,
+          b0M: m.b0M,
+          absorbance: m.absorbance as number,
+          pathLengthCm: s.pathLengthCm,
+        })),
         use.who,
       );
       const k11 = fits.get('1:1')?.k ?? null;

@@ -51,7 +51,9 @@ export function benesiHildebrand(
   if (k !== null && fit.interceptSe !== null && fit.df > 0) {
     const cov = (-fit.xMean * fit.residualSd ** 2) / fit.sxx;
     const rel2 =
-      (fit.interceptSe / fit.intercept) ** 2 + (fit.slopeSe / fit.slope) ** 2 - (2 * cov) / (fit.intercept * fit.slope);
+      (fit.interceptSe / fit.intercept) ** 2 +
+      (fit.slopeSe / fit.slope) ** 2 -
+      (2 * cov) / (fit.intercept * fit.slope);
     kSe = rel2 > 0 ? k * Math.sqrt(rel2) : null;
   }
   return {

@@ -23,8 +23,15 @@ export interface BlankCorrection {
  * @example
  * blankCorrection([{ position: 'C1', absorbance: 0.041 }, { position: 'C2', absorbance: 0.043 }]).meanAbsorbance; // 0.042
  */
-export function blankCorrection(blanks: readonly { position: string; absorbance: number | null }[]): BlankCorrection {
+export function blankCorrection(
+  blanks: readonly { position: string; absorbance: number | null }[],
+): BlankCorrection {
   const used = blanks.filter((b) => b.absorbance !== null && Number.isFinite(b.absorbance));
   const stats = replicateStats(used.map((b) => b.absorbance));
-  return { n: stats.n, meanAbsorbance: stats.mean ?? 0, sd: stats.sd, positions: used.map((b) => b.position) };
+  return {
+    n: stats.n,
+    meanAbsorbance: stats.mean ?? 0,
+    sd: stats.sd,
+    positions: used.map((b) => b.position),
+  };
 }

@@ -82,7 +82,10 @@ export interface CalibrationResult {
  * ]);
  * cal.epsilonLPerMolCm; // ≈ 4.7e3
  */
-export function calibrate(standards: readonly CalibrationStandard[], options: CalibrationOptions = {}): CalibrationResult {
+export function calibrate(
+  standards: readonly CalibrationStandard[],
+  options: CalibrationOptions = {},
+): CalibrationResult {
   const pathLengthCm = options.pathLengthCm ?? 1;
   const ceiling = options.linearRangeMaxAbsorbance ?? 1;
   const outlierLimit = options.outlierStudentizedResidual ?? 3;
@@ -92,7 +95,8 @@ export function calibrate(standards: readonly CalibrationStandard[], options: Ca
   const fit: LinearFit = fitLinear(x, y, options.throughOrigin ?? false);
   const limits = detectionLimits(fit.residualSd, fit.slope);
   const points = standards.map((s, i): CalibrationPoint => {
-    const leverage = fit.model === 'linear' ? 1 / fit.n + (x[i] - fit.xMean) ** 2 / fit.sxx : x[i] ** 2 / fit.sxx;
+    const leverage =
+      fit.model === 'linear' ? 1 / fit.n + (x[i] - fit.xMean) ** 2 / fit.sxx : x[i] ** 2 / fit.sxx;
     const denom = fit.residualSd * Math.sqrt(1 - leverage);
     const internal = denom > 0 && leverage < 1 - 1e-12 ? fit.residuals[i] / denom : null;
     // Externally studentised (deleted) residual: unbounded, unlike the internal one (|r| ≤ √df).

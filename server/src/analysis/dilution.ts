@@ -41,7 +41,8 @@ export function mixtureInitialConcentrations(recipe: MixtureRecipe): InitialConc
     ['stock B', stockBM],
     ['volume B', volumeBMl],
   ] as const) {
-    if (!(v >= 0) || !Number.isFinite(v)) throw new AnalysisError('invalid-input', `${name} must be a number ≥ 0`);
+    if (!(v >= 0) || !Number.isFinite(v))
+      throw new AnalysisError('invalid-input', `${name} must be a number ≥ 0`);
   }
   if (!(totalVolumeMl > 0) || !Number.isFinite(totalVolumeMl)) {
     throw new AnalysisError('invalid-input', 'total volume must be positive');

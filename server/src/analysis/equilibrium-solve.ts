@@ -20,6 +20,8 @@ export interface EquilibriumSolveOptions {
   tolerance?: number;
   /** Default 100. */
   maxIterations?: number;
+  /** A good first guess of x, mol/L (e.g. the solution at a nearby K); used when inside the physical interval. */
+  initialGuessM?: number;
 }
 
 /**
@@ -70,7 +72,13 @@ export function solveEquilibrium(
   };
   // Weak-binding estimate x ≈ K·A₀^a·B₀^b blended harmonically with the ceiling: inside (0, xMax).
   const xWeak = Math.exp(lnK + a * Math.log(a0M) + b * Math.log(b0M));
-  const x0 = Number.isFinite(xWeak) ? (xWeak * xMax) / (xWeak + xMax) : 0.5 * xMax;
+  const guess = options.initialGuessM;
+  const x0 =
+    guess !== undefined && guess > 0 && guess < xMax
+      ? guess
+      : Number.isFinite(xWeak)
+        ? (xWeak * xMax) / (xWeak + xMax)
+        : 0.5 * xMax;
   const r = findRootBracketed(g, 0, xMax, x0, {
     tolerance: options.tolerance ?? 1e-14,
     maxIterations: options.maxIterations ?? 100,
@@ -97,7 +105,10 @@ export interface EquilibriumSensitivity {
  * const s = solveEquilibrium(98, 1e-3, 1e-3, { a: 1, b: 1, label: '1:1' });
  * equilibriumSensitivity(s, { a: 1, b: 1, label: '1:1' }).dProductDLnK; // ≈ 7.6e-5 mol/L
  */
-export function equilibriumSensitivity(state: EquilibriumState, model: Stoichiometry): EquilibriumSensitivity {
+export function equilibriumSensitivity(
+  state: EquilibriumState,
+  model: Stoichiometry,
+): EquilibriumSensitivity {
   const { productM: x, aFreeM: fa, bFreeM: fb } = state;
   const { a, b } = model;
   if (!(x > 0)) return { dProductDLnK: 0, dProductDA0: 0, dProductDB0: 0 };

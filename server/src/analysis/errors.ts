@@ -13,8 +13,4 @@ export class AnalysisError extends Error {
 }
 
 export type AnalysisErrorCode =
-  | 'invalid-input'
-  | 'invalid-settings'
-  | 'too-few-points'
-  | 'singular'
-  | 'not-converged';
+  'invalid-input' | 'invalid-settings' | 'too-few-points' | 'singular' | 'not-converged';

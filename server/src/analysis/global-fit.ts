@@ -1,5 +1,5 @@
 import { AnalysisError } from './errors';
-import { equilibriumSensitivity, solveEquilibrium } from './equilibrium-solve';
+import { EquilibriumState, equilibriumSensitivity, solveEquilibrium } from './equilibrium-solve';
 import { levenbergMarquardt } from './levenberg-marquardt';
 import { Stoichiometry } from './stoichiometry-model';
 import { studentTQuantile } from './student-t';
@@ -69,24 +69,39 @@ export interface GlobalFitResult {
 
 const LN10 = Math.log(10);
 
-/** Products x_i for given ln K, and whether every solve converged. */
-function products(
-  points: readonly MixturePoint[],
-  model: Stoichiometry,
-  lnK: number,
-  options: GlobalFitOptions,
-): { x: number[]; states: ReturnType<typeof solveEquilibrium>[]; ok: boolean } {
-  const k = Math.exp(lnK);
-  let ok = true;
-  const states = points.map((pt) => {
-    const s = solveEquilibrium(k, pt.a0M, pt.b0M, model, {
-      tolerance: options.solverTolerance,
-      maxIterations: options.solverMaxIterations,
+/** Keeps the result JSON-clean: an interval with a non-finite end becomes null. */
+function finitePair(p: [number, number] | null): [number, number] | null {
+  return p && Number.isFinite(p[0]) && Number.isFinite(p[1]) ? p : null;
+}
+
+/** Solves every mixture at a given ln K, warm-starting from the last solution; caches the last ln K. */
+class MixtureSolver {
+  private lastLnK = NaN;
+  private last: EquilibriumState[] = [];
+  ok = true;
+
+  constructor(
+    private readonly points: readonly MixturePoint[],
+    private readonly model: Stoichiometry,
+    private readonly options: GlobalFitOptions,
+  ) {}
+
+  at(lnK: number): EquilibriumState[] {
+    if (lnK === this.lastLnK) return this.last;
+    const k = Math.exp(lnK);
+    const previous = this.last;
+    this.last = this.points.map((pt, i) => {
+      const s = solveEquilibrium(k, pt.a0M, pt.b0M, this.model, {
+        tolerance: this.options.solverTolerance,
+        maxIterations: this.options.solverMaxIterations,
+        initialGuessM: previous[i]?.productM,
+      });
+      if (!s.converged) this.ok = false;
+      return s;
     });
-    if (!s.converged) ok = false;
-    return s;
-  });
-  return { x: states.map((s) => s.productM), states, ok };
+    this.lastLnK = lnK;
+    return this.last;
+  }
 }
 
 /**
@@ -148,7 +163,10 @@ export function fitEquilibriumModel(
   if (n <= p) return empty(`a ${model.label} fit needs more than ${p} mixtures, got ${n}`);
   for (const pt of points) {
     if (![pt.a0M, pt.b0M, pt.absorbance, pt.pathLengthCm].every(Number.isFinite) || !(pt.pathLengthCm > 0)) {
-      throw new AnalysisError('invalid-input', 'every mixture needs finite A₀, B₀, absorbance and a positive path length');
+      throw new AnalysisError(
+        'invalid-input',
+        'every mixture needs finite A₀, B₀, absorbance and a positive path length',
+      );
     }
   }
   const y = points.map((pt) => pt.absorbance);
@@ -196,31 +214,30 @@ export function fitEquilibriumModel(
     eps0 = options.startEpsilon;
   } else {
     let best = { rss: Infinity, lnK: 0, eps: 0, base: 0, index: 0 };
-    const steps = 48;
+    const steps = 30;
+    const gridSolver = new MixtureSolver(points, model, options);
     for (let s = 0; s <= steps; s++) {
       const log10u = -3 + (10 * s) / steps;
       const lnK = log10u * LN10 - order * Math.log(scale);
-      const { x } = products(points, model, lnK, options);
+      const x = gridSolver.at(lnK).map((st) => st.productM);
       const lin = linearAt(x);
-      if (lin.rss < best.rss && lin.eps > 0) best = { rss: lin.rss, lnK, eps: lin.eps, base: lin.base, index: s };
+      if (lin.rss < best.rss && lin.eps > 0)
+        best = { rss: lin.rss, lnK, eps: lin.eps, base: lin.base, index: s };
     }
-    if (!Number.isFinite(best.rss)) return empty(`no positive ε fits the ${model.label} model to these mixtures`);
+    if (!Number.isFinite(best.rss))
+      return empty(`no positive ε fits the ${model.label} model to these mixtures`);
     gridEdge = best.index === 0 || best.index === steps;
     lnK0 = options.startK !== undefined ? Math.log(options.startK) : best.lnK;
     eps0 = options.startEpsilon ?? best.eps;
     base0 = best.base;
   }
 
-  let solverOk = true;
+  const solver = new MixtureSolver(points, model, options);
   const lm = levenbergMarquardt(
     {
-      evaluate: (q) => {
-        const { x, ok } = products(points, model, q[0], options);
-        if (!ok) solverOk = false;
-        return x.map((xi, i) => q[1] * l[i] * xi + (fitBaseline ? q[2] : 0));
-      },
+      evaluate: (q) => solver.at(q[0]).map((st, i) => q[1] * l[i] * st.productM + (fitBaseline ? q[2] : 0)),
       jacobian: (q) => {
-        const { states } = products(points, model, q[0], options);
+        const states = solver.at(q[0]);
         return states.map((s, i) => {
           const sens = equilibriumSensitivity(s, model);
           const row = [q[1] * l[i] * sens.dProductDLnK, l[i] * s.productM];
@@ -234,10 +251,13 @@ export function fitEquilibriumModel(
     { maxIterations: options.maxIterations ?? 200, parameterTolerance: options.parameterTolerance ?? 1e-11 },
   );
   const [lnK, eps] = lm.params;
-  const final = products(points, model, lnK, options);
+  const solverOk = solver.ok;
+  const finalSolver = new MixtureSolver(points, model, options);
+  const final = { x: finalSolver.at(lnK).map((st) => st.productM), ok: finalSolver.ok };
   const warnings: string[] = [];
   if (!lm.converged) warnings.push(`${model.label}: the fit did not converge (${lm.message})`);
-  if (!solverOk || !final.ok) warnings.push(`${model.label}: the equilibrium solver did not converge for every mixture`);
+  if (!solverOk || !final.ok)
+    warnings.push(`${model.label}: the equilibrium solver did not converge for every mixture`);
   const lnKSe = lm.standardErrors[0];
   const t = lm.df > 0 ? studentTQuantile(0.975, lm.df) : null;
   const k = Math.exp(lnK);
@@ -260,12 +280,14 @@ export function fitEquilibriumModel(
     df: lm.df,
     k: Number.isFinite(k) ? k : null,
     kSe: lnKSe !== null && Number.isFinite(k * lnKSe) ? k * lnKSe : null,
-    kCi95: lnKSe !== null && t !== null ? [Math.exp(lnK - t * lnKSe), Math.exp(lnK + t * lnKSe)] : null,
+    kCi95: finitePair(
+      lnKSe !== null && t !== null ? [Math.exp(lnK - t * lnKSe), Math.exp(lnK + t * lnKSe)] : null,
+    ),
     log10K: lnK / LN10,
     log10KSe: lnKSe !== null ? lnKSe / LN10 : null,
     epsilonLPerMolCm: eps,
     epsilonSe: epsSe,
-    epsilonCi95: lm.ci95[1],
+    epsilonCi95: finitePair(lm.ci95[1]),
     baseline: fitBaseline ? lm.params[2] : null,
     baselineSe: baseSe,
     rss,

@@ -32,5 +32,12 @@ export function iceTable(a0M: number, b0M: number, productM: number, model: Stoi
   const bFreeM = b0M - model.b * productM;
   const feasible = aFreeM > 0 && bFreeM > 0 && productM >= 0;
   const k = feasible ? productM / (aFreeM ** model.a * bFreeM ** model.b) : null;
-  return { model: model.label, productM, aFreeM, bFreeM, k: k !== null && Number.isFinite(k) ? k : null, feasible };
+  return {
+    model: model.label,
+    productM,
+    aFreeM,
+    bFreeM,
+    k: k !== null && Number.isFinite(k) ? k : null,
+    feasible,
+  };
 }

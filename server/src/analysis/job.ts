@@ -40,8 +40,20 @@ function lineThrough(xs: readonly number[], ys: readonly number[]): { fit: Linea
     const intercept = ys[0] - slope * xs[0];
     return {
       fit: {
-        model: 'linear', n: 2, df: 0, slope, intercept, slopeSe: NaN, interceptSe: null, residualSd: NaN, rss: 0,
-        r2: 1, residuals: [0, 0], xMean: (xs[0] + xs[1]) / 2, yMean: (ys[0] + ys[1]) / 2, sxx: 0,
+        model: 'linear',
+        n: 2,
+        df: 0,
+        slope,
+        intercept,
+        slopeSe: NaN,
+        interceptSe: null,
+        residualSd: NaN,
+        rss: 0,
+        r2: 1,
+        residuals: [0, 0],
+        xMean: (xs[0] + xs[1]) / 2,
+        yMean: (ys[0] + ys[1]) / 2,
+        sxx: 0,
       },
       rss: 0,
     };
@@ -89,7 +101,7 @@ export function jobAnalysis(
     right: null,
     message,
   });
-  if (n < 4) return none('a Job\'s analysis needs at least 4 mixtures of different mole fraction');
+  if (n < 4) return none("a Job's analysis needs at least 4 mixtures of different mole fraction");
   const xs = pts.map((p) => p.moleFractionB);
   const ys = pts.map((p) => p.absorbance);
   let best: { rss: number; x: number; y: number; left: LinearFit; right: LinearFit } | null = null;
@@ -102,7 +114,8 @@ export function jobAnalysis(
     // The two lines must meet between the last rising and the first falling point.
     if (!(x >= xs[k - 1] - 1e-12 && x <= xs[k] + 1e-12)) continue;
     const rss = l.rss + r.rss;
-    if (!best || rss < best.rss) best = { rss, x, y: l.fit.intercept + l.fit.slope * x, left: l.fit, right: r.fit };
+    if (!best || rss < best.rss)
+      best = { rss, x, y: l.fit.intercept + l.fit.slope * x, left: l.fit, right: r.fit };
   }
   if (!best) return none('no rising and falling branches meet: the series shows no maximum');
   const x = best.x;

@@ -17,7 +17,10 @@ export interface LevenbergMarquardtOptions {
   parameterTolerance?: number;
   /** Stop when the actual and predicted relative decrease of the RSS are below this. Default 1e-15. */
   costTolerance?: number;
-  /** Stop when the scaled gradient (cosine between residual and Jacobian columns) is below this. Default 1e-13. */
+  /**
+   * Stop when the scaled gradient max_j |Jⱼᵀr|/√(JⱼᵀJⱼ·RSS) (cosine between residual and a Jacobian column)
+   * is below this. Default 1e-10: the parameters are then within about 1e-10 standard errors of the optimum.
+   */
   gradientTolerance?: number;
   /** Initial damping λ relative to the Marquardt scaling diag(JᵀJ). Default 1e-3. */
   initialDamping?: number;
@@ -99,11 +102,12 @@ export function levenbergMarquardt(
   const maxIterations = options.maxIterations ?? 500;
   const xtol = options.parameterTolerance ?? 1e-11;
   const ftol = options.costTolerance ?? 1e-15;
-  const gtol = options.gradientTolerance ?? 1e-13;
+  const gtol = options.gradientTolerance ?? 1e-10;
   const n = observations.length;
   const np = initialParams.length;
   const w = options.weights ?? new Array<number>(n).fill(1);
-  if (n < np) throw new AnalysisError('too-few-points', `${np} parameters need at least ${np} observations, got ${n}`);
+  if (n < np)
+    throw new AnalysisError('too-few-points', `${np} parameters need at least ${np} observations, got ${n}`);
 
   const jacobianAt = (p: readonly number[], f: readonly number[]): number[][] =>
     model.jacobian ? model.jacobian(p) : numericJacobian(model, p, f);
@@ -125,7 +129,7 @@ export function levenbergMarquardt(
   let nu = 2;
   let converged = false;
   let message = `stopped after the maximum of ${maxIterations} iterations without converging`;
-  let iterations = 0;
+  let iterations: number;
   const yScale = observations.reduce((s, y, i) => s + w[i] * y * y, 0);
 
   outer: for (iterations = 1; iterations <= maxIterations; iterations++) {
@@ -152,7 +156,8 @@ export function levenbergMarquardt(
     }
     const d = a.map((row, j) => Math.max(row[j], maxDiag * 1e-20));
     let gradScaled = 0;
-    for (let j = 0; j < np; j++) gradScaled = Math.max(gradScaled, Math.abs(g[j]) / Math.sqrt(d[j] * Math.max(cost, 1e-300)));
+    for (let j = 0; j < np; j++)
+      gradScaled = Math.max(gradScaled, Math.abs(g[j]) / Math.sqrt(d[j] * Math.max(cost, 1e-300)));
     if (cost <= 1e-30 * yScale || gradScaled <= gtol) {
       converged = true;
       message = cost <= 1e-30 * yScale ? 'exact fit' : 'gradient below tolerance';
@@ -204,7 +209,9 @@ export function levenbergMarquardt(
       if (lambda > 1e30) {
         // No step lowers the cost: a minimum to machine precision, or a stall.
         converged = gradScaled <= 1e-6;
-        message = converged ? 'no further decrease possible (minimum to machine precision)' : 'stalled: no step lowers the cost';
+        message = converged
+          ? 'no further decrease possible (minimum to machine precision)'
+          : 'stalled: no step lowers the cost';
         break outer;
       }
     }
@@ -219,12 +226,27 @@ export function levenbergMarquardt(
     for (let j = 0; j < np; j++) for (let k = 0; k < np; k++) jtj[j][k] += w[i] * jac[i][j] * jac[i][k];
   }
   const inv = invertSpd(jtj);
-  const covariance = inv && residualSd !== null ? inv.map((row) => row.map((v) => v * residualSd * residualSd)) : null;
+  const covariance =
+    inv && residualSd !== null ? inv.map((row) => row.map((v) => v * residualSd * residualSd)) : null;
   const standardErrors = p.map((_, j) => (covariance ? Math.sqrt(covariance[j][j]) : null));
   const t = df > 0 ? studentTQuantile(0.975, df) : null;
   const ci95 = p.map((v, j): [number, number] | null => {
     const se = standardErrors[j];
     return se !== null && t !== null ? [v - t * se, v + t * se] : null;
   });
-  return { params: p, standardErrors, covariance, ci95, rss: cost, residualSd, n, df, residuals, fitted: f, iterations, converged, message };
+  return {
+    params: p,
+    standardErrors,
+    covariance,
+    ci95,
+    rss: cost,
+    residualSd,
+    n,
+    df,
+    residuals,
+    fitted: f,
+    iterations,
+    converged,
+    message,
+  };
 }

@@ -21,7 +21,15 @@ export interface InputUncertainties {
   absorbanceSd: number | null;
 }
 
-/** True when the total volume was made up to a mark (independent of the pipetted volumes). */
+/**
+ * True when the total volume was made up to a mark, i.e. V_T > V_A + V_B (a diluent was added, so V_T
+ * is an independent input with its own tolerance); otherwise V_T = V_A + V_B.
+ *
+ * Units: volumes mL. Reference: JCGM 100:2008 §5.1 (independent input quantities).
+ *
+ * @example
+ * isMadeUpToVolume({ stockAM: 5e-3, volumeAMl: 1, stockBM: 5e-3, volumeBMl: 2, totalVolumeMl: 10 }); // true
+ */
 export function isMadeUpToVolume(m: MixtureRecipe): boolean {
   return m.totalVolumeMl !== undefined && m.totalVolumeMl > (m.volumeAMl + m.volumeBMl) * (1 + 1e-9);
 }

@@ -70,10 +70,12 @@ export function monteCarloK(
     const points: MixturePoint[] = mixtures.map((m) => {
       const va = m.volumeAMl * (1 + u.pipetteRelSd * rng.normal());
       const vb = m.volumeBMl * (1 + u.pipetteRelSd * rng.normal());
-      const vt = isMadeUpToVolume(m) ? (m.totalVolumeMl as number) * (1 + u.flaskRelSd * rng.normal()) : va + vb;
+      const vt = isMadeUpToVolume(m)
+        ? (m.totalVolumeMl as number) * (1 + u.flaskRelSd * rng.normal())
+        : va + vb;
       return {
-        a0M: ((m.stockAM * (fa.get(m.stockAM) as number)) * va) / vt,
-        b0M: ((m.stockBM * (fb.get(m.stockBM) as number)) * vb) / vt,
+        a0M: (m.stockAM * (fa.get(m.stockAM) as number) * va) / vt,
+        b0M: (m.stockBM * (fb.get(m.stockBM) as number) * vb) / vt,
         absorbance: m.absorbance + (absorbanceSd / Math.sqrt(m.replicates ?? 1)) * rng.normal(),
         pathLengthCm: m.pathLengthCm,
       };

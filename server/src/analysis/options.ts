@@ -100,12 +100,14 @@ export const DEFAULT_INPUT_UNCERTAINTIES: InputUncertainties = {
 };
 
 function positive(name: string, v: number): number {
-  if (!(v > 0) || !Number.isFinite(v)) throw new AnalysisError('invalid-settings', `${name} must be a positive number`);
+  if (!(v > 0) || !Number.isFinite(v))
+    throw new AnalysisError('invalid-settings', `${name} must be a positive number`);
   return v;
 }
 
 function nonNegative(name: string, v: number): number {
-  if (!(v >= 0) || !Number.isFinite(v)) throw new AnalysisError('invalid-settings', `${name} must be a number ≥ 0`);
+  if (!(v >= 0) || !Number.isFinite(v))
+    throw new AnalysisError('invalid-settings', `${name} must be a number ≥ 0`);
   return v;
 }
 
@@ -123,10 +125,12 @@ function nonNegative(name: string, v: number): number {
 export function resolveAnalysisSettings(settings: AnalysisSettings = {}): ResolvedAnalysisSettings {
   const s = settings;
   const candidates = s.candidates ?? ['1:1', '1:2', '2:1', '1:3'];
-  if (candidates.length === 0) throw new AnalysisError('invalid-settings', 'at least one candidate stoichiometry is needed');
+  if (candidates.length === 0)
+    throw new AnalysisError('invalid-settings', 'at least one candidate stoichiometry is needed');
   const labels = candidates.map((c) => parseStoichiometry(c).label);
   const byPosition: Record<string, number> = {};
-  for (const [pos, l] of Object.entries(s.pathLengthByPositionCm ?? {})) byPosition[pos.toUpperCase()] = positive(`path length of ${pos}`, l);
+  for (const [pos, l] of Object.entries(s.pathLengthByPositionCm ?? {}))
+    byPosition[pos.toUpperCase()] = positive(`path length of ${pos}`, l);
   const exclusions = (s.exclusions ?? []).map((e) => {
     if (!e.position || !e.reason || !e.reason.trim()) {
       throw new AnalysisError('invalid-settings', 'every exclusion needs a position and a reason');
@@ -148,7 +152,10 @@ export function resolveAnalysisSettings(settings: AnalysisSettings = {}): Resolv
     outlierStudentizedResidual: positive('outlier limit', s.outlierStudentizedResidual ?? 3),
     r2Min: nonNegative('minimum R²', s.r2Min ?? 0.995),
     replicateCvMax: positive('maximum replicate CV', s.replicateCvMax ?? 0.05),
-    negativeAbsorbanceTolerance: nonNegative('negative-absorbance tolerance', s.negativeAbsorbanceTolerance ?? 0.005),
+    negativeAbsorbanceTolerance: nonNegative(
+      'negative-absorbance tolerance',
+      s.negativeAbsorbanceTolerance ?? 0.005,
+    ),
     candidates: [...new Set(labels)],
     kCvMax: positive('maximum K CV', s.kCvMax ?? 0.15),
     ambiguityDeltaAic: nonNegative('ambiguity ΔAIC', s.ambiguityDeltaAic ?? 2),

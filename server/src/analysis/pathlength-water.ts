@@ -19,9 +19,14 @@ export const WATER_K_FACTOR_PER_CM = 0.18;
  * @example
  * pathLengthFromWaterPeak(0.105, 0.015); // 0.5 cm
  */
-export function pathLengthFromWaterPeak(a977: number, a900: number, kFactorPerCm = WATER_K_FACTOR_PER_CM): number {
+export function pathLengthFromWaterPeak(
+  a977: number,
+  a900: number,
+  kFactorPerCm = WATER_K_FACTOR_PER_CM,
+): number {
   if (!(kFactorPerCm > 0)) throw new AnalysisError('invalid-input', 'k-factor must be positive');
   const diff = a977 - a900;
-  if (!(diff > 0)) throw new AnalysisError('invalid-input', 'A(977) must exceed A(900) for a water-filled well');
+  if (!(diff > 0))
+    throw new AnalysisError('invalid-input', 'A(977) must exceed A(900) for a water-filled well');
   return diff / kFactorPerCm;
 }

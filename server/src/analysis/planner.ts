@@ -88,12 +88,16 @@ export function planMixtures(input: PlannerInput): MixturePlan {
   const ceiling = input.linearRangeMaxAbsorbance ?? 1;
   const { stockAM, stockBM, totalVolumeMl: vt } = input;
   if (!(stockAM > 0) || !(stockBM > 0) || !(vt > 0) || !(l > 0)) {
-    throw new AnalysisError('invalid-input', 'stock concentrations, total volume and path length must be positive');
+    throw new AnalysisError(
+      'invalid-input',
+      'stock concentrations, total volume and path length must be positive',
+    );
   }
   const targets: { a0M: number; b0M: number }[] =
     input.series.kind === 'job'
       ? input.series.moleFractionsB.map((x) => {
-          if (!(x >= 0 && x <= 1)) throw new AnalysisError('invalid-input', 'mole fractions must lie in [0, 1]');
+          if (!(x >= 0 && x <= 1))
+            throw new AnalysisError('invalid-input', 'mole fractions must lie in [0, 1]');
           const c = (input.series as JobSeriesTarget).totalConcentrationM;
           return { a0M: (1 - x) * c, b0M: x * c };
         })
@@ -102,7 +106,8 @@ export function planMixtures(input: PlannerInput): MixturePlan {
           const a0 = (input.series as ExcessSeriesTarget).a0M;
           return { a0M: a0, b0M: r * a0 };
         });
-  const round = (v: number): number => (input.volumeStepMl ? Math.round(v / input.volumeStepMl) * input.volumeStepMl : v);
+  const round = (v: number): number =>
+    input.volumeStepMl ? Math.round(v / input.volumeStepMl) * input.volumeStepMl : v;
   const mixtures = targets.map((t, index): PlannedMixture => {
     const volumeAMl = round((t.a0M * vt) / stockAM);
     const volumeBMl = round((t.b0M * vt) / stockBM);
@@ -110,12 +115,27 @@ export function planMixtures(input: PlannerInput): MixturePlan {
     const b0M = (stockBM * volumeBMl) / vt;
     const diluentMl = vt - volumeAMl - volumeBMl;
     const warnings: string[] = [];
-    if (diluentMl < -1e-9 * vt) warnings.push('cannot be made: the stock volumes exceed the total volume (use stronger stocks)');
+    if (diluentMl < -1e-9 * vt)
+      warnings.push('cannot be made: the stock volumes exceed the total volume (use stronger stocks)');
     const productM = solveEquilibrium(input.kAssumed, a0M, b0M, model).productM;
     const predictedAbsorbance = input.epsilonLPerMolCm * l * productM;
-    if (predictedAbsorbance > ceiling) warnings.push(`predicted absorbance ${predictedAbsorbance.toFixed(3)} is above the linear range (${ceiling})`);
-    if (input.loqM !== undefined && productM < input.loqM) warnings.push('predicted complex concentration is below the LOQ');
-    return { index: index + 1, volumeAMl, volumeBMl, diluentMl: Math.max(0, diluentMl), a0M, b0M, productM, predictedAbsorbance, warnings };
+    if (predictedAbsorbance > ceiling)
+      warnings.push(
+        `predicted absorbance ${predictedAbsorbance.toFixed(3)} is above the linear range (${ceiling})`,
+      );
+    if (input.loqM !== undefined && productM < input.loqM)
+      warnings.push('predicted complex concentration is below the LOQ');
+    return {
+      index: index + 1,
+      volumeAMl,
+      volumeBMl,
+      diluentMl: Math.max(0, diluentMl),
+      a0M,
+      b0M,
+      productM,
+      predictedAbsorbance,
+      warnings,
+    };
   });
   return { model: model.label, mixtures, cautions: [...PLANNER_CAUTIONS] };
 }

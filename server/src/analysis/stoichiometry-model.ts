@@ -23,7 +23,10 @@ export function parseStoichiometry(label: string): Stoichiometry {
   const a = m ? Number(m[1]) : NaN;
   const b = m ? Number(m[2]) : NaN;
   if (!(a >= 1 && a <= 6 && b >= 1 && b <= 6)) {
-    throw new AnalysisError('invalid-settings', `stoichiometry "${label}" is not of the form a:b with 1 ≤ a, b ≤ 6`);
+    throw new AnalysisError(
+      'invalid-settings',
+      `stoichiometry "${label}" is not of the form a:b with 1 ≤ a, b ≤ 6`,
+    );
   }
   return { a, b, label: `${a}:${b}` };
 }

@@ -60,7 +60,8 @@ export function rankStoichiometries(
   const ambiguityDeltaAic = options.ambiguityDeltaAic ?? 2;
   const ruledOutDeltaAic = options.ruledOutDeltaAic ?? 10;
   const kCvMax = options.kCvMax ?? 0.15;
-  if (candidates.length === 0) return { ranked: [], best: null, ambiguous: false, verdict: 'No candidates to rank.' };
+  if (candidates.length === 0)
+    return { ranked: [], best: null, ambiguous: false, verdict: 'No candidates to rank.' };
   const usable = (c: CandidateEvidence): number | null =>
     c.fit && c.fit.converged && c.fit.aic !== null && c.fit.k !== null ? c.fit.aic : null;
   const bestAic = Math.min(...candidates.map((c) => usable(c) ?? Infinity));
@@ -84,13 +85,18 @@ export function rankStoichiometries(
     const reasons: string[] = [];
     const infeasible = c.kStats?.nInfeasible ?? 0;
     if (infeasible > 0) {
-      reasons.push(`impossible for ${infeasible} of ${c.kStats?.rows.length} mixtures (a reactant would go negative)`);
+      reasons.push(
+        `impossible for ${infeasible} of ${c.kStats?.rows.length} mixtures (a reactant would go negative)`,
+      );
     }
-    if (c.kStats?.kCv != null && c.kStats.kCv > kCvMax) reasons.push(`its K drifts ${pct(c.kStats.kCv)} across mixtures`);
-    if (deltaAic !== null && deltaAic > ruledOutDeltaAic) reasons.push(`its global fit is far worse (ΔAIC ${deltaAic.toFixed(1)})`);
+    if (c.kStats?.kCv != null && c.kStats.kCv > kCvMax)
+      reasons.push(`its K drifts ${pct(c.kStats.kCv)} across mixtures`);
+    if (deltaAic !== null && deltaAic > ruledOutDeltaAic)
+      reasons.push(`its global fit is far worse (ΔAIC ${deltaAic.toFixed(1)})`);
     if (aic === null) {
       if (!c.fit) reasons.push('no global fit');
-      else if (c.fit.converged && c.fit.k === null) reasons.push('its K is not determined (the fit runs to complete binding)');
+      else if (c.fit.converged && c.fit.k === null)
+        reasons.push('its K is not determined (the fit runs to complete binding)');
       else reasons.push(`its global fit failed (${c.fit.message})`);
     }
     const ruledOut = i > 0 && reasons.length > 0;
@@ -106,7 +112,10 @@ export function rankStoichiometries(
   const best = ranked[0];
   const second = ranked[1];
   const ambiguous =
-    second !== undefined && second.deltaAic !== null && second.deltaAic < ambiguityDeltaAic && !second.ruledOut;
+    second !== undefined &&
+    second.deltaAic !== null &&
+    second.deltaAic < ambiguityDeltaAic &&
+    !second.ruledOut;
   const parts: string[] = [];
   if (ambiguous) {
     parts.push(
@@ -119,7 +128,9 @@ export function rankStoichiometries(
   const bestCv = candidates.find((c) => c.model === best.model)?.kStats?.kCv;
   if (bestCv != null && bestCv > kCvMax) parts.push(`but even its K varies ${pct(bestCv)} across mixtures`);
   for (const r of ranked.slice(ambiguous ? 2 : 1)) {
-    parts.push(r.ruledOut ? `${r.model} is ruled out: ${r.reason}` : `${r.model} fits less well (${r.reason})`);
+    parts.push(
+      r.ruledOut ? `${r.model} is ruled out: ${r.reason}` : `${r.model} fits less well (${r.reason})`,
+    );
   }
   return { ranked, best: best.model, ambiguous, verdict: parts.join('; ') };
 }

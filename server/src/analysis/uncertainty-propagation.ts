@@ -67,7 +67,8 @@ export function propagateKUncertainty(
     dB0.push(eps * l * sens.dProductDB0);
   }
   const jtj: number[][] = Array.from({ length: p }, () => new Array<number>(p).fill(0));
-  for (let i = 0; i < n; i++) for (let j = 0; j < p; j++) for (let c = 0; c < p; c++) jtj[j][c] += jac[i][j] * jac[i][c];
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < p; j++) for (let c = 0; c < p; c++) jtj[j][c] += jac[i][j] * jac[i][c];
   const inv = invertSpd(jtj);
   if (!inv) return null;
   // Row 0 of (JᵀJ)⁻¹Jᵀ: ∂ln K/∂y_i.
@@ -108,7 +109,12 @@ export function propagateKUncertainty(
     k,
     lnKSd,
     kSd: k * lnKSd,
-    contributions: { absorbance: share(vAbs), pipette: share(vPip), flask: share(vFlask), stock: share(vStock) },
+    contributions: {
+      absorbance: share(vAbs),
+      pipette: share(vPip),
+      flask: share(vFlask),
+      stock: share(vStock),
+    },
     absorbanceSdUsed: absorbanceSd,
   };
 }

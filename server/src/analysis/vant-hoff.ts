@@ -33,10 +33,12 @@ export interface VantHoffResult {
  * vantHoff([{ temperatureC: 15, k: 160 }, { temperatureC: 25, k: 120 }, { temperatureC: 35, k: 92 }]).deltaHJPerMol; // ≈ −2.1e4
  */
 export function vantHoff(points: readonly { temperatureC: number; k: number }[]): VantHoffResult {
-  if (points.length < 2) throw new AnalysisError('too-few-points', 'van \'t Hoff needs K at two or more temperatures');
+  if (points.length < 2)
+    throw new AnalysisError('too-few-points', "van 't Hoff needs K at two or more temperatures");
   for (const p of points) {
     if (!(p.k > 0)) throw new AnalysisError('invalid-input', 'every K must be positive');
-    if (!(p.temperatureC > -273.15)) throw new AnalysisError('invalid-input', 'temperature must be above absolute zero');
+    if (!(p.temperatureC > -273.15))
+      throw new AnalysisError('invalid-input', 'temperature must be above absolute zero');
   }
   const x = points.map((p) => 1 / (p.temperatureC + 273.15));
   const y = points.map((p) => Math.log(p.k));
@@ -45,7 +47,16 @@ export function vantHoff(points: readonly { temperatureC: number; k: number }[])
     const slope = (y[1] - y[0]) / (x[1] - x[0]);
     if (!Number.isFinite(slope)) throw new AnalysisError('singular', 'the two temperatures must differ');
     const intercept = y[0] - slope * x[0];
-    return { n: 2, deltaHJPerMol: -R * slope, deltaHSe: null, deltaSJPerMolK: R * intercept, deltaSSe: null, slope, intercept, r2: 1 };
+    return {
+      n: 2,
+      deltaHJPerMol: -R * slope,
+      deltaHSe: null,
+      deltaSJPerMolK: R * intercept,
+      deltaSSe: null,
+      slope,
+      intercept,
+      r2: 1,
+    };
   }
   const fit = fitLinear(x, y);
   return {

@@ -34,11 +34,9 @@ export function createErrorHandler(log: (message: string, err: unknown) => void)
     const appError = err instanceof AppError ? err : fromFramework((err ?? {}) as HttpLikeError);
     if (!appError) {
       log(`Unhandled error on ${req.method} ${req.originalUrl}`, err);
-      res
-        .status(500)
-        .json({
-          error: { code: 'internal', message: 'Something went wrong on the server; it has been logged.' },
-        });
+      res.status(500).json({
+        error: { code: 'internal', message: 'Something went wrong on the server; it has been logged.' },
+      });
       return;
     }
     if (appError.status >= 500) log(`Error on ${req.method} ${req.originalUrl}`, err);

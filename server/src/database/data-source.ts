@@ -4,10 +4,14 @@ import 'reflect-metadata';
 import { DataSource, type DataSourceOptions } from 'typeorm';
 import type { AppConfig } from '../config';
 import { SessionRow } from '../auth/session.entity';
+import { IntakeFile } from '../ingest/intake-file.entity';
+import { ReadingRow } from '../ingest/reading.entity';
+import { InstrumentProfile } from '../instruments/instrument-profile.entity';
+import { JobRow } from '../queue/job.entity';
 import { User } from '../users/user.entity';
 import { migrations } from './migrations';
 
-export const entities = [User, SessionRow];
+export const entities = [User, SessionRow, InstrumentProfile, IntakeFile, ReadingRow, JobRow];
 
 /** The one DataSource. SQLite (WAL) by default; PostgreSQL when DATABASE_URL says so. */
 export function createDataSource(config: Pick<AppConfig, 'database'>): DataSource {

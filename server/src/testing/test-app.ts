@@ -38,6 +38,7 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
   const dataSource = await openDatabase(config);
   const equilight = createApp({ config, dataSource, log: () => undefined });
   await seedDemoPeople(equilight.services.users, DEMO_PASSWORD);
+  await equilight.start();
 
   const agent = async (role?: keyof typeof DEMO_EMAILS): Promise<TestAgent> => {
     const a = request.agent(equilight.app);
@@ -60,7 +61,7 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
     dir,
     agent,
     async stop() {
-      equilight.close();
+      await equilight.close();
       await dataSource.destroy();
       fs.rmSync(dir, { recursive: true, force: true });
     },

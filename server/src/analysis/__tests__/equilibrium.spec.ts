@@ -24,23 +24,26 @@ describe('equilibrium solver', () => {
     );
   });
 
-  it.each(['1:1', '1:2', '2:1', '1:3'])('%s: the solution obeys the mass-action law and mass balance', (label) => {
-    const model = parseStoichiometry(label);
-    fc.assert(
-      fc.property(conc, conc, fc.double({ min: 0, max: 6, noNaN: true }), (a0, b0, lu) => {
-        const k = 10 ** lu / Math.max(a0, b0) ** (model.a + model.b - 1);
-        const s = solveEquilibrium(k, a0, b0, model);
-        expect(s.converged).toBe(true);
-        // Mass action in log form, where the solver works: relative 1e-9 unless a free concentration is lost to rounding.
-        const free = Math.min(s.aFreeM / a0, s.bFreeM / b0);
-        fc.pre(free > 1e-6);
-        const lhs = Math.log(s.productM);
-        const rhs = Math.log(k) + model.a * Math.log(s.aFreeM) + model.b * Math.log(s.bFreeM);
-        expect(Math.abs(lhs - rhs)).toBeLessThanOrEqual(1e-8);
-      }),
-      { seed: 3, numRuns: 200 },
-    );
-  });
+  it.each(['1:1', '1:2', '2:1', '1:3'])(
+    '%s: the solution obeys the mass-action law and mass balance',
+    (label) => {
+      const model = parseStoichiometry(label);
+      fc.assert(
+        fc.property(conc, conc, fc.double({ min: 0, max: 6, noNaN: true }), (a0, b0, lu) => {
+          const k = 10 ** lu / Math.max(a0, b0) ** (model.a + model.b - 1);
+          const s = solveEquilibrium(k, a0, b0, model);
+          expect(s.converged).toBe(true);
+          // Mass action in log form, where the solver works: relative 1e-9 unless a free concentration is lost to rounding.
+          const free = Math.min(s.aFreeM / a0, s.bFreeM / b0);
+          fc.pre(free > 1e-6);
+          const lhs = Math.log(s.productM);
+          const rhs = Math.log(k) + model.a * Math.log(s.aFreeM) + model.b * Math.log(s.bFreeM);
+          expect(Math.abs(lhs - rhs)).toBeLessThanOrEqual(1e-8);
+        }),
+        { seed: 3, numRuns: 200 },
+      );
+    },
+  );
 
   it('never gives a negative concentration (property)', () => {
     fc.assert(
@@ -74,14 +77,23 @@ describe('equilibrium solver', () => {
     const s = solveEquilibrium(k, 4e-4, 9e-4, model);
     const sens = equilibriumSensitivity(s, model);
     const h = 1e-6;
-    const dLnK = (solveEquilibrium(k * Math.exp(h), 4e-4, 9e-4, model).productM - solveEquilibrium(k * Math.exp(-h), 4e-4, 9e-4, model).productM) / (2 * h);
-    const dA0 = (solveEquilibrium(k, 4e-4 * (1 + h), 9e-4, model).productM - solveEquilibrium(k, 4e-4 * (1 - h), 9e-4, model).productM) / (2 * h * 4e-4);
+    const dLnK =
+      (solveEquilibrium(k * Math.exp(h), 4e-4, 9e-4, model).productM -
+        solveEquilibrium(k * Math.exp(-h), 4e-4, 9e-4, model).productM) /
+      (2 * h);
+    const dA0 =
+      (solveEquilibrium(k, 4e-4 * (1 + h), 9e-4, model).productM -
+        solveEquilibrium(k, 4e-4 * (1 - h), 9e-4, model).productM) /
+      (2 * h * 4e-4);
     expect(sens.dProductDLnK).toBeCloseTo(dLnK, 9);
     expect(sens.dProductDA0 / dA0).toBeCloseTo(1, 6);
   });
 
   it('the root finder reports non-convergence at its iteration limit', () => {
-    const r = findRootBracketed((x) => [Math.atan(x - 0.3), 1e-12], 0, 1, 0.9, { maxIterations: 3, tolerance: 1e-16 });
+    const r = findRootBracketed((x) => [Math.atan(x - 0.3), 1e-12], 0, 1, 0.9, {
+      maxIterations: 3,
+      tolerance: 1e-16,
+    });
     expect(r.converged).toBe(false);
     expect(findRootBracketed((x) => [x * x - 2, 2 * x], 0, 2, 1).root).toBeCloseTo(Math.SQRT2, 14);
   });
@@ -98,13 +110,27 @@ describe('ICE table and dilution', () => {
   });
 
   it('applies C₁V₁ = C₂V₂ and rejects impossible recipes', () => {
-    const c = mixtureInitialConcentrations({ stockAM: 2e-3, volumeAMl: 2, stockBM: 2e-3, volumeBMl: 3, totalVolumeMl: 10 });
+    const c = mixtureInitialConcentrations({
+      stockAM: 2e-3,
+      volumeAMl: 2,
+      stockBM: 2e-3,
+      volumeBMl: 3,
+      totalVolumeMl: 10,
+    });
     expect(c.a0M).toBeCloseTo(4e-4, 18);
     expect(c.b0M).toBeCloseTo(6e-4, 18);
-    expect(mixtureInitialConcentrations({ stockAM: 1e-3, volumeAMl: 1, stockBM: 1e-3, volumeBMl: 1 }).a0M).toBe(5e-4);
-    expect(() => mixtureInitialConcentrations({ stockAM: 1e-3, volumeAMl: 6, stockBM: 1e-3, volumeBMl: 6, totalVolumeMl: 10 })).toThrow(
-      /exceed/,
-    );
+    expect(
+      mixtureInitialConcentrations({ stockAM: 1e-3, volumeAMl: 1, stockBM: 1e-3, volumeBMl: 1 }).a0M,
+    ).toBe(5e-4);
+    expect(() =>
+      mixtureInitialConcentrations({
+        stockAM: 1e-3,
+        volumeAMl: 6,
+        stockBM: 1e-3,
+        volumeBMl: 6,
+        totalVolumeMl: 10,
+      }),
+    ).toThrow(/exceed/);
   });
 
   it('per-mixture K is invariant to scaling all volumes by the same factor (property)', () => {
@@ -115,7 +141,12 @@ describe('ICE table and dilution', () => {
         fc.double({ min: 1e-3, max: 1e3, noNaN: true }),
         (va, vb, scale) => {
           const recipe = { stockAM: 5e-3, volumeAMl: va, stockBM: 5e-3, volumeBMl: vb, totalVolumeMl: 10 };
-          const scaled = { ...recipe, volumeAMl: va * scale, volumeBMl: vb * scale, totalVolumeMl: 10 * scale };
+          const scaled = {
+            ...recipe,
+            volumeAMl: va * scale,
+            volumeBMl: vb * scale,
+            totalVolumeMl: 10 * scale,
+          };
           const c1 = mixtureInitialConcentrations(recipe);
           const c2 = mixtureInitialConcentrations(scaled);
           const x = 0.3 * Math.min(c1.a0M, c1.b0M);

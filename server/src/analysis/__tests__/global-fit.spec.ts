@@ -61,7 +61,10 @@ describe('stoichiometry ranking with seeded noise (invented data)', () => {
         const model = parseStoichiometry(c);
         return {
           model: c,
-          kStats: kStatistics(pts.map((p) => ({ a0M: p.a0M, b0M: p.b0M, productM: p.absorbance / 4700 })), model),
+          kStats: kStatistics(
+            pts.map((p) => ({ a0M: p.a0M, b0M: p.b0M, productM: p.absorbance / 4700 })),
+            model,
+          ),
           fit: fitEquilibriumModel(pts, model),
         };
       });
@@ -98,11 +101,14 @@ describe('global fit invariants (properties)', () => {
     const base = synthesise('1:2', 2e6, 4700, 0.002, 4);
     const ref = fitEquilibriumModel(base, parseStoichiometry('1:2'));
     fc.assert(
-      fc.property(fc.shuffledSubarray(base, { minLength: base.length, maxLength: base.length }), (shuffled) => {
-        const fit = fitEquilibriumModel(shuffled, parseStoichiometry('1:2'));
-        expect(Math.abs((fit.k as number) - (ref.k as number)) / (ref.k as number)).toBeLessThan(1e-7);
-        expect(fit.rss as number).toBeCloseTo(ref.rss as number, 12);
-      }),
+      fc.property(
+        fc.shuffledSubarray(base, { minLength: base.length, maxLength: base.length }),
+        (shuffled) => {
+          const fit = fitEquilibriumModel(shuffled, parseStoichiometry('1:2'));
+          expect(Math.abs((fit.k as number) - (ref.k as number)) / (ref.k as number)).toBeLessThan(1e-7);
+          expect(fit.rss as number).toBeCloseTo(ref.rss as number, 12);
+        },
+      ),
       { seed: 21, numRuns: 20 },
     );
   });
@@ -110,12 +116,17 @@ describe('global fit invariants (properties)', () => {
   it('K is independent of scaling all volumes (same concentrations, same K)', () => {
     fc.assert(
       fc.property(fc.double({ min: 0.01, max: 100, noNaN: true }), (scale) => {
-        const recipes = design().map((d) => ({ va: d.a0M * 10 / 5e-3, vb: d.b0M * 10 / 5e-3 }));
+        const recipes = design().map((d) => ({ va: (d.a0M * 10) / 5e-3, vb: (d.b0M * 10) / 5e-3 }));
         const pts = (s: number): MixturePoint[] =>
           recipes.map((r) => {
             const a0M = (5e-3 * r.va * s) / (10 * s);
             const b0M = (5e-3 * r.vb * s) / (10 * s);
-            return { a0M, b0M, pathLengthCm: 1, absorbance: 4700 * solveEquilibrium(500, a0M, b0M, parseStoichiometry('1:1')).productM };
+            return {
+              a0M,
+              b0M,
+              pathLengthCm: 1,
+              absorbance: 4700 * solveEquilibrium(500, a0M, b0M, parseStoichiometry('1:1')).productM,
+            };
           });
         const k1 = fitEquilibriumModel(pts(1), parseStoichiometry('1:1')).k as number;
         const k2 = fitEquilibriumModel(pts(scale), parseStoichiometry('1:1')).k as number;
@@ -146,7 +157,9 @@ describe('iron(III)–thiocyanate literature values as the truth of a synthetic 
       a0M,
       b0M: 2e-4,
       pathLengthCm: 1,
-      absorbance: eps.value * solveEquilibrium(k1.value, a0M, 2e-4, parseStoichiometry('1:1')).productM + noiseSd * rng.normal(),
+      absorbance:
+        eps.value * solveEquilibrium(k1.value, a0M, 2e-4, parseStoichiometry('1:1')).productM +
+        noiseSd * rng.normal(),
     }));
   };
 

@@ -27,22 +27,25 @@ describe('levenbergMarquardt against the NIST StRD nonlinear regression datasets
     [name, 'start1'],
     [name, 'start2'],
   ]);
-  it.each(cases)('%s from %s reaches the certified estimates to ≥ 6 digits (numerical Jacobian)', (name, start) => {
-    const { x, y } = readXy(name);
-    const cert = readJson<NonlinearCertified>(`${name}_certified.json`);
-    const keys = Object.keys(cert.parameters);
-    const init = keys.map((k) => cert.parameters[k][start as 'start1' | 'start2']);
-    const f = MODELS[name];
-    const r = levenbergMarquardt({ evaluate: (p) => x.map((v) => f(p, v)) }, y, init);
-    expect(r.converged).toBe(true);
-    keys.forEach((k, j) => {
-      expect(lre(r.params[j], cert.parameters[k].estimate)).toBeGreaterThanOrEqual(6);
-      // Standard errors from the Jacobian: certified to ≥ 4 digits (finite differences limit them).
-      expect(lre(r.standardErrors[j] as number, cert.parameters[k].std_dev)).toBeGreaterThanOrEqual(4);
-    });
-    expect(lre(r.rss, cert.residual_sum_of_squares)).toBeGreaterThanOrEqual(6);
-    expect(lre(r.residualSd as number, cert.residual_standard_deviation)).toBeGreaterThanOrEqual(6);
-  });
+  it.each(cases)(
+    '%s from %s reaches the certified estimates to ≥ 6 digits (numerical Jacobian)',
+    (name, start) => {
+      const { x, y } = readXy(name);
+      const cert = readJson<NonlinearCertified>(`${name}_certified.json`);
+      const keys = Object.keys(cert.parameters);
+      const init = keys.map((k) => cert.parameters[k][start as 'start1' | 'start2']);
+      const f = MODELS[name];
+      const r = levenbergMarquardt({ evaluate: (p) => x.map((v) => f(p, v)) }, y, init);
+      expect(r.converged).toBe(true);
+      keys.forEach((k, j) => {
+        expect(lre(r.params[j], cert.parameters[k].estimate)).toBeGreaterThanOrEqual(6);
+        // Standard errors from the Jacobian: certified to ≥ 4 digits (finite differences limit them).
+        expect(lre(r.standardErrors[j] as number, cert.parameters[k].std_dev)).toBeGreaterThanOrEqual(4);
+      });
+      expect(lre(r.rss, cert.residual_sum_of_squares)).toBeGreaterThanOrEqual(6);
+      expect(lre(r.residualSd as number, cert.residual_standard_deviation)).toBeGreaterThanOrEqual(6);
+    },
+  );
 
   it('uses an analytic Jacobian when given one (Misra1a, start 1)', () => {
     const { x, y } = readXy('Misra1a');
@@ -61,9 +64,14 @@ describe('levenbergMarquardt against the NIST StRD nonlinear regression datasets
 
   it('reports non-convergence instead of guessing when the iteration limit is hit', () => {
     const { x, y } = readXy('Misra1a');
-    const r = levenbergMarquardt({ evaluate: (p) => x.map((v) => p[0] * (1 - Math.exp(-p[1] * v))) }, y, [500, 1e-4], {
-      maxIterations: 2,
-    });
+    const r = levenbergMarquardt(
+      { evaluate: (p) => x.map((v) => p[0] * (1 - Math.exp(-p[1] * v))) },
+      y,
+      [500, 1e-4],
+      {
+        maxIterations: 2,
+      },
+    );
     expect(r.converged).toBe(false);
     expect(r.message).toMatch(/maximum of 2 iterations/);
   });

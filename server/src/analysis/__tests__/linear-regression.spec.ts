@@ -26,26 +26,35 @@ describe('fitLinear', () => {
     expect(lre(fit.r2, cert.r_squared)).toBeGreaterThanOrEqual(9);
   });
 
-  it.each(['NoInt1', 'NoInt2'])('reproduces NIST StRD %s (through the origin, uncentred R²) to 9 digits', (name) => {
-    // Source: NIST/ITL StRD no-intercept datasets (shared/reference/<name>_certified.json).
-    const { x, y } = readXy(name);
-    const cert = readJson<LinearCertified>(`${name}_certified.json`);
-    const fit = fitLinear(x, y, true);
-    expect(lre(fit.slope, cert.parameters.B1.estimate)).toBeGreaterThanOrEqual(9);
-    expect(lre(fit.slopeSe, cert.parameters.B1.std_dev)).toBeGreaterThanOrEqual(9);
-    expect(lre(fit.residualSd, cert.residual_standard_deviation)).toBeGreaterThanOrEqual(9);
-    expect(lre(fit.r2, cert.r_squared)).toBeGreaterThanOrEqual(9);
-    expect(fit.interceptSe).toBeNull();
-  });
+  it.each(['NoInt1', 'NoInt2'])(
+    'reproduces NIST StRD %s (through the origin, uncentred R²) to 9 digits',
+    (name) => {
+      // Source: NIST/ITL StRD no-intercept datasets (shared/reference/<name>_certified.json).
+      const { x, y } = readXy(name);
+      const cert = readJson<LinearCertified>(`${name}_certified.json`);
+      const fit = fitLinear(x, y, true);
+      expect(lre(fit.slope, cert.parameters.B1.estimate)).toBeGreaterThanOrEqual(9);
+      expect(lre(fit.slopeSe, cert.parameters.B1.std_dev)).toBeGreaterThanOrEqual(9);
+      expect(lre(fit.residualSd, cert.residual_standard_deviation)).toBeGreaterThanOrEqual(9);
+      expect(lre(fit.r2, cert.r_squared)).toBeGreaterThanOrEqual(9);
+      expect(fit.interceptSe).toBeNull();
+    },
+  );
 
   it('agrees with simple-statistics on random data', () => {
     // Source: simple-statistics (npm) linearRegression and rSquared.
     fc.assert(
       fc.property(
-        fc.array(fc.tuple(fc.double({ min: -1e3, max: 1e3, noNaN: true }), fc.double({ min: -1e3, max: 1e3, noNaN: true })), {
-          minLength: 3,
-          maxLength: 40,
-        }),
+        fc.array(
+          fc.tuple(
+            fc.double({ min: -1e3, max: 1e3, noNaN: true }),
+            fc.double({ min: -1e3, max: 1e3, noNaN: true }),
+          ),
+          {
+            minLength: 3,
+            maxLength: 40,
+          },
+        ),
         (pairs) => {
           const x = pairs.map((p) => p[0]);
           const y = pairs.map((p) => p[1]);
@@ -68,7 +77,10 @@ describe('fitLinear', () => {
   it('is invariant to the order of the rows (property)', () => {
     fc.assert(
       fc.property(
-        fc.array(fc.tuple(fc.integer({ min: -1000, max: 1000 }), fc.integer({ min: -1000, max: 1000 })), { minLength: 3, maxLength: 30 }),
+        fc.array(fc.tuple(fc.integer({ min: -1000, max: 1000 }), fc.integer({ min: -1000, max: 1000 })), {
+          minLength: 3,
+          maxLength: 30,
+        }),
         fc.integer(),
         (pairs, seed) => {
           fc.pre(new Set(pairs.map((p) => p[0])).size > 1);
@@ -76,8 +88,14 @@ describe('fitLinear', () => {
             .map((p, i) => ({ p, k: Math.sin(seed + i * 7.1) }))
             .sort((a, b) => a.k - b.k)
             .map((e) => e.p);
-          const a = fitLinear(pairs.map((p) => p[0]), pairs.map((p) => p[1]));
-          const b = fitLinear(shuffled.map((p) => p[0]), shuffled.map((p) => p[1]));
+          const a = fitLinear(
+            pairs.map((p) => p[0]),
+            pairs.map((p) => p[1]),
+          );
+          const b = fitLinear(
+            shuffled.map((p) => p[0]),
+            shuffled.map((p) => p[1]),
+          );
           expect(b.slope).toBeCloseTo(a.slope, 9);
           expect(b.intercept).toBeCloseTo(a.intercept, 6);
           expect(b.residualSd).toBeCloseTo(a.residualSd, 6);
@@ -109,15 +127,23 @@ describe('detection limits and inverse prediction', () => {
 
   it('reads x back from y on the Norris line (Norris_derived_checks.json x_from_y_100)', () => {
     const { x, y } = readXy('Norris');
-    const cal = calibrate(x.map((c, i) => ({ concentrationM: c, absorbance: y[i] })), { linearRangeMaxAbsorbance: 1e6 });
+    const cal = calibrate(
+      x.map((c, i) => ({ concentrationM: c, absorbance: y[i] })),
+      { linearRangeMaxAbsorbance: 1e6 },
+    );
     const derived = readJson<Record<string, number>>('Norris_derived_checks.json');
-    expect(lre(concentrationFromAbsorbance(cal, 100).concentrationM, derived.x_from_y_100)).toBeGreaterThanOrEqual(9);
+    expect(
+      lre(concentrationFromAbsorbance(cal, 100).concentrationM, derived.x_from_y_100),
+    ).toBeGreaterThanOrEqual(9);
     expect(lre(cal.lodM, derived.LOD_resid_sd)).toBeGreaterThanOrEqual(9);
   });
 
   it('gives the textbook inverse-prediction SE (Miller & Miller eq. 5.9) and applies the dilution factor', () => {
     const cal = calibrate(
-      [0, 1e-4, 2e-4, 3e-4, 4e-4].map((c, i) => ({ concentrationM: c, absorbance: 1000 * c + [0.002, -0.001, 0.003, -0.002, 0.001][i] })),
+      [0, 1e-4, 2e-4, 3e-4, 4e-4].map((c, i) => ({
+        concentrationM: c,
+        absorbance: 1000 * c + [0.002, -0.001, 0.003, -0.002, 0.001][i],
+      })),
     );
     const a = 0.25;
     const s = cal.residualSd;
@@ -131,7 +157,9 @@ describe('detection limits and inverse prediction', () => {
   it('flags standards above the linear range and outlying residuals', () => {
     const c = [1e-4, 2e-4, 3e-4, 4e-4, 5e-4, 6e-4, 7e-4, 8e-4, 9e-4];
     const noise = [0.001, -0.002, 0.0015, -0.001, 0.0005, -0.0015, 0.001, 0.06, -0.001];
-    const cal = calibrate(c.map((v, i) => ({ concentrationM: v, absorbance: 1250 * v + noise[i], position: `C${i + 1}` })));
+    const cal = calibrate(
+      c.map((v, i) => ({ concentrationM: v, absorbance: 1250 * v + noise[i], position: `C${i + 1}` })),
+    );
     expect(cal.points.filter((p) => p.aboveLinearRange).map((p) => p.position)).toEqual(['C8', 'C9']);
     expect(cal.points.filter((p) => p.outlier).map((p) => p.position)).toEqual(['C8']);
     expect(cal.epsilonLPerMolCm).toBeCloseTo(cal.slope, 12);

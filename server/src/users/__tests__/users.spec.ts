@@ -37,14 +37,12 @@ describe('people API', () => {
 
   it('when an admin creates a person with a password then they can sign in', async () => {
     const admin = await as('admin');
-    const res = await admin
-      .post('/api/users')
-      .send({
-        email: 'Lena.Lab@Example.test',
-        displayName: 'Lena Lab',
-        role: 'lab_manager',
-        password: 'a-long-passphrase',
-      });
+    const res = await admin.post('/api/users').send({
+      email: 'Lena.Lab@Example.test',
+      displayName: 'Lena Lab',
+      role: 'lab_manager',
+      password: 'a-long-passphrase',
+    });
     expect(res.status).toBe(201);
     expect(res.body.user).toMatchObject({
       email: 'lena.lab@example.test',
@@ -123,14 +121,12 @@ describe('people API', () => {
 
   it('when a role changes then it takes effect on the next request', async () => {
     const admin = await as('admin');
-    const created = await admin
-      .post('/api/users')
-      .send({
-        email: 'mover@lab.test',
-        displayName: 'Mover',
-        role: 'scientist',
-        password: 'mover-passphrase',
-      });
+    const created = await admin.post('/api/users').send({
+      email: 'mover@lab.test',
+      displayName: 'Mover',
+      role: 'scientist',
+      password: 'mover-passphrase',
+    });
     const mover = await t.agent();
     await mover.post('/api/auth/login').send({ email: 'mover@lab.test', password: 'mover-passphrase' });
     expect((await mover.get('/api/users')).status).toBe(403);
@@ -142,14 +138,12 @@ describe('people API', () => {
 
   it('when a person is deactivated then their session ends and they cannot sign in', async () => {
     const admin = await as('admin');
-    const created = await admin
-      .post('/api/users')
-      .send({
-        email: 'leaver@lab.test',
-        displayName: 'Leaver',
-        role: 'scientist',
-        password: 'leaver-passphrase',
-      });
+    const created = await admin.post('/api/users').send({
+      email: 'leaver@lab.test',
+      displayName: 'Leaver',
+      role: 'scientist',
+      password: 'leaver-passphrase',
+    });
     const leaver = await t.agent();
     await leaver.post('/api/auth/login').send({ email: 'leaver@lab.test', password: 'leaver-passphrase' });
     expect((await leaver.get('/api/auth/me')).status).toBe(200);

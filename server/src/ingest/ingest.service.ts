@@ -1,0 +1,314 @@
+import path from 'node:path';
+import { type DataSource, In, IsNull, type Repository } from 'typeorm';
+import { AppError } from '../common/app-error';
+import { SerialRunner } from '../common/serial';
+import type { EventBus } from '../events/event-bus';
+import { parseRulesOf, runIdFromFileName } from '../instruments/instruments.service';
+import { ParseError, parseInstrumentFile } from '../parsers';
+import type { Job, JobQueue } from '../queue/job-queue';
+import { InstrumentProfile } from '../instruments/instrument-profile.entity';
+import { RawFileArchive, sha256Hex } from './archive';
+import { IntakeFile, type IntakeSource, type IntakeStatus } from './intake-file.entity';
+import { ReadingRow } from './reading.entity';
+
+export interface IngestJobData {
+  intakeFileId: number;
+}
+
+export interface ReceivedFile {
+  content: Buffer;
+  originalName: string;
+  profile: InstrumentProfile;
+  source: IntakeSource;
+  uploadedById?: number;
+  sourcePath?: string;
+}
+
+export interface IngestReceipt {
+  id: number;
+  status: Extract<IntakeStatus, 'queued' | 'duplicate'>;
+  duplicateOfId?: number;
+}
+
+export interface IntakeFileDto {
+  id: number;
+  profileId: number | null;
+  profileName: string | null;
+  originalName: string;
+  sha256: string;
+  sizeBytes: number;
+  status: IntakeStatus;
+  duplicateOfId: number | null;
+  error: string | null;
+  warnings: string[];
+  runId: string | null;
+  readingCount: number;
+  source: IntakeSource;
+  receivedAt: string;
+  finishedAt: string | null;
+}
+
+/** Rows per INSERT statement: 9 columns × 500 stays far below SQLite's bound-parameter limit. */
+const INSERT_CHUNK = 500;
+const FINAL: readonly IntakeStatus[] = ['stored', 'duplicate', 'quarantined', 'unassigned'];
+
+/** A display name from whatever the sender called the file: last path segment, printable, bounded. */
+export function displayName(name: string | undefined): string {
+  const base = path.posix.basename(path.win32.basename(String(name ?? '')));
+  // eslint-disable-next-line no-control-regex
+  const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').trim();
+  return (clean || 'unnamed').slice(0, 200);
+}
+
+/** From a received file to stored readings: archive, record, queue, parse, store in one transaction. */
+export class IngestService {
+  private readonly files: Repository<IntakeFile>;
+  private readonly serial = new SerialRunner();
+
+  constructor(
+    private readonly dataSource: DataSource,
+    private readonly archive: RawFileArchive,
+    private readonly queue: JobQueue<IngestJobData>,
+    private readonly events: EventBus,
+  ) {
+    this.files = dataSource.getRepository(IntakeFile);
+  }
+
+  /**
+   * Archive the raw bytes, then record the file (or a duplicate of an earlier one) and queue it.
+   * Nothing is recorded when the archive write fails, so the sender keeps the file and retries.
+   */
+  async receive(file: ReceivedFile): Promise<IngestReceipt> {
+    const sha256 = sha256Hex(file.content);
+    try {
+      await this.archive.store(sha256, file.content);
+    } catch (err) {
+      const code = (err as NodeJS.ErrnoException).code;
+      throw new AppError(
+        'storage_unavailable',
+        code === 'ENOSPC' ? 507 : 503,
+        code === 'ENOSPC'
+          ? 'The server has no disk space left for the archive; nothing was stored. Send the file again later.'
+          : 'The archive could not be written; nothing was stored. Send the file again later.',
+      );
+    }
+    const receipt = await this.serial.run(async () => {
+      const original = await this.files.findOneBy({ contentKey: sha256 });
+      const row = this.files.create({
+        profileId: file.profile.id,
+        originalName: displayName(file.originalName),
+        sha256,
+        contentKey: original ? null : sha256,
+        sizeBytes: file.content.length,
+        status: original ? 'duplicate' : 'queued',
+        duplicateOfId: original?.id ?? null,
+        error: null,
+        warnings: null,
+        runId: null,
+        readingCount: 0,
+        source: file.source,
+        sourcePath: file.sourcePath ? file.sourcePath.slice(0, 500) : null,
+        uploadedById: file.uploadedById ?? null,
+        jobId: null,
+        receivedAt: new Date().toISOString(),
+        finishedAt: original ? new Date().toISOString() : null,
+      });
+      await this.files.save(row);
+      return row;
+    });
+    this.events.publish('file.received', {
+      id: receipt.id,
+      profileId: file.profile.id,
+      status: receipt.status,
+    });
+    if (receipt.status === 'duplicate') {
+      this.events.publish('file.duplicate', { id: receipt.id, duplicateOfId: receipt.duplicateOfId });
+      return { id: receipt.id, status: 'duplicate', duplicateOfId: receipt.duplicateOfId ?? undefined };
+    }
+    await this.enqueue(receipt);
+    return { id: receipt.id, status: 'queued' };
+  }
+
+  private async enqueue(file: IntakeFile): Promise<void> {
+    const job = await this.queue.add('parse-and-store', { intakeFileId: file.id });
+    await this.files.update({ id: file.id }, { jobId: Number(job.id) });
+  }
+
+  /** Files recorded but never queued (a crash between the two steps) get their job now. */
+  async recoverUnqueued(): Promise<number> {
+    const unqueued = await this.files.find({ where: { status: In(['queued', 'parsing']), jobId: IsNull() } });
+    for (const file of unqueued) await this.enqueue(file);
+    return unqueued.length;
+  }
+
+  /** Put a quarantined file back in the queue (after its profile was fixed). */
+  async requeue(id: number): Promise<IntakeFileDto> {
+    const file = await this.files.findOneBy({ id });
+    if (!file) throw AppError.notFound(`No received file with id ${id}.`);
+    if (file.status !== 'quarantined') {
+      throw AppError.conflict(`Only quarantined files can be re-queued; this one is ${file.status}.`);
+    }
+    await this.files.update({ id }, { status: 'queued', error: null, finishedAt: null, jobId: null });
+    await this.enqueue({ ...file, status: 'queued' });
+    this.events.publish('file.received', { id, profileId: file.profileId, status: 'queued' });
+    return this.getDto(id);
+  }
+
+  /** The job processor: parse the archived file and store all its readings in one transaction, or quarantine it. */
+  async process(job: Job<IngestJobData>): Promise<IntakeStatus> {
+    const file = await this.files.findOneBy({ id: job.data.intakeFileId });
+    if (!file) return 'quarantined';
+    if (FINAL.includes(file.status)) return file.status; // already done before a restart: do not store twice
+    await this.files.update({ id: file.id }, { status: 'parsing' });
+
+    const profile = file.profileId
+      ? await this.dataSource.getRepository(InstrumentProfile).findOneBy({ id: file.profileId })
+      : null;
+    if (!profile)
+      return this.quarantine(
+        file,
+        'The instrument profile of this file no longer exists; assign the file to a profile.',
+      );
+
+    let parsed;
+    try {
+      const content = await this.archive.read(file.sha256);
+      parsed = await parseInstrumentFile(content, file.originalName, parseRulesOf(profile));
+    } catch (err) {
+      if (err instanceof ParseError) return this.quarantine(file, err.message);
+      throw err; // an I/O fault: the queue retries
+    }
+    const runId =
+      runIdFromFileName(profile.fileNamePattern, file.originalName) ?? parsed.metadata.runId ?? null;
+
+    await this.dataSource.transaction(async (manager) => {
+      await manager.delete(ReadingRow, { intakeFileId: file.id });
+      const rows = parsed.readings.map((r) => ({
+        intakeFileId: file.id,
+        position: r.position,
+        wavelengthNm: r.wavelengthNm,
+        absorbance: r.absorbance,
+        flag: r.flag ?? null,
+        readTime: r.readTime ?? null,
+        temperatureC: r.temperatureC ?? null,
+        replicate: r.replicate ?? null,
+      }));
+      for (let i = 0; i < rows.length; i += INSERT_CHUNK) {
+        await manager
+          .createQueryBuilder()
+          .insert()
+          .into(ReadingRow)
+          .values(rows.slice(i, i + INSERT_CHUNK))
+          .updateEntity(false)
+          .execute();
+      }
+      await manager.update(
+        IntakeFile,
+        { id: file.id },
+        {
+          status: 'stored',
+          readingCount: rows.length,
+          runId: runId ? runId.slice(0, 120) : null,
+          warnings: parsed.warnings.length ? JSON.stringify(parsed.warnings) : null,
+          error: null,
+          finishedAt: new Date().toISOString(),
+        },
+      );
+    });
+    this.events.publish('file.stored', {
+      id: file.id,
+      profileId: profile.id,
+      readingCount: parsed.readings.length,
+      runId,
+    });
+    return 'stored';
+  }
+
+  private async quarantine(file: IntakeFile, message: string): Promise<IntakeStatus> {
+    await this.files.update(
+      { id: file.id },
+      { status: 'quarantined', error: message, finishedAt: new Date().toISOString() },
+    );
+    this.events.publish('file.quarantined', { id: file.id, profileId: file.profileId, error: message });
+    return 'quarantined';
+  }
+
+  async getDto(id: number): Promise<IntakeFileDto> {
+    const { items } = await this.list({ id });
+    if (!items[0]) throw AppError.notFound(`No received file with id ${id}.`);
+    return items[0];
+  }
+
+  async list(query: IntakeQuery): Promise<{ items: IntakeFileDto[]; total: number }> {
+    const qb = this.files
+      .createQueryBuilder('f')
+      .leftJoin(InstrumentProfile, 'p', 'p.id = f.profile_id')
+      .select('f')
+      .addSelect('p.name', 'profile_name');
+    if (query.id !== undefined) qb.andWhere('f.id = :id', { id: query.id });
+    if (query.status) qb.andWhere('f.status = :status', { status: query.status });
+    if (query.profileId !== undefined)
+      qb.andWhere('f.profile_id = :profileId', { profileId: query.profileId });
+    if (query.q) {
+      qb.andWhere(
+        "(LOWER(f.original_name) LIKE :q ESCAPE '\\' OR f.sha256 LIKE :q ESCAPE '\\' OR LOWER(COALESCE(f.run_id, '')) LIKE :q ESCAPE '\\')",
+        {
+          q: `%${query.q.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`,
+        },
+      );
+    }
+    const total = await qb.getCount();
+    const sortColumn = SORT_COLUMNS[query.sort ?? 'receivedAt'];
+    qb.orderBy(sortColumn, query.dir === 'asc' ? 'ASC' : 'DESC').addOrderBy(
+      'f.id',
+      query.dir === 'asc' ? 'ASC' : 'DESC',
+    );
+    const pageSize = query.pageSize ?? 25;
+    qb.offset((query.page ?? 0) * pageSize).limit(pageSize);
+    const { entities, raw } = await qb.getRawAndEntities();
+    const items = entities.map((f, i) =>
+      toIntakeDto(f, (raw[i] as { profile_name?: string | null }).profile_name ?? null),
+    );
+    return { items, total };
+  }
+}
+
+const SORT_COLUMNS = {
+  receivedAt: 'f.received_at',
+  finishedAt: 'f.finished_at',
+  originalName: 'f.original_name',
+  status: 'f.status',
+  sizeBytes: 'f.size_bytes',
+  readingCount: 'f.reading_count',
+} as const;
+
+export interface IntakeQuery {
+  id?: number;
+  status?: IntakeStatus;
+  profileId?: number;
+  q?: string;
+  sort?: keyof typeof SORT_COLUMNS;
+  dir?: 'asc' | 'desc';
+  page?: number;
+  pageSize?: number;
+}
+
+function toIntakeDto(f: IntakeFile, profileName: string | null): IntakeFileDto {
+  return {
+    id: f.id,
+    profileId: f.profileId,
+    profileName,
+    originalName: f.originalName,
+    sha256: f.sha256,
+    sizeBytes: f.sizeBytes,
+    status: f.status,
+    duplicateOfId: f.duplicateOfId,
+    error: f.error,
+    warnings: f.warnings ? (JSON.parse(f.warnings) as string[]) : [],
+    runId: f.runId,
+    readingCount: f.readingCount,
+    source: f.source,
+    receivedAt: f.receivedAt,
+    finishedAt: f.finishedAt,
+  };
+}

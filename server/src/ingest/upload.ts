@@ -1,0 +1,28 @@
+import path from 'node:path';
+import multer from 'multer';
+import { AppError } from '../common/app-error';
+
+/** Exports are text tables; anything else is refused before it is read. */
+const ACCEPTED_EXTENSIONS = new Set(['.csv', '.tsv', '.txt', '.dat']);
+
+/** One file in memory, size-limited; the client's file name is only looked at for its extension. */
+export function singleFileUpload(maxBytes: number) {
+  return multer({
+    storage: multer.memoryStorage(),
+    limits: { fileSize: maxBytes, files: 1, fields: 10, fieldSize: 64 * 1024, parts: 12 },
+    fileFilter: (_req, file, callback) => {
+      const extension = path.extname(file.originalname).toLowerCase();
+      if (!ACCEPTED_EXTENSIONS.has(extension)) {
+        callback(
+          new AppError(
+            'unsupported_file_type',
+            415,
+            `Only text exports are accepted (${[...ACCEPTED_EXTENSIONS].join(', ')}); "${extension || 'no extension'}" is not one of them.`,
+          ),
+        );
+        return;
+      }
+      callback(null, true);
+    },
+  }).single('file');
+}

@@ -1,0 +1,73 @@
+import { Router } from 'express';
+import { requireRole } from '../auth/roles';
+import { AppError } from '../common/app-error';
+import { describeIssues, idParam, validateBody } from '../common/validate';
+import { singleFileUpload } from '../ingest/upload';
+import { ParseError, parseInstrumentFile, resolveParseRules } from '../parsers';
+import { createProfileSchema, tryRulesSchema, updateProfileSchema } from './instruments.schema';
+import type { InstrumentsService } from './instruments.service';
+
+const PREVIEW_READINGS = 50;
+
+/** Instrument profiles and their tokens: admins only. */
+export function instrumentsRouter(instruments: InstrumentsService, maxBytes: number): Router {
+  const router = Router();
+  router.use(requireRole('admin'));
+
+  router.get('/', async (_req, res) => {
+    res.json(await instruments.list());
+  });
+
+  router.post('/', validateBody(createProfileSchema), async (req, res) => {
+    res.status(201).json(await instruments.create(req.body));
+  });
+
+  /** Parse a sample file with the rules in the form, before anything is saved. */
+  router.post('/try', singleFileUpload(maxBytes), async (req, res) => {
+    if (!req.file) throw AppError.badRequest('Choose a file to try (multipart field "file").');
+    let rulesInput: unknown;
+    try {
+      rulesInput = JSON.parse(typeof req.body?.rules === 'string' ? req.body.rules : '{}');
+    } catch {
+      throw AppError.badRequest('The "rules" field must be JSON.');
+    }
+    const rules = tryRulesSchema.safeParse(rulesInput);
+    if (!rules.success)
+      throw AppError.badRequest(`Invalid parsing rules: ${describeIssues(rules.error.issues)}`);
+    const { plateFormat, defaultWavelengthNm, ...rest } = rules.data;
+    try {
+      const parsed = await parseInstrumentFile(
+        req.file.buffer,
+        req.file.originalname,
+        resolveParseRules({
+          ...rest,
+          plateFormat: plateFormat === 'cuvette' ? 'cuvette' : (Number(plateFormat) as 96 | 384),
+          defaultWavelengthNm: defaultWavelengthNm ?? undefined,
+        }),
+      );
+      res.json({
+        readingCount: parsed.readings.length,
+        readings: parsed.readings.slice(0, PREVIEW_READINGS),
+        metadata: parsed.metadata,
+        warnings: parsed.warnings,
+      });
+    } catch (err) {
+      if (!(err instanceof ParseError)) throw err;
+      throw new AppError('parse_error', 422, err.message, { line: err.line, column: err.column });
+    }
+  });
+
+  router.patch('/:id', validateBody(updateProfileSchema), async (req, res) => {
+    res.json(await instruments.update(idParam(req.params['id'], 'Instrument profile'), req.body));
+  });
+
+  router.post('/:id/token', async (req, res) => {
+    res.json(await instruments.rotateToken(idParam(req.params['id'], 'Instrument profile')));
+  });
+
+  router.delete('/:id/token', async (req, res) => {
+    res.json(await instruments.revokeToken(idParam(req.params['id'], 'Instrument profile')));
+  });
+
+  return router;
+}

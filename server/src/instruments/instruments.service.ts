@@ -1,0 +1,182 @@
+import type { DataSource, Repository } from 'typeorm';
+import { AppError } from '../common/app-error';
+import { type ParseRules, resolveParseRules } from '../parsers';
+import { InstrumentProfile, type ProfileRules } from './instrument-profile.entity';
+import { hashInstrumentToken, issueInstrumentToken } from './instrument-token';
+import { type CreateProfileInput, type UpdateProfileInput, rulesSchema } from './instruments.schema';
+
+export interface ProfileDto {
+  id: number;
+  name: string;
+  kind: InstrumentProfile['kind'];
+  plateFormat: InstrumentProfile['plateFormat'];
+  fileFormat: InstrumentProfile['fileFormat'];
+  rules: ProfileRules;
+  pathLengthCm: number | null;
+  fillVolumeUl: number | null;
+  wellDiameterMm: number | null;
+  defaultWavelengthNm: number | null;
+  dropSubfolder: string;
+  fileNamePattern: string | null;
+  active: boolean;
+  hasToken: boolean;
+  tokenPrefix: string | null;
+  tokenCreatedAt: string | null;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export function profileRules(profile: InstrumentProfile): ProfileRules {
+  return rulesSchema.parse(JSON.parse(profile.rulesJson));
+}
+
+export function toProfileDto(profile: InstrumentProfile): ProfileDto {
+  return {
+    id: profile.id,
+    name: profile.name,
+    kind: profile.kind,
+    plateFormat: profile.plateFormat,
+    fileFormat: profile.fileFormat,
+    rules: profileRules(profile),
+    pathLengthCm: profile.pathLengthCm,
+    fillVolumeUl: profile.fillVolumeUl,
+    wellDiameterMm: profile.wellDiameterMm,
+    defaultWavelengthNm: profile.defaultWavelengthNm,
+    dropSubfolder: profile.dropSubfolder,
+    fileNamePattern: profile.fileNamePattern,
+    active: profile.active,
+    hasToken: profile.tokenHash !== null,
+    tokenPrefix: profile.tokenHash ? profile.tokenPrefix : null,
+    tokenCreatedAt: profile.tokenHash ? profile.tokenCreatedAt : null,
+    createdAt: new Date(profile.createdAt).toISOString(),
+    updatedAt: new Date(profile.updatedAt).toISOString(),
+  };
+}
+
+/** The parser's rules for a profile's files. */
+export function parseRulesOf(profile: InstrumentProfile): ParseRules {
+  const rules = profileRules(profile);
+  return resolveParseRules({
+    ...rules,
+    format: profile.fileFormat,
+    plateFormat: profile.plateFormat === 'cuvette' ? 'cuvette' : (Number(profile.plateFormat) as 96 | 384),
+    defaultWavelengthNm: profile.defaultWavelengthNm ?? undefined,
+  });
+}
+
+/** The run id a profile's file-name pattern gives for a file name, if any. */
+export function runIdFromFileName(pattern: string | null, fileName: string): string | undefined {
+  if (!pattern) return undefined;
+  const match = new RegExp(pattern).exec(fileName);
+  if (!match) return undefined;
+  return match.groups?.['run'] ?? match[1] ?? match[0];
+}
+
+export interface ProfileWithToken {
+  profile: ProfileDto;
+  token: string;
+}
+
+/** Instrument profiles and their tokens. */
+export class InstrumentsService {
+  private readonly profiles: Repository<InstrumentProfile>;
+
+  constructor(dataSource: DataSource) {
+    this.profiles = dataSource.getRepository(InstrumentProfile);
+  }
+
+  async list(): Promise<ProfileDto[]> {
+    return (await this.profiles.find({ order: { name: 'ASC' } })).map(toProfileDto);
+  }
+
+  async get(id: number): Promise<InstrumentProfile> {
+    const profile = await this.profiles.findOneBy({ id });
+    if (!profile) throw AppError.notFound(`No instrument profile with id ${id}.`);
+    return profile;
+  }
+
+  /** The active profile an instrument token belongs to, or undefined. */
+  async findByToken(token: string): Promise<InstrumentProfile | undefined> {
+    const profile = await this.profiles.findOneBy({ tokenHash: hashInstrumentToken(token) });
+    return profile && profile.active ? profile : undefined;
+  }
+
+  private async assertUnique(name: string | undefined, dropSubfolder: string | undefined, exceptId?: number) {
+    for (const [field, value, label] of [
+      ['name', name, 'name'],
+      ['dropSubfolder', dropSubfolder, 'drop sub-folder'],
+    ] as const) {
+      if (value === undefined) continue;
+      const other = await this.profiles.findOneBy({ [field]: value });
+      if (other && other.id !== exceptId)
+        throw AppError.conflict(`Another instrument profile already uses the ${label} "${value}".`);
+    }
+  }
+
+  async create(input: CreateProfileInput): Promise<ProfileWithToken> {
+    await this.assertUnique(input.name, input.dropSubfolder);
+    const issued = issueInstrumentToken();
+    const { rules, ...fields } = input;
+    const profile = this.profiles.create({
+      ...fields,
+      rulesJson: JSON.stringify(rules),
+      tokenHash: issued.hash,
+      tokenPrefix: issued.prefix,
+      tokenCreatedAt: new Date().toISOString(),
+    });
+    this.checkRules(profile);
+    await this.profiles.save(profile);
+    return { profile: toProfileDto(profile), token: issued.token };
+  }
+
+  async update(id: number, input: UpdateProfileInput): Promise<ProfileDto> {
+    const profile = await this.get(id);
+    await this.assertUnique(input.name, input.dropSubfolder, id);
+    const { rules, ...fields } = input;
+    Object.assign(profile, Object.fromEntries(Object.entries(fields).filter(([, v]) => v !== undefined)));
+    if (rules) {
+      const merged = {
+        ...profileRules(profile),
+        ...rules,
+        columns: { ...profileRules(profile).columns, ...rules.columns },
+      };
+      profile.rulesJson = JSON.stringify(rulesSchema.parse(merged));
+    }
+    if (profile.kind === 'cuvette_spectrophotometer' && profile.plateFormat !== 'cuvette') {
+      throw AppError.badRequest(
+        'Invalid request: plateFormat: a cuvette spectrophotometer uses the cuvette sequence format',
+      );
+    }
+    this.checkRules(profile);
+    await this.profiles.save(profile);
+    return toProfileDto(profile);
+  }
+
+  /** Refuse rule sets the parser cannot work with, with its own message. */
+  private checkRules(profile: InstrumentProfile): void {
+    try {
+      parseRulesOf(profile);
+    } catch (err) {
+      throw AppError.badRequest(`Invalid parsing rules: ${(err as Error).message}`);
+    }
+  }
+
+  async rotateToken(id: number): Promise<ProfileWithToken> {
+    const profile = await this.get(id);
+    const issued = issueInstrumentToken();
+    profile.tokenHash = issued.hash;
+    profile.tokenPrefix = issued.prefix;
+    profile.tokenCreatedAt = new Date().toISOString();
+    await this.profiles.save(profile);
+    return { profile: toProfileDto(profile), token: issued.token };
+  }
+
+  async revokeToken(id: number): Promise<ProfileDto> {
+    const profile = await this.get(id);
+    profile.tokenHash = null;
+    profile.tokenPrefix = null;
+    profile.tokenCreatedAt = null;
+    await this.profiles.save(profile);
+    return toProfileDto(profile);
+  }
+}

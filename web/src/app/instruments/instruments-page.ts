@@ -1,0 +1,206 @@
+import { DatePipe } from '@angular/common';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  type OnInit,
+  effect,
+  inject,
+  signal,
+  viewChild,
+} from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatMenuModule } from '@angular/material/menu';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatSort, MatSortModule } from '@angular/material/sort';
+import { MatTableDataSource, MatTableModule } from '@angular/material/table';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { filter, switchMap } from 'rxjs';
+import { apiErrorMessage } from '../core/http/auth.interceptor';
+import { ConfirmDialog, type ConfirmDialogData } from './confirm-dialog';
+import {
+  FILE_FORMAT_LABELS,
+  type InstrumentProfile,
+  KIND_LABELS,
+  PLATE_FORMAT_LABELS,
+} from './instrument-profile';
+import { InstrumentsService } from './instruments.service';
+import { ProfileDialog, type ProfileDialogData, type ProfileDialogResult } from './profile-dialog';
+import { TokenDialog, type TokenDialogData } from './token-dialog';
+
+/** Admins: the instruments whose exports Equilight accepts, how they are read, and their tokens. */
+@Component({
+  selector: 'eq-instruments-page',
+  imports: [
+    DatePipe,
+    MatTableModule,
+    MatSortModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatButtonModule,
+    MatIconModule,
+    MatMenuModule,
+    MatTooltipModule,
+  ],
+  templateUrl: './instruments-page.html',
+  styleUrl: './instruments-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class InstrumentsPage implements OnInit {
+  private readonly instruments = inject(InstrumentsService);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+
+  protected readonly columns = [
+    'name',
+    'kind',
+    'plateFormat',
+    'fileFormat',
+    'dropSubfolder',
+    'token',
+    'active',
+    'actions',
+  ];
+  protected readonly dataSource = new MatTableDataSource<InstrumentProfile>([]);
+  protected readonly loading = signal(true);
+  protected readonly error = signal<string | null>(null);
+  protected readonly kindLabels = KIND_LABELS;
+  protected readonly plateFormatLabels = PLATE_FORMAT_LABELS;
+  protected readonly fileFormatLabels = FILE_FORMAT_LABELS;
+  private readonly sort = viewChild(MatSort);
+
+  constructor() {
+    this.dataSource.filterPredicate = (p, text) =>
+      [
+        p.name,
+        KIND_LABELS[p.kind],
+        PLATE_FORMAT_LABELS[p.plateFormat],
+        FILE_FORMAT_LABELS[p.fileFormat],
+        p.dropSubfolder,
+        p.hasToken ? `token ${p.tokenPrefix ?? ''}` : 'no token',
+        p.active ? 'active' : 'inactive',
+      ]
+        .join(' ')
+        .toLowerCase()
+        .includes(text);
+    this.dataSource.sortingDataAccessor = (p, column) => {
+      switch (column) {
+        case 'kind':
+          return KIND_LABELS[p.kind];
+        case 'plateFormat':
+          return PLATE_FORMAT_LABELS[p.plateFormat];
+        case 'fileFormat':
+          return FILE_FORMAT_LABELS[p.fileFormat];
+        case 'token':
+          return p.hasToken ? 1 : 0;
+        case 'active':
+          return p.active ? 1 : 0;
+        case 'dropSubfolder':
+          return p.dropSubfolder.toLowerCase();
+        default:
+          return p.name.toLowerCase();
+      }
+    };
+    effect(() => {
+      const sort = this.sort();
+      if (sort) this.dataSource.sort = sort;
+    });
+  }
+
+  ngOnInit(): void {
+    this.load();
+  }
+
+  protected load(): void {
+    this.loading.set(true);
+    this.instruments.list().subscribe({
+      next: (profiles) => {
+        this.dataSource.data = profiles;
+        this.error.set(null);
+        this.loading.set(false);
+      },
+      error: (err: unknown) => {
+        this.error.set(apiErrorMessage(err));
+        this.loading.set(false);
+      },
+    });
+  }
+
+  protected applyFilter(value: string): void {
+    this.dataSource.filter = value.trim().toLowerCase();
+  }
+
+  protected openDialog(profile?: InstrumentProfile): void {
+    this.dialog
+      .open<ProfileDialog, ProfileDialogData, ProfileDialogResult>(ProfileDialog, {
+        data: { profile },
+        width: '960px',
+        maxWidth: '96vw',
+        autoFocus: 'first-tabbable',
+      })
+      .afterClosed()
+      .subscribe((result) => {
+        if (!result) return;
+        if (result.kind === 'created') {
+          this.showToken(result.created.profile, result.created.token);
+        } else {
+          this.snackBar.open(`${result.profile.name} saved`, 'OK', { duration: 4000 });
+        }
+        this.load();
+      });
+  }
+
+  protected rotateToken(profile: InstrumentProfile): void {
+    this.confirm({
+      title: `Rotate the token of ${profile.name}?`,
+      message: profile.hasToken
+        ? 'The current token stops working at once. The watcher needs the new token before it can send files again.'
+        : 'A new token is created; the watcher needs it before it can send files.',
+      confirmLabel: profile.hasToken ? 'Rotate' : 'Create token',
+    })
+      .pipe(switchMap(() => this.instruments.rotateToken(profile.id)))
+      .subscribe({
+        next: ({ profile: updated, token }) => {
+          this.showToken(updated, token);
+          this.load();
+        },
+        error: (err: unknown) => this.snackBar.open(apiErrorMessage(err), 'OK'),
+      });
+  }
+
+  protected revokeToken(profile: InstrumentProfile): void {
+    this.confirm({
+      title: `Revoke the token of ${profile.name}?`,
+      message:
+        'The instrument can no longer send files until a new token is created. Files already received are kept.',
+      confirmLabel: 'Revoke',
+    })
+      .pipe(switchMap(() => this.instruments.revokeToken(profile.id)))
+      .subscribe({
+        next: (updated) => {
+          this.snackBar.open(`Token of ${updated.name} revoked`, 'OK', { duration: 4000 });
+          this.load();
+        },
+        error: (err: unknown) => this.snackBar.open(apiErrorMessage(err), 'OK'),
+      });
+  }
+
+  private confirm(data: ConfirmDialogData) {
+    return this.dialog
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data, width: '440px' })
+      .afterClosed()
+      .pipe(filter((yes) => yes === true));
+  }
+
+  private showToken(profile: InstrumentProfile, token: string): void {
+    this.dialog.open<TokenDialog, TokenDialogData>(TokenDialog, {
+      data: { profileName: profile.name, token },
+      width: '560px',
+      maxWidth: '96vw',
+      disableClose: true,
+    });
+  }
+}
