@@ -59,7 +59,10 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
     events,
   );
   const worker = new SqliteJobWorker(queue, (job) => ingest.process(job), { concurrency: 2 });
-  worker.on('failed', (job, err) => log(`Ingest job ${job.id} failed after ${job.attemptsMade} tries`, err));
+  worker.on('failed', (job, err) => {
+    log(`Ingest job ${job.id} failed after ${job.attemptsMade} tries`, err);
+    void ingest.markFailed(job, err).catch((e: unknown) => log('Could not mark a failed ingest job', e));
+  });
   worker.on('error', (err) => log('Ingest worker error', err));
 
   const app = express();

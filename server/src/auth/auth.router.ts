@@ -29,6 +29,8 @@ export function authRouter(
     limit: limits.max,
     standardHeaders: 'draft-7',
     legacyHeaders: false,
+    // Only failed attempts count: a lab signing in all day is not an attack.
+    skipSuccessfulRequests: true,
     // Per address and account: one person mistyping does not lock out the lab's shared address.
     keyGenerator: (req) =>
       `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,

@@ -224,6 +224,16 @@ export class IngestService {
     return 'stored';
   }
 
+  /** A job that kept failing (an I/O or database fault, not a bad file): keep the file, say so, allow a re-queue. */
+  async markFailed(job: Job<IngestJobData>, error: Error): Promise<void> {
+    const file = await this.files.findOneBy({ id: job.data.intakeFileId });
+    if (!file || FINAL.includes(file.status)) return;
+    await this.quarantine(
+      file,
+      `Storing failed after ${job.attemptsMade} tries (${error.message}); no reading of it was kept. Re-queue it once the cause is fixed.`,
+    );
+  }
+
   private async quarantine(file: IntakeFile, message: string): Promise<IntakeStatus> {
     await this.files.update(
       { id: file.id },
