@@ -2,6 +2,7 @@ import path from 'node:path';
 import { type DataSource, In, IsNull, type Repository } from 'typeorm';
 import { AppError } from '../common/app-error';
 import { SerialRunner } from '../common/serial';
+import { bulkInsert } from '../database/bulk-insert';
 import type { EventBus } from '../events/event-bus';
 import { parseRulesOf, runIdFromFileName } from '../instruments/instruments.service';
 import { ParseError, parseInstrumentFile } from '../parsers';
@@ -48,8 +49,6 @@ export interface IntakeFileDto {
   finishedAt: string | null;
 }
 
-/** Rows per INSERT statement: 9 columns × 500 stays far below SQLite's bound-parameter limit. */
-const INSERT_CHUNK = 500;
 const FINAL: readonly IntakeStatus[] = ['stored', 'duplicate', 'quarantined', 'unassigned'];
 
 /** A display name from whatever the sender called the file: last path segment, printable, bounded. */
@@ -183,31 +182,36 @@ export class IngestService {
 
     await this.dataSource.transaction(async (manager) => {
       await manager.delete(ReadingRow, { intakeFileId: file.id });
-      const rows = parsed.readings.map((r) => ({
-        intakeFileId: file.id,
-        position: r.position,
-        wavelengthNm: r.wavelengthNm,
-        absorbance: r.absorbance,
-        flag: r.flag ?? null,
-        readTime: r.readTime ?? null,
-        temperatureC: r.temperatureC ?? null,
-        replicate: r.replicate ?? null,
-      }));
-      for (let i = 0; i < rows.length; i += INSERT_CHUNK) {
-        await manager
-          .createQueryBuilder()
-          .insert()
-          .into(ReadingRow)
-          .values(rows.slice(i, i + INSERT_CHUNK))
-          .updateEntity(false)
-          .execute();
-      }
+      await bulkInsert(
+        manager,
+        'readings',
+        [
+          'intake_file_id',
+          'position',
+          'wavelength_nm',
+          'absorbance',
+          'flag',
+          'read_time',
+          'temperature_c',
+          'replicate',
+        ],
+        parsed.readings.map((r) => [
+          file.id,
+          r.position,
+          r.wavelengthNm,
+          r.absorbance,
+          r.flag ?? null,
+          r.readTime ?? null,
+          r.temperatureC ?? null,
+          r.replicate ?? null,
+        ]),
+      );
       await manager.update(
         IntakeFile,
         { id: file.id },
         {
           status: 'stored',
-          readingCount: rows.length,
+          readingCount: parsed.readings.length,
           runId: runId ? runId.slice(0, 120) : null,
           warnings: parsed.warnings.length ? JSON.stringify(parsed.warnings) : null,
           error: null,
