@@ -3,6 +3,7 @@ import { createApp } from './app';
 import { ConfigError, loadConfig } from './config';
 import { openDatabase } from './database/data-source';
 import { attachLiveEvents } from './events/live-events';
+import { seedDemoInstruments } from './seed/demo-instruments';
 import { seedDemoPeople } from './seed/demo-people';
 
 async function main(): Promise<void> {
@@ -11,6 +12,14 @@ async function main(): Promise<void> {
   const equilight = createApp({ config, dataSource });
   if (config.seedDemo && (await seedDemoPeople(equilight.services.users, config.demoPassword))) {
     console.log('Seeded demo people (admin@, manager@, scientist@equilight.test) with the demo password.');
+  }
+  if (config.seedDemo) {
+    const host = config.host === '0.0.0.0' || config.host === '::' ? '127.0.0.1' : config.host;
+    const watcher = await seedDemoInstruments(equilight.services.instruments, {
+      dataDir: config.dataDir,
+      serverUrl: `http://${host}:${config.port}`,
+    });
+    if (watcher) console.log(`Seeded demo instrument profiles; drop folder ${watcher.dropDir}`);
   }
   const server = http.createServer(equilight.app);
   const live = attachLiveEvents(server, {
