@@ -5,7 +5,11 @@ import express, { type Express, type RequestHandler } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
 import type { DataSource } from 'typeorm';
+import { auditRouter } from './audit/audit.router';
+import { AuditService } from './audit/audit.service';
 import { authRouter } from './auth/auth.router';
+import { batchesRouter } from './batches/batches.router';
+import { BatchesService } from './batches/batches.service';
 import { csrfProtection } from './auth/csrf';
 import { createPassport } from './auth/passport';
 import { SessionRow } from './auth/session.entity';
@@ -19,6 +23,10 @@ import { ingestRouter } from './ingest/ingest.router';
 import { intakeRouter } from './ingest/intake.router';
 import { instrumentsRouter } from './instruments/instruments.router';
 import { InstrumentsService } from './instruments/instruments.service';
+import { layoutsRouter } from './layouts/layouts.router';
+import { LayoutsService } from './layouts/layouts.service';
+import { manifestsRouter } from './manifests/manifests.router';
+import { ManifestsService } from './manifests/manifests.service';
 import { SqliteJobQueue, SqliteJobWorker } from './queue/sqlite-queue';
 import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
@@ -35,7 +43,15 @@ export interface EquilightApp {
   app: Express;
   /** The session middleware, for authenticating WebSocket upgrades with the same cookie. */
   sessionParser: RequestHandler;
-  services: { users: UsersService; instruments: InstrumentsService; ingest: IngestService };
+  services: {
+    users: UsersService;
+    instruments: InstrumentsService;
+    ingest: IngestService;
+    audit: AuditService;
+    layouts: LayoutsService;
+    manifests: ManifestsService;
+    batches: BatchesService;
+  };
   events: EventBus;
   worker: SqliteJobWorker<IngestJobData>;
   /** Start background work: resume queued jobs left by a previous run. */
@@ -50,7 +66,8 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
   const passport = createPassport(users);
   const events = new EventBus();
-  const instruments = new InstrumentsService(dataSource);
+  const audit = new AuditService(dataSource);
+  const instruments = new InstrumentsService(dataSource, audit);
   const queue = new SqliteJobQueue<IngestJobData>('ingest', dataSource);
   const ingest = new IngestService(
     dataSource,
@@ -58,6 +75,10 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
     queue,
     events,
   );
+  const layouts = new LayoutsService(dataSource, audit);
+  const manifests = new ManifestsService(dataSource, layouts, audit);
+  const batches = new BatchesService(dataSource, layouts, manifests, audit, events);
+  ingest.useBatchMatcher((manager, profileId, runId) => batches.attachStoredFile(manager, profileId, runId));
   const worker = new SqliteJobWorker(queue, (job) => ingest.process(job), { concurrency: 2 });
   worker.on('failed', (job, err) => {
     log(`Ingest job ${job.id} failed after ${job.attemptsMade} tries`, err);
@@ -104,7 +125,11 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   api.use('/users', usersRouter(users, config.publicUrl));
   api.use('/instruments', instrumentsRouter(instruments, config.uploadMaxBytes));
   api.use('/ingest', ingestRouter(ingest, instruments, config.uploadMaxBytes));
-  api.use('/intake', intakeRouter(ingest));
+  api.use('/intake', intakeRouter(ingest, batches));
+  api.use('/layouts', layoutsRouter(layouts));
+  api.use('/manifests', manifestsRouter(manifests, config.uploadMaxBytes));
+  api.use('/batches', batchesRouter(batches));
+  api.use('/audit', auditRouter(audit));
   api.use(apiNotFound);
   app.use('/api', api);
 
@@ -114,7 +139,7 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   return {
     app,
     sessionParser,
-    services: { users, instruments, ingest },
+    services: { users, instruments, ingest, audit, layouts, manifests, batches },
     events,
     worker,
     async start() {

@@ -3,15 +3,32 @@ import path from 'node:path';
 import 'reflect-metadata';
 import { DataSource, type DataSourceOptions } from 'typeorm';
 import type { AppConfig } from '../config';
+import { AuditEntry } from '../audit/audit-entry.entity';
 import { SessionRow } from '../auth/session.entity';
+import { Batch } from '../batches/batch.entity';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { ReadingRow } from '../ingest/reading.entity';
 import { InstrumentProfile } from '../instruments/instrument-profile.entity';
+import { Layout, LayoutVersion } from '../layouts/layout.entity';
+import { Manifest, ManifestVersion } from '../manifests/manifest.entity';
 import { JobRow } from '../queue/job.entity';
 import { User } from '../users/user.entity';
 import { migrations } from './migrations';
 
-export const entities = [User, SessionRow, InstrumentProfile, IntakeFile, ReadingRow, JobRow];
+export const entities = [
+  User,
+  SessionRow,
+  InstrumentProfile,
+  IntakeFile,
+  ReadingRow,
+  JobRow,
+  AuditEntry,
+  Layout,
+  LayoutVersion,
+  Manifest,
+  ManifestVersion,
+  Batch,
+];
 
 /** The one DataSource. SQLite (WAL) by default; PostgreSQL when DATABASE_URL says so. */
 export function createDataSource(config: Pick<AppConfig, 'database'>): DataSource {

@@ -1,5 +1,5 @@
 import path from 'node:path';
-import { type DataSource, In, IsNull, type Repository } from 'typeorm';
+import { type DataSource, type EntityManager, In, IsNull, type Repository } from 'typeorm';
 import { AppError } from '../common/app-error';
 import { SerialRunner } from '../common/serial';
 import { bulkInsert } from '../database/bulk-insert';
@@ -15,6 +15,13 @@ import { ReadingRow } from './reading.entity';
 export interface IngestJobData {
   intakeFileId: number;
 }
+
+/** Finds the batch a stored file belongs to, inside the storing transaction; null leaves it unassigned. */
+export type BatchMatcher = (
+  manager: EntityManager,
+  profileId: number,
+  runId: string | null,
+) => Promise<number | null>;
 
 export interface ReceivedFile {
   content: Buffer;
@@ -43,6 +50,7 @@ export interface IntakeFileDto {
   error: string | null;
   warnings: string[];
   runId: string | null;
+  batchId: number | null;
   readingCount: number;
   source: IntakeSource;
   receivedAt: string;
@@ -63,6 +71,7 @@ export function displayName(name: string | undefined): string {
 export class IngestService {
   private readonly files: Repository<IntakeFile>;
   private readonly serial = new SerialRunner();
+  private matchBatch: BatchMatcher = async () => null;
 
   constructor(
     private readonly dataSource: DataSource,
@@ -71,6 +80,11 @@ export class IngestService {
     private readonly events: EventBus,
   ) {
     this.files = dataSource.getRepository(IntakeFile);
+  }
+
+  /** Set once at start-up, when the batches feature is wired in. */
+  useBatchMatcher(matcher: BatchMatcher): void {
+    this.matchBatch = matcher;
   }
 
   /**
@@ -109,6 +123,7 @@ export class IngestService {
         sourcePath: file.sourcePath ? file.sourcePath.slice(0, 500) : null,
         uploadedById: file.uploadedById ?? null,
         jobId: null,
+        batchId: null,
         receivedAt: new Date().toISOString(),
         finishedAt: original ? new Date().toISOString() : null,
       });
@@ -180,7 +195,7 @@ export class IngestService {
     const runId =
       runIdFromFileName(profile.fileNamePattern, file.originalName) ?? parsed.metadata.runId ?? null;
 
-    await this.dataSource.transaction(async (manager) => {
+    const batchId = await this.dataSource.transaction(async (manager) => {
       await manager.delete(ReadingRow, { intakeFileId: file.id });
       await bulkInsert(
         manager,
@@ -206,11 +221,13 @@ export class IngestService {
           r.replicate ?? null,
         ]),
       );
+      const batch = await this.matchBatch(manager, profile.id, runId);
       await manager.update(
         IntakeFile,
         { id: file.id },
         {
-          status: 'stored',
+          status: batch ? 'stored' : 'unassigned',
+          batchId: batch,
           readingCount: parsed.readings.length,
           runId: runId ? runId.slice(0, 120) : null,
           warnings: parsed.warnings.length ? JSON.stringify(parsed.warnings) : null,
@@ -320,6 +337,7 @@ function toIntakeDto(f: IntakeFile, profileName: string | null): IntakeFileDto {
     error: f.error,
     warnings: f.warnings ? (JSON.parse(f.warnings) as string[]) : [],
     runId: f.runId,
+    batchId: f.batchId,
     readingCount: f.readingCount,
     source: f.source,
     receivedAt: f.receivedAt,

@@ -55,6 +55,10 @@ export class IntakeFile {
   @Column('integer', { name: 'uploaded_by_id', nullable: true })
   uploadedById!: number | null;
 
+  /** The batch this file belongs to; null while unassigned. */
+  @Column('integer', { name: 'batch_id', nullable: true })
+  batchId!: number | null;
+
   @Column('integer', { name: 'job_id', nullable: true })
   jobId!: number | null;
 

@@ -1,12 +1,14 @@
 import { Router } from 'express';
 import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
-import { describeIssues, idParam } from '../common/validate';
+import { describeIssues, idParam, validateBody } from '../common/validate';
+import { assignSchema } from '../batches/batches.schema';
+import type { BatchesService } from '../batches/batches.service';
 import type { IngestService } from './ingest.service';
 import { intakeQuerySchema } from './intake.schema';
 
 /** The Intake list: received files and their states. Lab managers and admins. */
-export function intakeRouter(ingest: IngestService): Router {
+export function intakeRouter(ingest: IngestService, batches: BatchesService): Router {
   const router = Router();
   router.use(requireRole('admin', 'lab_manager'));
 
@@ -22,6 +24,13 @@ export function intakeRouter(ingest: IngestService): Router {
 
   router.post('/:id/requeue', async (req, res) => {
     res.status(202).json(await ingest.requeue(idParam(req.params['id'], 'Received file')));
+  });
+
+  /** Put an unassigned file into a batch. */
+  router.post('/:id/assign', validateBody(assignSchema), async (req, res) => {
+    const id = idParam(req.params['id'], 'Received file');
+    await batches.assignFile(id, req.body.batchId, req.user!);
+    res.json(await ingest.getDto(id));
   });
 
   return router;

@@ -2,11 +2,13 @@ import path from 'node:path';
 import multer from 'multer';
 import { AppError } from '../common/app-error';
 
-/** Exports are text tables; anything else is refused before it is read. */
-const ACCEPTED_EXTENSIONS = new Set(['.csv', '.tsv', '.txt', '.dat']);
+/** Instrument exports are text tables; anything else is refused before it is read. */
+export const EXPORT_EXTENSIONS: readonly string[] = ['.csv', '.tsv', '.txt', '.dat'];
+export const MANIFEST_EXTENSIONS: readonly string[] = ['.csv', '.tsv', '.txt', '.xlsx'];
 
 /** One file in memory, size-limited; the client's file name is only looked at for its extension. */
-export function singleFileUpload(maxBytes: number) {
+export function singleFileUpload(maxBytes: number, accepted: readonly string[] = EXPORT_EXTENSIONS) {
+  const ACCEPTED_EXTENSIONS = new Set(accepted);
   return multer({
     storage: multer.memoryStorage(),
     limits: { fileSize: maxBytes, files: 1, fields: 10, fieldSize: 64 * 1024, parts: 12 },
@@ -17,7 +19,7 @@ export function singleFileUpload(maxBytes: number) {
           new AppError(
             'unsupported_file_type',
             415,
-            `Only text exports are accepted (${[...ACCEPTED_EXTENSIONS].join(', ')}); "${extension || 'no extension'}" is not one of them.`,
+            `Only these file types are accepted here: ${[...ACCEPTED_EXTENSIONS].join(', ')}; "${extension || 'no extension'}" is not one of them.`,
           ),
         );
         return;

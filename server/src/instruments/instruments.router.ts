@@ -19,7 +19,7 @@ export function instrumentsRouter(instruments: InstrumentsService, maxBytes: num
   });
 
   router.post('/', validateBody(createProfileSchema), async (req, res) => {
-    res.status(201).json(await instruments.create(req.body));
+    res.status(201).json(await instruments.create(req.body, req.user!));
   });
 
   /** Parse a sample file with the rules in the form, before anything is saved. */
@@ -58,15 +58,15 @@ export function instrumentsRouter(instruments: InstrumentsService, maxBytes: num
   });
 
   router.patch('/:id', validateBody(updateProfileSchema), async (req, res) => {
-    res.json(await instruments.update(idParam(req.params['id'], 'Instrument profile'), req.body));
+    res.json(await instruments.update(idParam(req.params['id'], 'Instrument profile'), req.body, req.user!));
   });
 
   router.post('/:id/token', async (req, res) => {
-    res.json(await instruments.rotateToken(idParam(req.params['id'], 'Instrument profile')));
+    res.json(await instruments.rotateToken(idParam(req.params['id'], 'Instrument profile'), req.user!));
   });
 
   router.delete('/:id/token', async (req, res) => {
-    res.json(await instruments.revokeToken(idParam(req.params['id'], 'Instrument profile')));
+    res.json(await instruments.revokeToken(idParam(req.params['id'], 'Instrument profile'), req.user!));
   });
 
   return router;

@@ -1,4 +1,5 @@
 import type { DataSource, Repository } from 'typeorm';
+import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
 import { type ParseRules, resolveParseRules } from '../parsers';
 import { InstrumentProfile, type ProfileRules } from './instrument-profile.entity';
@@ -81,8 +82,31 @@ export interface ProfileWithToken {
 export class InstrumentsService {
   private readonly profiles: Repository<InstrumentProfile>;
 
-  constructor(dataSource: DataSource) {
+  constructor(
+    dataSource: DataSource,
+    private readonly audit?: AuditService,
+  ) {
     this.profiles = dataSource.getRepository(InstrumentProfile);
+  }
+
+  private async record(
+    actor: Actor | undefined,
+    action: string,
+    profile: InstrumentProfile,
+    summary: string,
+    before?: unknown,
+    after?: unknown,
+  ) {
+    if (!actor || !this.audit) return;
+    await this.audit.record({
+      actor,
+      action,
+      entity: 'instrument_profile',
+      entityId: profile.id,
+      summary,
+      before,
+      after,
+    });
   }
 
   async list(): Promise<ProfileDto[]> {
@@ -113,7 +137,7 @@ export class InstrumentsService {
     }
   }
 
-  async create(input: CreateProfileInput): Promise<ProfileWithToken> {
+  async create(input: CreateProfileInput, actor?: Actor): Promise<ProfileWithToken> {
     await this.assertUnique(input.name, input.dropSubfolder);
     const issued = issueInstrumentToken();
     const { rules, ...fields } = input;
@@ -126,11 +150,21 @@ export class InstrumentsService {
     });
     this.checkRules(profile);
     await this.profiles.save(profile);
-    return { profile: toProfileDto(profile), token: issued.token };
+    const dto = toProfileDto(profile);
+    await this.record(
+      actor,
+      'create',
+      profile,
+      `Created instrument profile "${profile.name}" with a new token`,
+      undefined,
+      dto,
+    );
+    return { profile: dto, token: issued.token };
   }
 
-  async update(id: number, input: UpdateProfileInput): Promise<ProfileDto> {
+  async update(id: number, input: UpdateProfileInput, actor?: Actor): Promise<ProfileDto> {
     const profile = await this.get(id);
+    const before = toProfileDto(profile);
     await this.assertUnique(input.name, input.dropSubfolder, id);
     const { rules, ...fields } = input;
     Object.assign(profile, Object.fromEntries(Object.entries(fields).filter(([, v]) => v !== undefined)));
@@ -149,7 +183,16 @@ export class InstrumentsService {
     }
     this.checkRules(profile);
     await this.profiles.save(profile);
-    return toProfileDto(profile);
+    const after = toProfileDto(profile);
+    await this.record(
+      actor,
+      'update',
+      profile,
+      `Changed instrument profile "${profile.name}"`,
+      before,
+      after,
+    );
+    return after;
   }
 
   /** Refuse rule sets the parser cannot work with, with its own message. */
@@ -161,22 +204,29 @@ export class InstrumentsService {
     }
   }
 
-  async rotateToken(id: number): Promise<ProfileWithToken> {
+  async rotateToken(id: number, actor?: Actor): Promise<ProfileWithToken> {
     const profile = await this.get(id);
     const issued = issueInstrumentToken();
     profile.tokenHash = issued.hash;
     profile.tokenPrefix = issued.prefix;
     profile.tokenCreatedAt = new Date().toISOString();
     await this.profiles.save(profile);
+    await this.record(
+      actor,
+      'rotate-token',
+      profile,
+      `Issued a new token for "${profile.name}"; the old one no longer works`,
+    );
     return { profile: toProfileDto(profile), token: issued.token };
   }
 
-  async revokeToken(id: number): Promise<ProfileDto> {
+  async revokeToken(id: number, actor?: Actor): Promise<ProfileDto> {
     const profile = await this.get(id);
     profile.tokenHash = null;
     profile.tokenPrefix = null;
     profile.tokenCreatedAt = null;
     await this.profiles.save(profile);
+    await this.record(actor, 'revoke-token', profile, `Revoked the token of "${profile.name}"`);
     return toProfileDto(profile);
   }
 }

@@ -45,7 +45,7 @@ describe('storing is all-or-nothing and happens once', () => {
       data: { intakeFileId: res.body.id },
       attemptsMade: 0,
     });
-    expect(status).toBe('stored');
+    expect(status).toBe('unassigned');
     expect(await readingCount(t)).toBe(before);
   });
 

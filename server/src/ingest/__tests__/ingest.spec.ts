@@ -33,7 +33,7 @@ describe('ingest', () => {
     expect(res.body).toEqual({ id: expect.any(Number), status: 'queued' });
     const file = await settled(t, res.body.id);
     expect(file).toMatchObject({
-      status: 'stored',
+      status: 'unassigned',
       readingCount: 96,
       runId: 'RUN-0001',
       source: 'watcher',
@@ -127,7 +127,7 @@ describe('ingest', () => {
   it('when the file is not a text export then 415 before anything is stored', async () => {
     const res = await send('MZ\u0000\u0001', 'setup.exe');
     expect(res.status).toBe(415);
-    expect(res.body.error.message).toMatch(/Only text exports are accepted/);
+    expect(res.body.error.message).toMatch(/Only these file types are accepted here: \.csv/);
   });
 
   it('when the file is over the upload limit then 413', async () => {
@@ -160,7 +160,7 @@ describe('ingest', () => {
       .field('profileId', String(profileId))
       .attach('file', Buffer.from(longTableCsv(10)), 'RUN-0010.csv');
     expect(res.status).toBe(202);
-    expect(await settled(t, res.body.id)).toMatchObject({ status: 'stored', source: 'upload' });
+    expect(await settled(t, res.body.id)).toMatchObject({ status: 'unassigned', source: 'upload' });
   });
 
   it('when a signed-in upload names no profile then 400', async () => {
@@ -262,7 +262,7 @@ describe('bad files are quarantined with their own message', () => {
     const again = await manager.post(`/api/intake/${res.body.id}/requeue`);
     expect(again.status).toBe(202);
     const stored = await settled(t, res.body.id);
-    expect(stored).toMatchObject({ status: 'stored', readingCount: 2, error: null });
+    expect(stored).toMatchObject({ status: 'unassigned', readingCount: 2, error: null });
     const storedAgain = await manager.post(`/api/intake/${res.body.id}/requeue`);
     expect(storedAgain.status).toBe(409);
     expect(storedAgain.body.error.message).toMatch(/Only quarantined files can be re-queued/);

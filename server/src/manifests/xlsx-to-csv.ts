@@ -1,0 +1,48 @@
+import ExcelJS from 'exceljs';
+import { ParseError } from '../parsers';
+
+function csvCell(text: string): string {
+  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+function cellText(value: ExcelJS.CellValue, file: string, address: string): string {
+  if (value === null || value === undefined) return '';
+  if (typeof value === 'number' || typeof value === 'boolean') return String(value);
+  if (typeof value === 'string') return value;
+  if (value instanceof Date) return value.toISOString();
+  if (typeof value === 'object' && 'formula' in value) {
+    throw new ParseError({
+      file,
+      detail: `cell ${address} holds a formula: expected plain values (formulas are never evaluated)`,
+    });
+  }
+  if (typeof value === 'object' && 'richText' in value) return value.richText.map((r) => r.text).join('');
+  if (typeof value === 'object' && 'text' in value) return String(value.text);
+  return String(value);
+}
+
+/**
+ * The first worksheet of an XLSX manifest as CSV text, so the one manifest parser checks both.
+ * Spreadsheet row n becomes line n, so problems point at the row a person sees.
+ */
+export async function xlsxToCsv(content: Buffer, file: string): Promise<Buffer> {
+  const workbook = new ExcelJS.Workbook();
+  try {
+    await workbook.xlsx.load(content as unknown as ArrayBuffer);
+  } catch {
+    throw new ParseError({ file, detail: 'the file is not a readable XLSX workbook' });
+  }
+  const sheet = workbook.worksheets[0];
+  if (!sheet || sheet.rowCount === 0)
+    throw new ParseError({ file, detail: 'the workbook has no rows: no samples' });
+  const width = sheet.columnCount;
+  const lines: string[] = [];
+  for (let r = 1; r <= sheet.rowCount; r++) {
+    const row = sheet.getRow(r);
+    const cells: string[] = [];
+    for (let c = 1; c <= width; c++)
+      cells.push(csvCell(cellText(row.getCell(c).value, file, row.getCell(c).address)));
+    lines.push(cells.join(','));
+  }
+  return Buffer.from(`${lines.join('\n')}\n`, 'utf8');
+}
