@@ -235,14 +235,18 @@ export class IngestService {
           finishedAt: new Date().toISOString(),
         },
       );
+      return batch;
     });
     this.events.publish('file.stored', {
       id: file.id,
       profileId: profile.id,
       readingCount: parsed.readings.length,
       runId,
+      batchId,
+      status: batchId ? 'stored' : 'unassigned',
     });
-    return 'stored';
+    if (batchId) this.events.publish('batch.updated', { id: batchId });
+    return batchId ? 'stored' : 'unassigned';
   }
 
   /** A job that kept failing (an I/O or database fault, not a bad file): keep the file, say so, allow a re-queue. */
