@@ -9,9 +9,21 @@ import type { InstrumentsService } from './instruments.service';
 
 const PREVIEW_READINGS = 50;
 
-/** Instrument profiles and their tokens: admins only. */
+/** Instrument profiles and their tokens: admins only (bar the summary list). */
 export function instrumentsRouter(instruments: InstrumentsService, maxBytes: number): Router {
   const router = Router();
+  /** Names and formats only, for choosing an instrument (e.g. creating a batch): every signed-in role. */
+  router.get('/summary', requireRole('admin', 'lab_manager', 'scientist'), async (_req, res) => {
+    res.json(
+      (await instruments.list()).map(({ id, name, kind, plateFormat, active }) => ({
+        id,
+        name,
+        kind,
+        plateFormat,
+        active,
+      })),
+    );
+  });
   router.use(requireRole('admin'));
 
   router.get('/', async (_req, res) => {

@@ -37,6 +37,7 @@ export async function xlsxToCsv(content: Buffer, file: string): Promise<Buffer> 
     throw new ParseError({ file, detail: 'the workbook has no rows: no samples' });
   const width = sheet.columnCount;
   const lines: string[] = [];
+  let headerLength = 0;
   for (let r = 1; r <= sheet.rowCount; r++) {
     const row = sheet.getRow(r);
     const cells: string[] = [];
