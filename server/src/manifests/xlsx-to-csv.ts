@@ -43,6 +43,10 @@ export async function xlsxToCsv(content: Buffer, file: string): Promise<Buffer> 
     const cells: string[] = [];
     for (let c = 1; c <= width; c++)
       cells.push(csvCell(cellText(row.getCell(c).value, file, row.getCell(c).address)));
+    // Empty cells past the header are the sheet's width, not the row's: drop them, so a row that is too
+    // long stays visible while a short row (empty trailing cells) is simply complete.
+    while (cells.length > Math.max(headerLength, 1) && cells[cells.length - 1] === '') cells.pop();
+    if (r === 1) headerLength = cells.length;
     lines.push(cells.join(','));
   }
   return Buffer.from(`${lines.join('\n')}\n`, 'utf8');
