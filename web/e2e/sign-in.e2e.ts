@@ -1,15 +1,26 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Browser } from 'playwright-core';
+import { navItemsFor } from '../src/app/core/shell/navigation';
 import { launchChromium } from './support/browser';
 import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
 
 jest.setTimeout(90_000);
 
+/** What each role may open: the one declared list (core/shell/navigation.ts). */
+function labelsFor(role: 'admin' | 'lab_manager' | 'scientist'): string[] {
+  return navItemsFor(role).map((item) => item.label);
+}
+
 const ROLES = [
-  { email: 'admin@equilight.test', role: 'Administrator', nav: ['Overview', 'People'] },
-  { email: 'manager@equilight.test', role: 'Lab manager', nav: ['Overview'] },
-  { email: 'scientist@equilight.test', role: 'Scientist', nav: ['Overview'] },
+  { email: 'admin@equilight.test', role: 'Administrator', nav: labelsFor('admin'), forbidden: null },
+  {
+    email: 'manager@equilight.test',
+    role: 'Lab manager',
+    nav: labelsFor('lab_manager'),
+    forbidden: '/people',
+  },
+  { email: 'scientist@equilight.test', role: 'Scientist', nav: labelsFor('scientist'), forbidden: '/intake' },
 ];
 
 describe('signing in through Chromium', () => {
@@ -28,7 +39,7 @@ describe('signing in through Chromium', () => {
     await server?.stop();
   });
 
-  it.each(ROLES)('$email sees the navigation of the $role role', async ({ email, role, nav }) => {
+  it.each(ROLES)('$email sees the navigation of the $role role', async ({ email, role, nav, forbidden }) => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
     const page = await context.newPage();
     page.on('console', (msg) => {
@@ -55,6 +66,12 @@ describe('signing in through Chromium', () => {
       return [...document.fonts].some((f) => f.family.includes('Material Symbols') && f.status === 'loaded');
     });
     expect(iconFont).toBe(true);
+    if (forbidden) {
+      // a page of another role is not shown: the guard sends the person to their overview
+      await page.goto(`${server.url}${forbidden}`);
+      await page.getByTestId('role-label').waitFor();
+      expect(new URL(page.url()).pathname).toBe('/');
+    }
     await page.screenshot({
       path: path.join(SCREENSHOT_DIR, `sign-in-${role.toLowerCase().replace(/\s+/g, '-')}.png`),
     });

@@ -67,9 +67,6 @@ export class InstrumentsPage implements OnInit {
   protected readonly dataSource = new MatTableDataSource<InstrumentProfile>([]);
   protected readonly loading = signal(true);
   protected readonly error = signal<string | null>(null);
-  protected readonly kindLabels = KIND_LABELS;
-  protected readonly plateFormatLabels = PLATE_FORMAT_LABELS;
-  protected readonly fileFormatLabels = FILE_FORMAT_LABELS;
   private readonly sort = viewChild(MatSort);
 
   constructor() {
@@ -127,6 +124,18 @@ export class InstrumentsPage implements OnInit {
         this.loading.set(false);
       },
     });
+  }
+
+  protected kindLabel(p: InstrumentProfile): string {
+    return KIND_LABELS[p.kind];
+  }
+
+  protected plateFormatLabel(p: InstrumentProfile): string {
+    return PLATE_FORMAT_LABELS[p.plateFormat];
+  }
+
+  protected fileFormatLabel(p: InstrumentProfile): string {
+    return FILE_FORMAT_LABELS[p.fileFormat];
   }
 
   protected applyFilter(value: string): void {

@@ -14,7 +14,8 @@ import {
 } from './instrument-profile';
 
 function checkProfile(value: unknown): InstrumentProfile {
-  if (!isInstrumentProfile(value)) throw new Error('The server answered with an unexpected instrument profile.');
+  if (!isInstrumentProfile(value))
+    throw new Error('The server answered with an unexpected instrument profile.');
   return value;
 }
 
@@ -28,8 +29,8 @@ function checkWithToken(value: unknown): ProfileWithToken {
 export function tryFailure(err: unknown): TryFailure {
   const failure: TryFailure = { message: apiErrorMessage(err, 'The file could not be tried.') };
   if (err instanceof HttpErrorResponse) {
-    const details = (err.error as { error?: { details?: { line?: unknown; column?: unknown } } } | null)?.error
-      ?.details;
+    const details = (err.error as { error?: { details?: { line?: unknown; column?: unknown } } } | null)
+      ?.error?.details;
     if (typeof details?.line === 'number') failure.line = details.line;
     if (typeof details?.column === 'string' || typeof details?.column === 'number') {
       failure.column = details.column;
@@ -44,6 +45,20 @@ export function tryFailure(err: unknown): TryFailure {
 @Injectable({ providedIn: 'root' })
 export class InstrumentsService {
   private readonly http = inject(HttpClient);
+
+  /** Names and formats only, readable by every signed-in role (for choosing an instrument). */
+  summary(): Observable<{ id: number; name: string; plateFormat: string; active: boolean }[]> {
+    return this.http.get<unknown[]>('/api/instruments/summary').pipe(
+      map((rows) =>
+        rows.map((row) => {
+          const r = row as { id?: unknown; name?: unknown; plateFormat?: unknown; active?: unknown };
+          if (typeof r.id !== 'number' || typeof r.name !== 'string')
+            throw new Error('Unexpected instrument summary.');
+          return { id: r.id, name: r.name, plateFormat: String(r.plateFormat), active: r.active === true };
+        }),
+      ),
+    );
+  }
 
   list(): Observable<InstrumentProfile[]> {
     return this.http.get<unknown[]>('/api/instruments').pipe(map((rows) => rows.map(checkProfile)));

@@ -56,8 +56,8 @@ export type ProfileDialogResult =
 
 type Geometry = 'pathLength' | 'fillVolume';
 
-/** A drop sub-folder is one plain folder name: no separators, no "..", no leading dot. */
-export const DROP_SUBFOLDER_PATTERN = /^[A-Za-z0-9][A-Za-z0-9 _.-]{0,63}$/;
+/** A drop sub-folder is one plain folder name: no separators and no dots, so it cannot leave the drop folder. */
+export const DROP_SUBFOLDER_PATTERN = /^[A-Za-z0-9][A-Za-z0-9_-]{0,79}$/;
 
 const positive: ValidatorFn = (control) =>
   control.value === null || control.value === '' || Number(control.value) > 0 ? null : { positive: true };
@@ -158,8 +158,12 @@ export class ProfileDialog {
   }
 
   private buildForm(p: InstrumentProfile | undefined) {
-    const rules = { ...DEFAULT_RULES, ...p?.rules, columns: { ...DEFAULT_RULES.columns, ...p?.rules.columns } };
-    const column = (value: string) => this.fb.control(value, [Validators.required, Validators.maxLength(100)]);
+    const rules = {
+      ...DEFAULT_RULES,
+      ...p?.rules,
+      columns: { ...DEFAULT_RULES.columns, ...p?.rules.columns },
+    };
+    const column = (value: string) => this.fb.control(value, [Validators.required, Validators.maxLength(60)]);
     return this.fb.group({
       name: [p?.name ?? '', [Validators.required, Validators.maxLength(120)]],
       kind: [p?.kind ?? ('plate_reader' as InstrumentKind)],
@@ -188,11 +192,11 @@ export class ProfileDialog {
       ),
       geometry: [(p?.fillVolumeUl != null ? 'fillVolume' : 'pathLength') as Geometry],
       pathLengthCm: [p ? p.pathLengthCm : (1 as number | null), [positive, Validators.max(100)]],
-      fillVolumeUl: [p?.fillVolumeUl ?? (null as number | null), [positive, Validators.max(10_000)]],
+      fillVolumeUl: [p?.fillVolumeUl ?? (null as number | null), [positive, Validators.max(5000)]],
       wellDiameterMm: [p?.wellDiameterMm ?? (null as number | null), [positive, Validators.max(100)]],
       defaultWavelengthNm: [
         p?.defaultWavelengthNm ?? (null as number | null),
-        [positive, Validators.min(100), Validators.max(3000)],
+        [positive, Validators.min(100), Validators.max(3300)],
       ],
       dropSubfolder: [
         p?.dropSubfolder ?? '',
@@ -208,11 +212,13 @@ export class ProfileDialog {
     const c = this.form.controls;
     const byVolume = c.geometry.value === 'fillVolume' && c.kind.value === 'plate_reader';
     const set = (control: AbstractControl, required: boolean, max: number) => {
-      control.setValidators(required ? [Validators.required, positive, Validators.max(max)] : [positive, Validators.max(max)]);
+      control.setValidators(
+        required ? [Validators.required, positive, Validators.max(max)] : [positive, Validators.max(max)],
+      );
       control.updateValueAndValidity({ emitEvent: false });
     };
     set(c.pathLengthCm, !byVolume, 100);
-    set(c.fillVolumeUl, byVolume, 10_000);
+    set(c.fillVolumeUl, byVolume, 5000);
     set(c.wellDiameterMm, byVolume, 100);
   }
 

@@ -50,6 +50,9 @@ export interface TokenDialogData {
       background: var(--mat-sys-tertiary-container);
       color: var(--mat-sys-on-tertiary-container);
     }
+    .eq-token-warning mat-icon {
+      flex: none;
+    }
     .eq-token-box {
       display: flex;
       align-items: center;

@@ -19,7 +19,14 @@ export class TryFileResult {
   /** The run id the profile's file-name pattern takes from the file name; undefined when there is no pattern. */
   readonly runIdFromName = input<string | null | undefined>(undefined);
 
-  protected readonly columns = ['position', 'wavelengthNm', 'absorbance', 'readTime', 'temperatureC', 'replicate'];
+  protected readonly columns = [
+    'position',
+    'wavelengthNm',
+    'absorbance',
+    'readTime',
+    'temperatureC',
+    'replicate',
+  ];
   protected readonly extra = computed(() => Object.entries(this.result()?.metadata.extra ?? {}));
   protected readonly wavelengths = computed(() =>
     (this.result()?.metadata.wavelengthsNm ?? []).map((nm) => `${nm} nm`).join(', '),

@@ -14,7 +14,8 @@ export function formatFileSize(bytes: number): string {
   }
   const digits = value < 10 ? 2 : value < 100 ? 1 : 0;
   // Rounding can reach the next unit (999.96 kB → "1000 kB"); step up instead.
-  if (Number(value.toFixed(digits)) >= 1000 && unit < UNITS.length - 1) return `${(value / 1000).toFixed(2)} ${UNITS[unit + 1]}`;
+  if (Number(value.toFixed(digits)) >= 1000 && unit < UNITS.length - 1)
+    return `${(value / 1000).toFixed(2)} ${UNITS[unit + 1]}`;
   return `${value.toFixed(digits)} ${UNITS[unit]}`;
 }
 

@@ -23,7 +23,8 @@ export interface IntakePage {
   total: number;
 }
 
-export type IntakeSort = 'receivedAt' | 'finishedAt' | 'originalName' | 'status' | 'sizeBytes' | 'readingCount';
+export type IntakeSort =
+  'receivedAt' | 'finishedAt' | 'originalName' | 'status' | 'sizeBytes' | 'readingCount';
 
 export interface IntakeQuery {
   status: IntakeStatus | '';
@@ -47,7 +48,11 @@ export const STATUS_DISPLAY: Record<IntakeStatus, { label: string; icon: string;
   queued: { label: 'Queued', icon: 'schedule', hint: 'Waiting to be parsed' },
   parsing: { label: 'Parsing', icon: 'sync', hint: 'Being parsed and stored' },
   stored: { label: 'Stored', icon: 'check_circle', hint: 'Readings stored' },
-  duplicate: { label: 'Duplicate', icon: 'content_copy', hint: 'Same content as an earlier file; not stored again' },
+  duplicate: {
+    label: 'Duplicate',
+    icon: 'content_copy',
+    hint: 'Same content as an earlier file; not stored again',
+  },
   quarantined: { label: 'Quarantined', icon: 'report', hint: 'Did not parse; kept for a fix and a re-queue' },
   unassigned: { label: 'Unassigned', icon: 'help', hint: 'No instrument profile matches it' },
 };

@@ -51,7 +51,8 @@ export class IntakeService {
     body.append('file', file, file.name);
     return this.http.post<unknown>('/api/ingest', body).pipe(
       map((res) => {
-        if (!isIngestReceipt(res)) throw new Error('The server answered the upload with an unexpected shape.');
+        if (!isIngestReceipt(res))
+          throw new Error('The server answered the upload with an unexpected shape.');
         return res;
       }),
     );

@@ -53,7 +53,11 @@ class FakeSocket {
   }
 }
 
-const STORED: LiveEvent = { type: 'file.stored', data: { id: 7, readingCount: 96 }, at: '2031-04-02T09:00:00Z' };
+const STORED: LiveEvent = {
+  type: 'file.stored',
+  data: { id: 7, readingCount: 96 },
+  at: '2031-04-02T09:00:00Z',
+};
 
 describe('LiveEventsService', () => {
   let auth: AuthService;

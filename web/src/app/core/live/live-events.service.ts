@@ -18,11 +18,7 @@ import { webSocket } from 'rxjs/webSocket';
 import { AuthService } from '../auth/auth.service';
 
 export type LiveEventType =
-  | 'file.received'
-  | 'file.stored'
-  | 'file.quarantined'
-  | 'file.duplicate'
-  | 'batch.updated';
+  'file.received' | 'file.stored' | 'file.quarantined' | 'file.duplicate' | 'batch.updated';
 
 export const LIVE_EVENT_TYPES: readonly LiveEventType[] = [
   'file.received',

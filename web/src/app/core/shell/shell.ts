@@ -11,6 +11,7 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import { Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { map } from 'rxjs';
 import { AuthService } from '../auth/auth.service';
+import { LiveEventsService } from '../live/live-events.service';
 import { ROLE_LABELS } from '../auth/user';
 import { navItemsFor } from './navigation';
 
@@ -37,6 +38,8 @@ const DARK_KEY = 'equilight.dark';
 export class Shell {
   private readonly auth = inject(AuthService);
   private readonly router = inject(Router);
+  /** Opened with the shell, so live events flow from sign-in on, whichever page comes first. */
+  protected readonly live = inject(LiveEventsService);
 
   protected readonly user = this.auth.currentUser;
   protected readonly roleLabel = computed(() => {
