@@ -96,6 +96,11 @@ export const routes: Routes = [
         loadComponent: () => import('./people/people-page').then((m) => m.PeoplePage),
       },
       {
+        path: 'api-docs',
+        title: 'API · Equilight',
+        loadComponent: () => import('./api-docs/api-docs-page').then((m) => m.ApiDocsPage),
+      },
+      {
         path: 'intake',
         title: 'Intake · Equilight',
         canActivate: [roleGuard('admin', 'lab_manager')],

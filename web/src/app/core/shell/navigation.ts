@@ -24,6 +24,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/planner', label: 'Planner', icon: 'calculate', roles: ['admin', 'lab_manager', 'scientist'] },
   { path: '/instruments', label: 'Instruments', icon: 'precision_manufacturing', roles: ['admin'] },
   { path: '/people', label: 'People', icon: 'group', roles: ['admin'] },
+  { path: '/api-docs', label: 'API', icon: 'api', roles: EVERYONE },
   { path: '/audit', label: 'Audit', icon: 'history', roles: ['admin', 'lab_manager'] },
 ];
 
