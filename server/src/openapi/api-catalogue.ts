@@ -12,6 +12,7 @@ import { intakeQuerySchema } from '../ingest/intake.schema';
 import { createProfileSchema, updateProfileSchema } from '../instruments/instruments.schema';
 import { createLayoutSchema, updateLayoutSchema } from '../layouts/layouts.schema';
 import { manifestMetaSchema } from '../manifests/manifests.schema';
+import { temperaturesQuerySchema } from '../temperatures/temperatures.router';
 import { createUserSchema, updateUserSchema } from '../users/users.schema';
 import type { Role } from '../users/user.entity';
 
@@ -387,6 +388,15 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     query: auditQuerySchema,
     success: [200, 'A page of entries and the total'],
+  },
+  {
+    method: 'get',
+    path: '/api/temperatures',
+    tag: 'temperatures',
+    summary: "K per temperature and the van 't Hoff fit for each chemical system",
+    access: ALL,
+    query: temperaturesQuerySchema,
+    success: [200, 'Systems with their points and fit'],
   },
   {
     method: 'get',

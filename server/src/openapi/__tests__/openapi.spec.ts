@@ -24,13 +24,17 @@ describe('OpenAPI document', () => {
     expect(login.properties.password.maxLength).toBe(200);
     const batch = doc.paths['/api/batches'].post.requestBody.content['application/json'].schema;
     expect(batch.properties.settings).toBeDefined();
-    expect(batch.required).toEqual(expect.arrayContaining(['name', 'profileId', 'layoutId', 'manifestId', 'runId']));
+    expect(batch.required).toEqual(
+      expect.arrayContaining(['name', 'profileId', 'layoutId', 'manifestId', 'runId']),
+    );
     const intake = doc.paths['/api/intake'].get.parameters.map((p: { name: string }) => p.name);
     expect(intake).toEqual(expect.arrayContaining(['status', 'sort', 'page', 'pageSize']));
   });
 
   // Signed in as admin so role checks pass and the route itself answers; signing out goes last.
-  const ordered = [...API_OPERATIONS].sort((a, b) => Number(a.path === '/api/auth/logout') - Number(b.path === '/api/auth/logout'));
+  const ordered = [...API_OPERATIONS].sort(
+    (a, b) => Number(a.path === '/api/auth/logout') - Number(b.path === '/api/auth/logout'),
+  );
   let agent: Awaited<ReturnType<TestApp['agent']>>;
 
   it.each(ordered.map((op) => [op.method.toUpperCase(), op.path, op] as const))(

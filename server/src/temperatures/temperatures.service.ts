@@ -1,0 +1,83 @@
+import { type VantHoffResult, vantHoff } from '../analysis';
+import type { BatchesService } from '../batches/batches.service';
+
+export interface TemperaturePoint {
+  batchId: number;
+  batchName: string;
+  state: string;
+  temperatureC: number;
+  model: string | null;
+  k: number | null;
+  kSe: number | null;
+  kCi95: [number, number] | null;
+  /** Why this batch is not in the fit, when it is not. */
+  excludedBecause: string | null;
+}
+
+export interface SystemTemperatures {
+  systemName: string;
+  /** The stoichiometry the fit uses: the one most batches found best. */
+  model: string | null;
+  points: TemperaturePoint[];
+  vantHoff: VantHoffResult | null;
+  note: string;
+}
+
+/** K of one system at several temperatures (approved batches) and the van 't Hoff fit across them. */
+export class TemperaturesService {
+  constructor(private readonly batches: BatchesService) {}
+
+  async systems(options: { includeUnapproved?: boolean } = {}): Promise<SystemTemperatures[]> {
+    const all = (await this.batches.list()).filter((b) => b.systemName && b.temperatureC !== null);
+    const names = [...new Set(all.map((b) => b.systemName as string))].sort();
+    const out: SystemTemperatures[] = [];
+    for (const systemName of names) {
+      const points: TemperaturePoint[] = [];
+      for (const batch of all.filter((b) => b.systemName === systemName)) {
+        const { result } = await this.batches.analysis(batch.id);
+        const best =
+          result.stoichiometry?.candidates.find((c) => c.model === result.stoichiometry?.best) ?? null;
+        points.push({
+          batchId: batch.id,
+          batchName: batch.name,
+          state: batch.state,
+          temperatureC: batch.temperatureC as number,
+          model: best?.model ?? null,
+          k: best?.fit?.k ?? null,
+          kSe: best?.fit?.kSe ?? null,
+          kCi95: best?.fit?.kCi95 ?? null,
+          excludedBecause: null,
+        });
+      }
+      const models = points.filter((p) => p.model).map((p) => p.model as string);
+      const model =
+        models.sort(
+          (a, b) => models.filter((m) => m === b).length - models.filter((m) => m === a).length,
+        )[0] ?? null;
+      for (const p of points) {
+        if (!options.includeUnapproved && p.state !== 'approved') p.excludedBecause = 'not approved yet';
+        else if (p.k === null) p.excludedBecause = 'no K from this batch';
+        else if (p.model !== model) p.excludedBecause = `its best stoichiometry is ${p.model}, not ${model}`;
+      }
+      const used = points.filter((p) => !p.excludedBecause);
+      const temperatures = new Set(used.map((p) => p.temperatureC));
+      let fit: VantHoffResult | null = null;
+      let note: string;
+      if (temperatures.size >= 2) {
+        fit = vantHoff(used.map((p) => ({ temperatureC: p.temperatureC, k: p.k as number })));
+        note = `van 't Hoff fit over ${used.length} batches at ${temperatures.size} temperatures (${model}).`;
+        if (temperatures.size === 2) note += ' With two temperatures there is no standard error.';
+      } else {
+        note = `Needs approved batches at two or more temperatures; ${used.length} usable so far.`;
+      }
+      out.push({
+        systemName,
+        model,
+        points: points.sort((a, b) => a.temperatureC - b.temperatureC),
+        vantHoff: fit,
+        note,
+      });
+    }
+    return out;
+  }
+}
