@@ -4,6 +4,7 @@ import { ConfigError, loadConfig } from './config';
 import { openDatabase } from './database/data-source';
 import { attachLiveEvents } from './events/live-events';
 import { seedDemoInstruments } from './seed/demo-instruments';
+import { seedDemoScenario } from './seed/demo-scenario';
 import { seedDemoPeople } from './seed/demo-people';
 
 async function main(): Promise<void> {
@@ -20,6 +21,8 @@ async function main(): Promise<void> {
       serverUrl: `http://${host}:${config.port}`,
     });
     if (watcher) console.log(`Seeded demo instrument profiles; drop folder ${watcher.dropDir}`);
+    if (await seedDemoScenario(equilight))
+      console.log('Seeded the demo scenario (invented data): layouts, manifests, batches.');
   }
   const server = http.createServer(equilight.app);
   const live = attachLiveEvents(server, {
