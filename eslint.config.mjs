@@ -2,7 +2,7 @@ import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 
 export default tseslint.config(
-  { ignores: ['node_modules/', 'dist/', 'server/dist/', '.angular/', 'data/', 'test-output/', 'coverage/'] },
+  { ignores: ['node_modules/', 'dist/', 'server/dist/', 'watcher/dist/', '.angular/', 'data/', 'test-output/', 'coverage/'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

@@ -21,7 +21,8 @@ function run(name, args, env = {}) {
   });
   child.on('exit', (code, signal) => {
     console.log(`[start] ${name} exited (${signal ?? code})`);
-    if (name !== 'demo instrument') shutdown(code ?? 1);
+    // The server is the product: only its exit stops everything (a watcher with a bad configuration says why and exits).
+    if (name === 'server') shutdown(code ?? 1);
   });
   children.push(child);
   return child;
@@ -51,7 +52,9 @@ async function waitForServer() {
 run('server', ['server/dist/main.js']);
 if (await waitForServer()) {
   const watcherConfig = path.join(dataDir, 'watcher.demo.json');
-  if (fs.existsSync(watcherConfig) && process.env.START_WATCHER !== 'false') {
+  if (!fs.existsSync(watcherConfig))
+    console.log('[start] no demo watcher configuration (SEED_DEMO=false?): the watcher is not started');
+  else if (process.env.START_WATCHER !== 'false') {
     run('watcher', ['watcher/dist/main.js'], {
       EQUILIGHT_WATCHER_CONFIG: watcherConfig,
       EQUILIGHT_SERVER_URL: serverUrl,

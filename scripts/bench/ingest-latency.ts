@@ -14,7 +14,7 @@ import os from 'node:os';
 import path from 'node:path';
 import WebSocket from 'ws';
 import { parseWatcherConfig } from '../../watcher/src/config';
-import { silentLogger } from '../../watcher/src/logger';
+import { consoleLogger, silentLogger } from '../../watcher/src/logger';
 import { createWatcher } from '../../watcher/src/watcher';
 
 const ROOT = path.resolve(__dirname, '../..');
@@ -39,7 +39,8 @@ function plateExport(seed: number): string {
   const lines = ['position,wavelength_nm,absorbance'];
   for (let r = 0; r < 8; r++) {
     for (let c = 1; c <= 12; c++) {
-      lines.push(`${ROWS[r]}${c},450,${(0.05 + ((seed * 131 + r * 17 + c * 7) % 997) / 713).toFixed(4)}`);
+      // Unique for every seed, so no file is a duplicate of another.
+      lines.push(`${ROWS[r]}${c},450,${(0.1 + (seed * 96 + r * 12 + c) / 1e6).toFixed(6)}`);
     }
   }
   return `${lines.join('\n')}\n`;
@@ -183,7 +184,9 @@ async function main(): Promise<void> {
       settleMs: SETTLE_MS,
       instruments: [{ folder: 'latency-reader', token }],
     });
-    watcher = createWatcher(config, { logger: silentLogger });
+    watcher = createWatcher(config, {
+      logger: process.argv.includes('--verbose') ? consoleLogger : silentLogger,
+    });
     await watcher.start();
 
     const writtenAt = new Map<string, number>();

@@ -7,7 +7,11 @@ export interface BackoffOptions {
  * Delay before retry number `attempt` (1-based): initialMs doubling up to maxMs, with "equal jitter"
  * (half fixed, half random) so that many waiting clients do not return in step.
  */
-export function backoffDelayMs(attempt: number, { initialMs, maxMs }: BackoffOptions, random = Math.random): number {
+export function backoffDelayMs(
+  attempt: number,
+  { initialMs, maxMs }: BackoffOptions,
+  random = Math.random,
+): number {
   const exponent = Math.min(Math.max(attempt, 1) - 1, 30);
   const ceiling = Math.min(maxMs, initialMs * 2 ** exponent);
   return Math.round(ceiling / 2 + random() * (ceiling / 2));

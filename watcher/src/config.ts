@@ -27,6 +27,10 @@ const instrumentSchema = z.strictObject({
 });
 
 const positiveMs = (max: number) => z.number().int().min(1).max(max);
+/** "is required" when missing, otherwise what was expected. */
+const expecting = (what: string) => ({
+  error: (issue: { input?: unknown }) => (issue.input === undefined ? 'is required' : `must be ${what}`),
+});
 
 const configSchema = z
   .strictObject({
@@ -35,8 +39,11 @@ const configSchema = z
       .trim()
       .regex(/^https?:\/\/[^\s/]+/, 'must be an http:// or https:// address, e.g. http://127.0.0.1:4210')
       .default('http://127.0.0.1:4210'),
-    dropDir: z.string().trim().min(1, 'is required (the shared drop folder)'),
-    spoolDir: z.string().trim().min(1, 'is required (a local folder for the spool)'),
+    dropDir: z.string(expecting('a folder path (the shared drop folder)')).trim().min(1, 'is required'),
+    spoolDir: z
+      .string(expecting('a folder path (a local folder for the spool)'))
+      .trim()
+      .min(1, 'is required'),
     settleMs: z.number().int().min(50).max(600_000).default(1500),
     maxConcurrentUploads: z.number().int().min(1).max(16).default(2),
     retryInitialMs: positiveMs(600_000).default(500),
@@ -45,7 +52,9 @@ const configSchema = z
     shutdownGraceMs: z.number().int().min(0).max(600_000).default(5000),
     /** Poll the file system instead of native events (network shares that send no events). */
     usePolling: z.boolean().default(false),
-    instruments: z.array(instrumentSchema).min(1, 'needs at least one { folder, token }'),
+    instruments: z
+      .array(instrumentSchema, expecting('a list of { "folder": …, "token": … }'))
+      .min(1, 'needs at least one { folder, token }'),
   })
   .refine((c) => c.retryMaxMs >= c.retryInitialMs, {
     message: 'must be at least retryInitialMs',
@@ -63,7 +72,11 @@ export type InstrumentConfig = WatcherConfig['instruments'][number];
 export class WatcherConfigError extends Error {}
 
 /** Check a configuration object (already merged); paths are made absolute against `baseDir`. */
-export function parseWatcherConfig(input: unknown, baseDir = process.cwd(), source = 'configuration'): WatcherConfig {
+export function parseWatcherConfig(
+  input: unknown,
+  baseDir = process.cwd(),
+  source = 'configuration',
+): WatcherConfig {
   const parsed = configSchema.safeParse(input);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((issue) => {

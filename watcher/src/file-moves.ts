@@ -81,7 +81,13 @@ async function claimByLinkOrCopy(source: string, target: string): Promise<void> 
   } catch (err) {
     const code = (err as NodeJS.ErrnoException).code;
     // Hard links are not available on every file system (FAT, some network shares).
-    if (code === 'EPERM' || code === 'ENOTSUP' || code === 'EXDEV' || code === 'ENOSYS' || code === 'EINVAL') {
+    if (
+      code === 'EPERM' ||
+      code === 'ENOTSUP' ||
+      code === 'EXDEV' ||
+      code === 'ENOSYS' ||
+      code === 'EINVAL'
+    ) {
       await fsp.copyFile(source, target, fs.constants.COPYFILE_EXCL);
       return;
     }

@@ -15,4 +15,8 @@ export const consoleLogger: WatcherLogger = {
   error: (message) => process.stderr.write(line('ERROR', message)),
 };
 
-export const silentLogger: WatcherLogger = { info: () => undefined, warn: () => undefined, error: () => undefined };
+export const silentLogger: WatcherLogger = {
+  info: () => undefined,
+  warn: () => undefined,
+  error: () => undefined,
+};

@@ -21,7 +21,7 @@ export class SettleTracker {
   constructor(
     private readonly settleMs: number,
     private readonly onSettled: (file: string, firstSeenAt: Date) => void,
-    private readonly pollMs = Math.min(100, Math.max(20, Math.round(settleMs / 10))),
+    private readonly pollMs = Math.min(50, Math.max(10, Math.round(settleMs / 10))),
   ) {}
 
   /** A file appeared or changed: (re)start its quiet period. */

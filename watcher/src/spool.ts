@@ -109,7 +109,8 @@ export class Spool {
   /** The entry holding exactly these bytes from exactly this drop-folder file, if any. */
   find(folder: string, relativePath: string, sha256: string): SpoolEntry | undefined {
     for (const entry of this.byId.values()) {
-      if (entry.sha256 === sha256 && entry.folder === folder && entry.relativePath === relativePath) return entry;
+      if (entry.sha256 === sha256 && entry.folder === folder && entry.relativePath === relativePath)
+        return entry;
     }
     return undefined;
   }
@@ -203,10 +204,12 @@ export class Spool {
     }
     try {
       const { sha256, size } = await hashFile(this.binPath(entry));
-      if (sha256 !== entry.sha256 || size !== entry.size) throw new Error('its bytes do not match the recorded SHA-256');
+      if (sha256 !== entry.sha256 || size !== entry.size)
+        throw new Error('its bytes do not match the recorded SHA-256');
     } catch (err) {
       await this.setAside(id);
-      const reason = (err as NodeJS.ErrnoException).code === 'ENOENT' ? 'its bytes are missing' : (err as Error).message;
+      const reason =
+        (err as NodeJS.ErrnoException).code === 'ENOENT' ? 'its bytes are missing' : (err as Error).message;
       return (
         `spool entry for ${entry.folder}/${entry.relativePath} set aside in ${DAMAGED_DIR}/: ${reason}; ` +
         'the original is sent again if it is still in the drop folder'
@@ -226,13 +229,20 @@ export class Spool {
 
   /** One watcher per spool: two would send the same entries. A lock left by a dead process is taken over. */
   private async lock(): Promise<void> {
-    if (locksHeldHere.has(this.dir)) throw new SpoolLockedError(`the spool ${this.dir} is already in use in this process`);
+    if (locksHeldHere.has(this.dir))
+      throw new SpoolLockedError(`the spool ${this.dir} is already in use in this process`);
     const lockPath = path.join(this.dir, LOCK_FILE);
     const owner = Number((await fsp.readFile(lockPath, 'utf8').catch(() => '')).trim());
     // A lock written before the machine last started is stale even if its process id is in use again.
     const writtenAt = (await fsp.stat(lockPath).catch(() => undefined))?.mtimeMs ?? 0;
     const bootedAt = Date.now() - os.uptime() * 1000;
-    if (Number.isInteger(owner) && owner > 0 && owner !== process.pid && writtenAt > bootedAt && processAlive(owner)) {
+    if (
+      Number.isInteger(owner) &&
+      owner > 0 &&
+      owner !== process.pid &&
+      writtenAt > bootedAt &&
+      processAlive(owner)
+    ) {
       throw new SpoolLockedError(
         `the spool ${this.dir} is in use by another watcher (process ${owner}); stop it first or use another spoolDir`,
       );

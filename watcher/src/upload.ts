@@ -11,8 +11,11 @@ export type UploadResult =
   | { kind: 'rejected'; httpStatus: number; code: string; message: string }
   /** 401/403: the instrument token is wrong or revoked. */
   | { kind: 'unauthorized'; httpStatus: number; message: string }
-  /** Anything else (network, 429, 5xx, an unexpected answer): try again later. */
-  | { kind: 'retry'; reason: string; retryAfterMs?: number; unexpected: boolean }
+  /**
+   * Anything else: try again later. `scope` says whether the server as a whole is away or busy
+   * (network error, timeout, 408/429/502/503/504) or the failure may be about this file only.
+   */
+  | { kind: 'retry'; reason: string; scope: 'server' | 'file'; unexpected: boolean; retryAfterMs?: number }
   /** The watcher is stopping. */
   | { kind: 'aborted' };
 
@@ -37,6 +40,7 @@ const ackSchema = z.object({
 const errorSchema = z.object({ error: z.object({ code: z.string(), message: z.string() }) });
 
 const PERMANENT = new Set([400, 413, 415, 422]);
+const SERVER_BUSY = new Set([408, 429, 502, 503, 504]);
 const MEDIA_TYPES: Record<string, string> = {
   '.csv': 'text/csv',
   '.tsv': 'text/tab-separated-values',
@@ -67,9 +71,15 @@ export async function uploadFile(req: UploadRequest): Promise<UploadResult> {
   } catch (err) {
     if (req.signal.aborted) return { kind: 'aborted' };
     if (timeout.aborted) {
-      return { kind: 'retry', reason: `no answer within ${Math.round(req.timeoutMs / 1000)} s`, unexpected: false };
+      const reason = `no answer within ${Math.round(req.timeoutMs / 1000)} s`;
+      return { kind: 'retry', reason, scope: 'server', unexpected: false };
     }
-    return { kind: 'retry', reason: `server unreachable (${networkReason(err)})`, unexpected: false };
+    return {
+      kind: 'retry',
+      reason: `server unreachable (${networkReason(err)})`,
+      scope: 'server',
+      unexpected: false,
+    };
   }
 
   const json = parseJson(body);
@@ -80,6 +90,7 @@ export async function uploadFile(req: UploadRequest): Promise<UploadResult> {
       return {
         kind: 'retry',
         reason: `202 without an intake id in its body (${snippet(body)})`,
+        scope: 'file',
         unexpected: true,
       };
     }
@@ -92,15 +103,17 @@ export async function uploadFile(req: UploadRequest): Promise<UploadResult> {
   }
   const error = errorSchema.safeParse(json);
   const code = error.success ? error.data.error.code : `http_${status}`;
-  const message = error.success ? error.data.error.message : `HTTP ${status} ${response.statusText} ${snippet(body)}`.trim();
+  const message = error.success
+    ? error.data.error.message
+    : `HTTP ${status} ${response.statusText} ${snippet(body)}`.trim();
   if (PERMANENT.has(status)) return { kind: 'rejected', httpStatus: status, code, message };
   if (status === 401 || status === 403) return { kind: 'unauthorized', httpStatus: status, message };
   const retryAfter = retryAfterMs(response.headers.get('retry-after'));
-  const expected = status === 408 || status === 429 || status >= 500;
   return {
     kind: 'retry',
     reason: `server answered ${status} (${message})`,
-    unexpected: !expected,
+    scope: SERVER_BUSY.has(status) ? 'server' : 'file',
+    unexpected: !(SERVER_BUSY.has(status) || status >= 500),
     ...(retryAfter !== undefined ? { retryAfterMs: retryAfter } : {}),
   };
 }

@@ -1,0 +1,494 @@
+import { EventEmitter } from 'node:events';
+import fsp from 'node:fs/promises';
+import path from 'node:path';
+import { type FSWatcher, watch } from 'chokidar';
+import { backoffDelayMs } from './backoff';
+import type { WatcherConfig } from './config';
+import { classifyDropPath } from './drop-paths';
+import { hashFile, placeWithoutOverwrite, writeFileAtomic } from './file-moves';
+import { consoleLogger, type WatcherLogger } from './logger';
+import { SettleTracker } from './settle';
+import { Spool, type SpoolEntry } from './spool';
+import { uploadFile } from './upload';
+
+export interface WatcherEvents {
+  /** The initial scan of the drop folder is complete. */
+  ready: [];
+  /** A settled file was copied into the spool. */
+  spooled: [entry: SpoolEntry];
+  /** The server acknowledged the file (202). */
+  uploaded: [entry: SpoolEntry, ack: { intakeId: number; status: string; duplicateOfId?: number }];
+  /** The original went to done/ (movedTo null when it had already left the drop folder) and the spool entry is gone. */
+  done: [entry: SpoolEntry, result: { movedTo: string | null }];
+  /** The server refused the file for good; it is in rejected/ with a .reason.txt. */
+  rejected: [
+    entry: SpoolEntry,
+    result: { httpStatus: number; code: string; message: string; movedTo: string },
+  ];
+  /** An upload will be tried again after `delayMs`. */
+  retry: [entry: SpoolEntry, info: { delayMs: number; reason: string; httpStatus?: number }];
+  /** Something went wrong locally (disk, permissions); nothing was lost and it is tried again. */
+  problem: [info: { message: string }];
+}
+
+export interface DropFolderWatcher {
+  start(): Promise<void>;
+  stop(): Promise<void>;
+  on<E extends keyof WatcherEvents>(event: E, listener: (...args: WatcherEvents[E]) => void): this;
+  off<E extends keyof WatcherEvents>(event: E, listener: (...args: WatcherEvents[E]) => void): this;
+  /** Entries still in the spool (waiting, being sent, or being finished). */
+  pending(): SpoolEntry[];
+}
+
+export interface WatcherOptions {
+  logger?: WatcherLogger;
+}
+
+/** Create the drop-folder watcher. Nothing happens until `start()`. */
+export function createWatcher(config: WatcherConfig, options: WatcherOptions = {}): DropFolderWatcher {
+  return new Watcher(config, options.logger ?? consoleLogger);
+}
+
+interface Task {
+  promise: Promise<void>;
+  controller: AbortController;
+}
+
+/** How long to wait before retrying after a local failure (disk, permissions) on one file. */
+const LOCAL_RETRY_MS = 30_000;
+const RETRY_AFTER_CAP_MS = 10 * 60_000;
+
+class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
+  private readonly spool: Spool;
+  private readonly tokens: Map<string, string>;
+  private readonly settle: SettleTracker;
+  private fsw: FSWatcher | undefined;
+  private state: 'new' | 'running' | 'stopping' | 'stopped' = 'new';
+
+  private readonly inFlight = new Map<string, Task>();
+  /** Per entry: attempts so far and the earliest time of the next one (entry-specific back-off). */
+  private readonly entryRetry = new Map<string, { attempts: number; notBefore: number }>();
+  /** Server unreachable / overloaded: every upload waits. */
+  private serverFailures = 0;
+  private serverBlockedUntil = 0;
+  /** Token refused: uploads of that instrument folder wait. */
+  private readonly folderFailures = new Map<string, number>();
+  private readonly folderBlockedUntil = new Map<string, number>();
+  private pumpTimer: NodeJS.Timeout | undefined;
+
+  /** One operation at a time per drop-folder file (spooling it, finishing it). */
+  private readonly pathLocks = new Map<string, Promise<void>>();
+  private readonly background = new Set<Promise<void>>();
+  private readonly timers = new Set<NodeJS.Timeout>();
+  private readonly warned = new Set<string>();
+
+  constructor(
+    private readonly config: WatcherConfig,
+    private readonly log: WatcherLogger,
+  ) {
+    super();
+    this.spool = new Spool(config.spoolDir);
+    this.tokens = new Map(config.instruments.map((i) => [i.folder, i.token]));
+    this.settle = new SettleTracker(config.settleMs, (file, firstSeenAt) =>
+      this.onSettled(file, firstSeenAt),
+    );
+  }
+
+  pending(): SpoolEntry[] {
+    return this.spool.entries();
+  }
+
+  async start(): Promise<void> {
+    if (this.state !== 'new') throw new Error('a watcher can be started once');
+    this.state = 'running';
+    const { dropDir, spoolDir, serverUrl, settleMs } = this.config;
+    const folders = [...this.tokens.keys()];
+    this.log.info(
+      `watching ${dropDir} (instrument folders: ${folders.join(', ')}), spool ${spoolDir}, ` +
+        `server ${serverUrl}, settle ${settleMs} ms, ${this.config.maxConcurrentUploads} uploads at a time`,
+    );
+    try {
+      for (const folder of folders) {
+        await fsp.mkdir(path.join(dropDir, folder), { recursive: true }).catch((err: Error) => {
+          throw new Error(`cannot open the drop folder ${path.join(dropDir, folder)}: ${err.message}`);
+        });
+      }
+      const { entries, problems } = await this.spool.open();
+      for (const problem of problems) this.report(problem);
+      if (entries.length > 0) this.log.info(`resuming ${entries.length} file(s) from the spool`);
+      for (const entry of entries) {
+        if (!this.tokens.has(entry.folder)) {
+          this.warnOnce(
+            `spool-folder:${entry.folder}`,
+            `spooled files of folder "${entry.folder}" wait: it has no token in the watcher configuration`,
+          );
+        }
+      }
+    } catch (err) {
+      this.state = 'stopped';
+      await this.spool.close().catch(() => undefined);
+      throw err;
+    }
+    this.pump();
+
+    const known = new Set(folders);
+    this.fsw = watch(dropDir, {
+      ignoreInitial: false,
+      persistent: true,
+      followSymlinks: false,
+      depth: 16,
+      usePolling: this.config.usePolling,
+      interval: 500,
+      binaryInterval: 500,
+      ignorePermissionErrors: true,
+      // Settling is ours (SettleTracker): chokidar's own does not apply to files found at start.
+      awaitWriteFinish: false,
+      ignored: (file: string) => {
+        const where = classifyDropPath(dropDir, file, known);
+        if (where.kind !== 'ignored') return false;
+        if (where.reason === 'unknown-folder') {
+          this.warnOnce(
+            `folder:${where.folder}`,
+            `ignoring ${path.join(dropDir, where.folder ?? '')}: no instrument in the watcher configuration uses this folder`,
+          );
+        }
+        return true;
+      },
+    });
+    this.fsw.on('add', (file) => this.settle.touch(file));
+    this.fsw.on('change', (file) => this.settle.touch(file));
+    this.fsw.on('error', (err) => this.report(`watching the drop folder: ${(err as Error).message}`));
+    await new Promise<void>((resolve) => this.fsw!.once('ready', () => resolve()));
+    if (this.state === 'running') {
+      this.log.info('initial scan of the drop folder done');
+      this.emit('ready');
+    }
+  }
+
+  async stop(): Promise<void> {
+    if (this.state !== 'running') return;
+    this.state = 'stopping';
+    clearTimeout(this.pumpTimer);
+    for (const timer of this.timers) clearTimeout(timer);
+    this.settle.close();
+    await this.fsw?.close();
+    const all = () => [...[...this.inFlight.values()].map((t) => t.promise), ...this.background];
+    if (this.inFlight.size > 0) {
+      this.log.info(
+        `stopping: waiting up to ${this.config.shutdownGraceMs} ms for ${this.inFlight.size} upload(s)`,
+      );
+    }
+    let graceTimer: NodeJS.Timeout | undefined;
+    await Promise.race([
+      Promise.allSettled(all()),
+      new Promise((resolve) => (graceTimer = setTimeout(resolve, this.config.shutdownGraceMs))),
+    ]);
+    clearTimeout(graceTimer);
+    // Abandoned uploads stay in the spool and are sent again at the next start.
+    for (const task of this.inFlight.values()) task.controller.abort();
+    await Promise.allSettled(all());
+    await this.spool.close();
+    this.state = 'stopped';
+    const left = this.spool.entries().length;
+    this.log.info(`stopped${left > 0 ? `; ${left} file(s) wait in the spool for the next start` : ''}`);
+  }
+
+  // ── drop folder → spool ────────────────────────────────────────────────────────────────────────
+
+  private onSettled(file: string, firstSeenAt: Date): void {
+    const where = classifyDropPath(this.config.dropDir, file, new Set(this.tokens.keys()));
+    if (where.kind !== 'candidate' || this.state !== 'running') return;
+    const { folder, relativePath } = where;
+    this.runInBackground(
+      this.withPathLock(`${folder}/${relativePath}`, () =>
+        this.spoolFile(file, folder, relativePath, firstSeenAt),
+      ),
+    );
+  }
+
+  private async spoolFile(
+    file: string,
+    folder: string,
+    relativePath: string,
+    firstSeenAt: Date,
+  ): Promise<void> {
+    if (this.state !== 'running') return;
+    const label = `${folder}/${relativePath}`;
+    try {
+      const before = await fsp.stat(file).catch(() => undefined);
+      if (!before?.isFile()) return;
+      const staged = await this.spool.stage(file);
+      const after = await fsp.stat(file).catch(() => undefined);
+      if (!after) {
+        await this.spool.discard(staged);
+        return;
+      }
+      if (after.size !== before.size || after.mtimeMs !== before.mtimeMs || staged.size !== after.size) {
+        // Written to while we copied: wait for it to settle again.
+        await this.spool.discard(staged);
+        this.settle.touch(file);
+        return;
+      }
+      if (this.spool.find(folder, relativePath, staged.sha256)) {
+        await this.spool.discard(staged);
+        return;
+      }
+      const entry = await this.spool.commit(staged, { folder, relativePath, firstSeenAt });
+      this.log.info(`received ${label} (${entry.size} bytes, sha256 ${entry.sha256.slice(0, 12)}…)`);
+      this.emit('spooled', entry);
+      this.pump();
+    } catch (err) {
+      this.report(
+        `cannot copy ${label} into the spool (${(err as Error).message}); it stays in the drop folder, ` +
+          `next try in ${Math.round(LOCAL_RETRY_MS / 1000)} s`,
+      );
+      this.later(LOCAL_RETRY_MS, () => this.settle.touch(file));
+    }
+  }
+
+  // ── spool → server ─────────────────────────────────────────────────────────────────────────────
+
+  /** Start as many due tasks as the upload limit allows, and wake up when the next one falls due. */
+  private pump(): void {
+    if (this.state !== 'running') return;
+    clearTimeout(this.pumpTimer);
+    this.pumpTimer = undefined;
+    const now = Date.now();
+    let wakeAt = Infinity;
+    for (const entry of this.spool.entries()) {
+      if (this.inFlight.size >= this.config.maxConcurrentUploads) break;
+      if (this.inFlight.has(entry.id)) continue;
+      let dueAt = this.entryRetry.get(entry.id)?.notBefore ?? 0;
+      if (!entry.outcome) {
+        if (!this.tokens.has(entry.folder)) continue;
+        dueAt = Math.max(dueAt, this.serverBlockedUntil, this.folderBlockedUntil.get(entry.folder) ?? 0);
+      }
+      if (dueAt > now) {
+        wakeAt = Math.min(wakeAt, dueAt);
+        continue;
+      }
+      this.startTask(entry);
+    }
+    if (wakeAt !== Infinity) this.pumpTimer = setTimeout(() => this.pump(), wakeAt - now);
+  }
+
+  private startTask(entry: SpoolEntry): void {
+    const controller = new AbortController();
+    const promise = (async () => {
+      try {
+        if (!entry.outcome) await this.send(entry, controller.signal);
+        // Finishing is local and quick: done even while stopping, so an acknowledged file is not sent twice.
+        if (entry.outcome) {
+          await this.withPathLock(`${entry.folder}/${entry.relativePath}`, () => this.finish(entry));
+        }
+        this.entryRetry.delete(entry.id);
+      } catch (err) {
+        const retry = this.entryRetry.get(entry.id) ?? { attempts: 0, notBefore: 0 };
+        retry.attempts++;
+        retry.notBefore = Date.now() + LOCAL_RETRY_MS;
+        this.entryRetry.set(entry.id, retry);
+        this.report(
+          `${entry.folder}/${entry.relativePath}: ${(err as Error).message}; ` +
+            `it stays in the spool, next try in ${Math.round(LOCAL_RETRY_MS / 1000)} s`,
+        );
+      } finally {
+        this.inFlight.delete(entry.id);
+        this.pump();
+      }
+    })();
+    this.inFlight.set(entry.id, { promise, controller });
+  }
+
+  private async send(entry: SpoolEntry, signal: AbortSignal): Promise<void> {
+    const token = this.tokens.get(entry.folder);
+    if (!token) return;
+    const label = `${entry.folder}/${entry.relativePath}`;
+    const result = await uploadFile({
+      serverUrl: this.config.serverUrl,
+      token,
+      file: this.spool.binPath(entry),
+      fileName: path.posix.basename(entry.relativePath),
+      sourcePath: label,
+      timeoutMs: this.config.requestTimeoutMs,
+      signal,
+    });
+    const backoff = { initialMs: this.config.retryInitialMs, maxMs: this.config.retryMaxMs };
+    const now = Date.now();
+    switch (result.kind) {
+      case 'aborted':
+        return;
+      case 'acknowledged': {
+        this.serverFailures = 0;
+        this.folderFailures.delete(entry.folder);
+        const ack = {
+          intakeId: result.intakeId,
+          status: result.status,
+          ...(result.duplicateOfId !== undefined ? { duplicateOfId: result.duplicateOfId } : {}),
+        };
+        await this.spool.recordOutcome(entry, { kind: 'acknowledged', ...ack, at: new Date().toISOString() });
+        const dup = result.duplicateOfId !== undefined ? ` of #${result.duplicateOfId}` : '';
+        this.log.info(`uploaded ${label} → intake #${result.intakeId} (${result.status}${dup})`);
+        this.emit('uploaded', entry, ack);
+        return;
+      }
+      case 'rejected':
+        this.serverFailures = 0;
+        this.folderFailures.delete(entry.folder);
+        await this.spool.recordOutcome(entry, {
+          kind: 'rejected',
+          httpStatus: result.httpStatus,
+          code: result.code,
+          message: result.message,
+          at: new Date().toISOString(),
+        });
+        return;
+      case 'unauthorized': {
+        const attempts = (this.folderFailures.get(entry.folder) ?? 0) + 1;
+        this.folderFailures.set(entry.folder, attempts);
+        const delayMs = backoffDelayMs(attempts, backoff);
+        this.folderBlockedUntil.set(entry.folder, now + delayMs);
+        this.log.error(
+          `TOKEN REFUSED (${result.httpStatus}) for instrument folder "${entry.folder}": ${result.message} ` +
+            `Files of this folder wait in the spool; check its token in the watcher configuration. ` +
+            `${label}: retry in ${seconds(delayMs)} s`,
+        );
+        this.emit('retry', entry, { delayMs, reason: result.message, httpStatus: result.httpStatus });
+        return;
+      }
+      case 'retry': {
+        let delayMs: number;
+        if (result.scope === 'file') {
+          // Possibly about this file only: back off this entry, let the others go on.
+          const retry = this.entryRetry.get(entry.id) ?? { attempts: 0, notBefore: 0 };
+          retry.attempts++;
+          delayMs = backoffDelayMs(retry.attempts, backoff);
+          retry.notBefore = now + delayMs;
+          this.entryRetry.set(entry.id, retry);
+        } else {
+          // The server is away or busy: everyone waits. Two uploads failing together count once.
+          if (now >= this.serverBlockedUntil) this.serverFailures++;
+          delayMs = backoffDelayMs(this.serverFailures, backoff);
+          if (result.retryAfterMs !== undefined) {
+            delayMs = Math.max(delayMs, Math.min(result.retryAfterMs, RETRY_AFTER_CAP_MS));
+          }
+          this.serverBlockedUntil = Math.max(this.serverBlockedUntil, now + delayMs);
+        }
+        const line = `upload of ${label} failed: ${result.reason}; retry in ${seconds(delayMs)} s`;
+        if (result.unexpected) this.log.error(line);
+        else this.log.warn(line);
+        this.emit('retry', entry, { delayMs, reason: result.reason });
+        return;
+      }
+    }
+  }
+
+  // ── finishing: drop folder → done/ or rejected/ ────────────────────────────────────────────────
+
+  private async finish(entry: SpoolEntry): Promise<void> {
+    const outcome = entry.outcome;
+    if (!outcome) return;
+    const label = `${entry.folder}/${entry.relativePath}`;
+    const folderDir = path.join(this.config.dropDir, entry.folder);
+    const original = path.join(folderDir, ...entry.relativePath.split('/'));
+    const name = path.posix.basename(entry.relativePath);
+    const state = await this.originalState(original, entry);
+    if (state === 'changed') {
+      this.log.warn(`${label} changed after it was sent; its new content is sent as well`);
+      this.settle.touch(original);
+    }
+
+    if (outcome.kind === 'acknowledged') {
+      let movedTo: string | null = null;
+      if (state === 'same') {
+        movedTo = await placeWithoutOverwrite(original, path.join(folderDir, 'done'), name);
+        this.log.info(`moved ${label} → ${path.relative(folderDir, movedTo).split(path.sep).join('/')}`);
+      } else if (state === 'missing') {
+        this.log.info(
+          `${label} had already left the drop folder; the server has it (intake #${outcome.intakeId})`,
+        );
+      }
+      await this.spool.remove(entry);
+      this.emit('done', entry, { movedTo });
+      return;
+    }
+
+    // Rejected: keep the bytes for a person to look at, beside the reason.
+    const rejectedDir = path.join(folderDir, 'rejected');
+    const movedTo =
+      state === 'same'
+        ? await placeWithoutOverwrite(original, rejectedDir, name)
+        : await placeWithoutOverwrite(this.spool.binPath(entry), rejectedDir, name, { keepSource: true });
+    const reason =
+      `${outcome.message}\n\n` +
+      `file: ${label}\nsha256: ${entry.sha256}\nsize: ${entry.size} bytes\n` +
+      `server answer: ${outcome.httpStatus} ${outcome.code}\nat: ${outcome.at}\n`;
+    await writeFileAtomic(`${movedTo}.reason.txt`, reason);
+    this.log.error(
+      `rejected ${label} (${outcome.httpStatus} ${outcome.code}: ${outcome.message}) → ` +
+        path.relative(folderDir, movedTo).split(path.sep).join('/'),
+    );
+    await this.spool.remove(entry);
+    this.emit('rejected', entry, {
+      httpStatus: outcome.httpStatus,
+      code: outcome.code,
+      message: outcome.message,
+      movedTo,
+    });
+  }
+
+  /** Is the drop-folder file still the one that was spooled? */
+  private async originalState(file: string, entry: SpoolEntry): Promise<'same' | 'changed' | 'missing'> {
+    try {
+      const stat = await fsp.stat(file);
+      if (!stat.isFile()) return 'missing';
+      if (stat.size !== entry.size) return 'changed';
+      return (await hashFile(file)).sha256 === entry.sha256 ? 'same' : 'changed';
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code === 'ENOENT') return 'missing';
+      throw err;
+    }
+  }
+
+  // ── plumbing ───────────────────────────────────────────────────────────────────────────────────
+
+  private withPathLock(key: string, work: () => Promise<void>): Promise<void> {
+    const previous = this.pathLocks.get(key) ?? Promise.resolve();
+    const next = previous.then(work, work);
+    const tail = next.catch(() => undefined);
+    this.pathLocks.set(key, tail);
+    void tail.then(() => {
+      if (this.pathLocks.get(key) === tail) this.pathLocks.delete(key);
+    });
+    return next;
+  }
+
+  private runInBackground(work: Promise<void>): void {
+    const tracked = work.catch((err: unknown) => this.report(String((err as Error)?.message ?? err)));
+    this.background.add(tracked);
+    void tracked.finally(() => this.background.delete(tracked));
+  }
+
+  private later(ms: number, fn: () => void): void {
+    if (this.state !== 'running') return;
+    const timer = setTimeout(() => {
+      this.timers.delete(timer);
+      if (this.state === 'running') fn();
+    }, ms);
+    this.timers.add(timer);
+  }
+
+  private report(message: string): void {
+    this.log.error(message);
+    this.emit('problem', { message });
+  }
+
+  private warnOnce(key: string, message: string): void {
+    if (this.warned.has(key)) return;
+    this.warned.add(key);
+    this.log.warn(message);
+  }
+}
+
+function seconds(ms: number): string {
+  return (ms / 1000).toFixed(1);
+}
