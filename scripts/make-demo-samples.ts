@@ -125,12 +125,18 @@ const write = (path: string, text: string): void => {
   const kAt = (t: number) =>
     K25 * Math.exp((-DELTA_H / GAS_CONSTANT_J_PER_MOL_K) * (1 / (t + 273.15) - 1 / 298.15));
   const n = (v: string | undefined) => (v ? Number(v) : 0);
+  /** Complex in the cuvette for each unknown sample (its replicates share it). */
+  const UNKNOWN_COMPLEX_M: Record<string, number> = {
+    'SMP-017': 2.4e-4,
+    'SMP-018': 1.1e-4,
+    'SMP-019': 4.6e-4,
+  };
   for (const temperatureC of [15, 25, 35]) {
     const rng = seededRandom(1000 + temperatureC);
     const lines = design.map((row, i) => {
       let product = 0;
       if (row['role'] === 'standard') product = n(row['concentration_M']);
-      if (row['role'] === 'unknown') product = [2.4e-4, 1.1e-4, 4.6e-4][Math.floor(i / 2) % 3];
+      if (row['role'] === 'unknown') product = UNKNOWN_COMPLEX_M[row['sample_id']] ?? 2e-4;
       if (row['role'] === 'mixture') {
         const { a0M, b0M } = mixtureInitialConcentrations({
           stockAM: n(row['stock_a_M']),
