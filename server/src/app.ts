@@ -24,10 +24,16 @@ import { intakeRouter } from './ingest/intake.router';
 import { instrumentsRouter } from './instruments/instruments.router';
 import { InstrumentsService } from './instruments/instruments.service';
 import { layoutsRouter } from './layouts/layouts.router';
+import { createMailModule, type MailModule } from './mail/mail.module';
 import { LayoutsService } from './layouts/layouts.service';
 import { manifestsRouter } from './manifests/manifests.router';
+import { ReportsService } from './reports/reports.service';
+import { reportsRouter } from './reports/reports.router';
 import { ManifestsService } from './manifests/manifests.service';
 import { SqliteJobQueue, SqliteJobWorker } from './queue/sqlite-queue';
+import { buildOpenApiDocument } from './openapi/openapi-document';
+import { temperaturesRouter } from './temperatures/temperatures.router';
+import { TemperaturesService } from './temperatures/temperatures.service';
 import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
 
@@ -53,6 +59,8 @@ export interface EquilightApp {
     batches: BatchesService;
   };
   events: EventBus;
+  /** E-mail: sender, local SMTP stand-in and outbox, notification settings. */
+  mail: MailModule;
   worker: SqliteJobWorker<IngestJobData>;
   /** Start background work: resume queued jobs left by a previous run. */
   start(): Promise<void>;
@@ -78,6 +86,8 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   const layouts = new LayoutsService(dataSource, audit);
   const manifests = new ManifestsService(dataSource, layouts, audit);
   const batches = new BatchesService(dataSource, layouts, manifests, audit, events);
+  const mail = createMailModule({ config, dataSource, users, batches, events, log });
+  const reports = new ReportsService(batches, audit);
   ingest.useBatchMatcher((manager, profileId, runId) => batches.attachStoredFile(manager, profileId, runId));
   const worker = new SqliteJobWorker(queue, (job) => ingest.process(job), { concurrency: 2 });
   worker.on('failed', (job, err) => {
@@ -120,6 +130,10 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   api.get('/health', (_req, res) => {
     res.json({ status: 'ok', service: 'equilight' });
   });
+  const openApi = buildOpenApiDocument(config.publicUrl);
+  api.get('/openapi.json', (_req, res) => {
+    res.json(openApi);
+  });
   api.use(sessionParser, passport.initialize(), passport.session());
   api.use('/auth', authRouter(passport, users, config.loginRateLimit));
   api.use('/users', usersRouter(users, config.publicUrl));
@@ -129,7 +143,10 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   api.use('/layouts', layoutsRouter(layouts));
   api.use('/manifests', manifestsRouter(manifests, config.uploadMaxBytes));
   api.use('/batches', batchesRouter(batches));
+  api.use('/batches', reportsRouter(reports));
+  mail.mount(api);
   api.use('/audit', auditRouter(audit));
+  api.use('/temperatures', temperaturesRouter(new TemperaturesService(batches)));
   api.use(apiNotFound);
   app.use('/api', api);
 
@@ -141,14 +158,17 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
     sessionParser,
     services: { users, instruments, ingest, audit, layouts, manifests, batches },
     events,
+    mail,
     worker,
     async start() {
+      await mail.start();
       await worker.start();
       await ingest.recoverUnqueued();
     },
     async close() {
       await worker.close();
       await queue.close();
+      await mail.close();
       store.close();
     },
   };

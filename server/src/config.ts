@@ -28,6 +28,13 @@ const envSchema = z.object({
   UPLOAD_MAX_MB: z.coerce.number().positive().max(512).default(20),
   WEB_DIST_DIR: z.string().optional(),
   PUBLIC_URL: z.string().url().optional(),
+  SMTP_URL: z
+    .string()
+    .regex(/^smtps?:\/\//, 'must start with smtp:// or smtps://')
+    .optional(),
+  MAIL_FROM: z.string().min(3).default('Equilight <equilight@localhost>'),
+  SMTP_STANDIN: booleanText.optional(),
+  SMTP_STANDIN_PORT: z.coerce.number().int().min(0).max(65535).optional(),
 });
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
@@ -48,6 +55,17 @@ export interface AppConfig {
   /** Folder of the built Angular app; served with an index.html fallback when it exists. */
   webDistDir: string;
   publicUrl: string;
+  mail: MailConfig;
+}
+
+export interface MailConfig {
+  /** Where mail goes; null means the built-in stand-in (when it runs) or no mail at all. */
+  smtpUrl: string | null;
+  from: string;
+  /** Run the local SMTP stand-in that keeps every message in the outbox (not in production by default). */
+  standIn: boolean;
+  /** Its port; 0 picks any free port (the default in tests). */
+  standInPort: number;
 }
 
 export class ConfigError extends Error {}
@@ -89,5 +107,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
     uploadMaxBytes: Math.round(e.UPLOAD_MAX_MB * 1024 * 1024),
     webDistDir: path.resolve(cwd, e.WEB_DIST_DIR ?? 'dist/web/browser'),
     publicUrl: e.PUBLIC_URL ?? `http://localhost:${e.PORT}`,
+    mail: {
+      smtpUrl: e.SMTP_URL ?? null,
+      from: e.MAIL_FROM,
+      standIn: e.SMTP_STANDIN ?? e.NODE_ENV !== 'production',
+      standInPort: e.SMTP_STANDIN_PORT ?? (e.NODE_ENV === 'test' ? 0 : 2525),
+    },
   };
 }

@@ -6,6 +6,7 @@ import type { AppConfig } from '../config';
 import { AuditEntry } from '../audit/audit-entry.entity';
 import { SessionRow } from '../auth/session.entity';
 import { Batch } from '../batches/batch.entity';
+import { BatchNotice, NotificationSettingsRow, OutboxMessage } from '../mail/mail.entity';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { ReadingRow } from '../ingest/reading.entity';
 import { InstrumentProfile } from '../instruments/instrument-profile.entity';
@@ -28,6 +29,9 @@ export const entities = [
   Manifest,
   ManifestVersion,
   Batch,
+  OutboxMessage,
+  NotificationSettingsRow,
+  BatchNotice,
 ];
 
 /** The one DataSource. SQLite (WAL) by default; PostgreSQL when DATABASE_URL says so. */

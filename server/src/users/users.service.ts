@@ -7,6 +7,9 @@ import type { CreateUserInput, UpdateUserInput } from './users.schema';
 
 const BCRYPT_ROUNDS = 10;
 const SET_PASSWORD_TTL_MS = 72 * 3_600_000;
+const RESET_PASSWORD_TTL_MS = 2 * 3_600_000;
+export const SET_PASSWORD_TTL_HOURS = SET_PASSWORD_TTL_MS / 3_600_000;
+export const RESET_PASSWORD_TTL_HOURS = RESET_PASSWORD_TTL_MS / 3_600_000;
 
 export function hashPassword(password: string): Promise<string> {
   return bcrypt.hash(password, BCRYPT_ROUNDS);
@@ -27,6 +30,7 @@ export interface CreatedUser {
 /** People: who may sign in, with which role. */
 export class UsersService {
   private readonly users: Repository<User>;
+  private readonly invitationListeners: ((user: PublicUser, token: string) => void)[] = [];
 
   constructor(dataSource: DataSource) {
     this.users = dataSource.getRepository(User);
@@ -78,7 +82,29 @@ export class UsersService {
       user.setPasswordExpiresAt = Date.now() + SET_PASSWORD_TTL_MS;
     }
     await this.users.save(user);
+    if (setPasswordToken)
+      for (const listener of this.invitationListeners) listener(toPublicUser(user), setPasswordToken);
     return { user: toPublicUser(user), setPasswordToken };
+  }
+
+  /** Called after a person is created without a password, with the one-time token (the invitation mail). */
+  onInvitation(listener: (user: PublicUser, token: string) => void): void {
+    this.invitationListeners.push(listener);
+  }
+
+  /**
+   * A one-time password-reset token for the active person with this e-mail, replacing any pending one;
+   * null when there is no such person (the caller must not reveal which).
+   */
+  async issueResetToken(email: string): Promise<{ user: PublicUser; token: string } | null> {
+    const user = await this.users.findOneBy({ email: email.trim().toLowerCase() });
+    if (!user || !user.active) return null;
+    const token = crypto.randomBytes(24).toString('base64url');
+    await this.users.update(
+      { id: user.id },
+      { setPasswordTokenHash: sha256(token), setPasswordExpiresAt: Date.now() + RESET_PASSWORD_TTL_MS },
+    );
+    return { user: toPublicUser(user), token };
   }
 
   async update(id: number, input: UpdateUserInput, actingUserId: number): Promise<PublicUser> {

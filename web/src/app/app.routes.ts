@@ -39,7 +39,13 @@ export const routes: Routes = [
         path: 'batches/:id',
         title: 'Batch · Equilight',
         canActivate: [roleGuard('admin', 'lab_manager', 'scientist')],
-        loadComponent: () => import('./batches/batch-summary-page').then((m) => m.BatchSummaryPage),
+        loadComponent: () => import('./batch-detail/batch-detail-page').then((m) => m.BatchDetailPage),
+      },
+      {
+        path: 'temperatures',
+        title: 'Temperatures · Equilight',
+        canActivate: [roleGuard('admin', 'lab_manager', 'scientist')],
+        loadComponent: () => import('./temperatures/temperatures-page').then((m) => m.TemperaturesPage),
       },
       {
         path: 'layouts',
@@ -111,6 +117,12 @@ export const routes: Routes = [
         title: 'Instruments · Equilight',
         canActivate: [roleGuard('admin')],
         loadComponent: () => import('./instruments/instruments-page').then((m) => m.InstrumentsPage),
+      },
+      {
+        path: 'outbox',
+        title: 'Outbox · Equilight',
+        canActivate: [roleGuard('admin')],
+        loadComponent: () => import('./outbox/outbox-page').then((m) => m.OutboxPage),
       },
     ],
   },

@@ -338,30 +338,24 @@ describe('layouts, manifests and batches', () => {
 
     it('refuses a batch whose layout does not fit the instrument', async () => {
       const manager = await t.agent('lab_manager');
-      const cuvettes = await manager
-        .post('/api/layouts')
-        .send({
-          name: 'Cuvettes 3',
-          format: 'cuvette',
-          cuvetteCount: 3,
-          positions: [{ position: 'C1', role: 'blank' }],
-        });
-      const man = await manager
-        .post('/api/manifests')
-        .send({
-          name: 'Cuv m',
-          layoutId: cuvettes.body.id,
-          rows: [{ position: 'C1', sample_id: 'B', role: 'blank' }],
-        });
-      const res = await manager
-        .post('/api/batches')
-        .send({
-          name: 'Wrong',
-          profileId,
-          layoutId: cuvettes.body.id,
-          manifestId: man.body.id,
-          runId: 'R-9',
-        });
+      const cuvettes = await manager.post('/api/layouts').send({
+        name: 'Cuvettes 3',
+        format: 'cuvette',
+        cuvetteCount: 3,
+        positions: [{ position: 'C1', role: 'blank' }],
+      });
+      const man = await manager.post('/api/manifests').send({
+        name: 'Cuv m',
+        layoutId: cuvettes.body.id,
+        rows: [{ position: 'C1', sample_id: 'B', role: 'blank' }],
+      });
+      const res = await manager.post('/api/batches').send({
+        name: 'Wrong',
+        profileId,
+        layoutId: cuvettes.body.id,
+        manifestId: man.body.id,
+        runId: 'R-9',
+      });
       expect(res.status).toBe(400);
       expect(res.body.error.message).toMatch(
         /layout is for cuvettes but the instrument reads 96-well plates/,
@@ -409,12 +403,10 @@ describe('layouts, manifests and batches', () => {
         .put(`/api/batches/${batchId}/settings`)
         .send({ settings: { exclusions: [{ position: 'B1', reason: '' }] }, reason: 'x' });
       expect(noReason.status).toBe(400);
-      const res = await scientist
-        .put(`/api/batches/${batchId}/settings`)
-        .send({
-          settings: { exclusions: [{ position: 'b1', reason: 'bubble in the well' }] },
-          reason: 'bubble seen on the plate',
-        });
+      const res = await scientist.put(`/api/batches/${batchId}/settings`).send({
+        settings: { exclusions: [{ position: 'b1', reason: 'bubble in the well' }] },
+        reason: 'bubble seen on the plate',
+      });
       expect(res.status).toBe(200);
       expect(res.body.settings.exclusions).toEqual([{ position: 'B1', reason: 'bubble in the well' }]);
     });

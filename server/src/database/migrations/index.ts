@@ -1,6 +1,12 @@
 import { Initial1764600000000 } from './1764600000000-initial';
 import { Ingestion1764610000000 } from './1764610000000-ingestion';
 import { Batches1764620000000 } from './1764620000000-batches';
+import { Mail1764630000000 } from './1764630000000-mail';
 
 /** Every migration, oldest first. Add new ones at the end. */
-export const migrations = [Initial1764600000000, Ingestion1764610000000, Batches1764620000000];
+export const migrations = [
+  Initial1764600000000,
+  Ingestion1764610000000,
+  Batches1764620000000,
+  Mail1764630000000,
+];

@@ -22,10 +22,10 @@ describe('demo scenario', () => {
     ]);
     const [system] = await new TemperaturesService(t.services.batches).systems();
     expect(system.model).toBe('1:1');
-    expect(system.vantHoff.n).toBe(2);
+    expect(system.vantHoff!.n).toBe(2);
     // invented with ΔH° = −18 kJ/mol; two noisy temperatures give it back roughly
-    expect(system.vantHoff.deltaHJPerMol / 1000).toBeGreaterThan(-30);
-    expect(system.vantHoff.deltaHJPerMol / 1000).toBeLessThan(-8);
+    expect(system.vantHoff!.deltaHJPerMol / 1000).toBeGreaterThan(-30);
+    expect(system.vantHoff!.deltaHJPerMol / 1000).toBeLessThan(-8);
     expect(await seedDemoScenario(t)).toBe(false);
   });
 });

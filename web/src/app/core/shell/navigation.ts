@@ -13,6 +13,12 @@ const EVERYONE: readonly Role[] = ['admin', 'lab_manager', 'scientist'];
 export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/', label: 'Overview', icon: 'space_dashboard', roles: EVERYONE },
   { path: '/batches', label: 'Batches', icon: 'science', roles: ['admin', 'lab_manager', 'scientist'] },
+  {
+    path: '/temperatures',
+    label: 'Temperatures',
+    icon: 'device_thermostat',
+    roles: ['admin', 'lab_manager', 'scientist'],
+  },
   { path: '/intake', label: 'Intake', icon: 'move_to_inbox', roles: ['admin', 'lab_manager'] },
   { path: '/layouts', label: 'Layouts', icon: 'grid_on', roles: ['admin', 'lab_manager', 'scientist'] },
   {
@@ -24,6 +30,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/planner', label: 'Planner', icon: 'calculate', roles: ['admin', 'lab_manager', 'scientist'] },
   { path: '/instruments', label: 'Instruments', icon: 'precision_manufacturing', roles: ['admin'] },
   { path: '/people', label: 'People', icon: 'group', roles: ['admin'] },
+  { path: '/outbox', label: 'Outbox', icon: 'outgoing_mail', roles: ['admin'] },
   { path: '/api-docs', label: 'API', icon: 'api', roles: EVERYONE },
   { path: '/audit', label: 'Audit', icon: 'history', roles: ['admin', 'lab_manager'] },
 ];

@@ -2,6 +2,7 @@ import { BreakpointObserver } from '@angular/cdk/layout';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatListModule } from '@angular/material/list';
 import { MatMenuModule } from '@angular/material/menu';
@@ -38,6 +39,7 @@ const DARK_KEY = 'equilight.dark';
 export class Shell {
   private readonly auth = inject(AuthService);
   private readonly router = inject(Router);
+  private readonly dialog = inject(MatDialog);
   /** Opened with the shell, so live events flow from sign-in on, whichever page comes first. */
   protected readonly live = inject(LiveEventsService);
 
@@ -63,6 +65,11 @@ export class Shell {
     this.dark.update((dark) => !dark);
     localStorage.setItem(DARK_KEY, this.dark() ? '1' : '0');
     document.documentElement.classList.toggle('eq-dark', this.dark());
+  }
+
+  protected async openNotificationSettings(): Promise<void> {
+    const { NotificationSettingsDialog } = await import('../../notifications/notification-settings-dialog');
+    this.dialog.open(NotificationSettingsDialog, { width: '480px' });
   }
 
   protected async signOut(): Promise<void> {

@@ -1,0 +1,246 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { launchChromium } from './support/browser';
+import {
+  DEMO_PASSWORD,
+  REPO_ROOT,
+  type RunningServer,
+  SCREENSHOT_DIR,
+  startServer,
+} from './support/server-process';
+
+jest.setTimeout(180_000);
+
+const SAMPLES = path.join(REPO_ROOT, 'samples/analysis');
+const RUN_ID = 'MLX-7';
+const BATCH_NAME = 'Metal–ligand run MLX-7 (browser test)';
+
+type Call = (method: string, urlPath: string, data?: unknown) => Promise<Record<string, unknown>>;
+
+/** A signed-in API client in its own browser context, sending the XSRF cookie back as the header. */
+async function apiAs(
+  browser: Browser,
+  url: string,
+  email: string,
+): Promise<{ call: Call; ctx: BrowserContext }> {
+  const ctx = await browser.newContext();
+  await ctx.request.get(`${url}/api/auth/me`);
+  const call: Call = async (method, urlPath, data) => {
+    const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
+    const res = await ctx.request.fetch(`${url}${urlPath}`, {
+      method,
+      data,
+      headers: { 'X-XSRF-TOKEN': xsrf },
+    });
+    if (!res.ok()) throw new Error(`${method} ${urlPath} → ${res.status()} ${await res.text()}`);
+    return (await res.json()) as Record<string, unknown>;
+  };
+  await call('POST', '/api/auth/login', { email, password: DEMO_PASSWORD });
+  return { call, ctx };
+}
+
+function manifestRows(): Record<string, string>[] {
+  const [header, ...lines] = fs
+    .readFileSync(path.join(SAMPLES, 'manifest.csv'), 'utf8')
+    .trim()
+    .split(/\r?\n/);
+  const columns = header.split(',');
+  return lines.map((line) => Object.fromEntries(line.split(',').map((cell, i) => [columns[i], cell])));
+}
+
+async function signIn(page: Page, url: string, email: string): Promise<void> {
+  await page.goto(`${url}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.getByTestId('main-nav').waitFor();
+}
+
+async function axeSeriousViolations(page: Page): Promise<string[]> {
+  await page.addScriptTag({ path: require.resolve('axe-core/axe.min.js') });
+  const violations = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: () => Promise<{ violations: unknown[] }> } }).axe;
+    const result = await axe.run();
+    return result.violations as { id: string; impact: string; help: string; nodes: { target: string[] }[] }[];
+  });
+  return violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map(
+      (v) =>
+        `${v.impact} ${v.id}: ${v.help} (${v.nodes
+          .map((n) => n.target.join(' '))
+          .slice(0, 5)
+          .join('; ')})`,
+    );
+}
+
+describe('a scientist watches a batch fill in live, excludes a mixture, and it gets approved', () => {
+  let server: RunningServer;
+  let browser: Browser;
+  let page: Page;
+  let batchId: number;
+  let token: string;
+
+  beforeAll(async () => {
+    server = await startServer();
+    browser = await launchChromium();
+    fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
+
+    const admin = await apiAs(browser, server.url, 'admin@equilight.test');
+    const created = await admin.call('POST', '/api/instruments', {
+      name: 'Cuvette bench (browser test)',
+      kind: 'cuvette_spectrophotometer',
+      plateFormat: 'cuvette',
+      fileFormat: 'long_table',
+      pathLengthCm: 1,
+      dropSubfolder: 'browser-test-cuvettes',
+      fileNamePattern: '^(?<run>MLX-\\d+)',
+    });
+    const profile = (created['profile'] ?? created) as { id: number };
+    token =
+      typeof created['token'] === 'string'
+        ? created['token']
+        : ((await admin.call('POST', `/api/instruments/${profile.id}/token`))['token'] as string);
+    await admin.ctx.close();
+
+    const manager = await apiAs(browser, server.url, 'manager@equilight.test');
+    const rows = manifestRows();
+    const layout = await manager.call('POST', '/api/layouts', {
+      name: 'Metal–ligand cuvettes (browser test)',
+      format: 'cuvette',
+      cuvetteCount: rows.length,
+      positions: rows.map((r) => ({
+        position: r['position'],
+        role: r['role'],
+        ...(r['replicate_group'] ? { replicateGroup: r['replicate_group'] } : {}),
+      })),
+    });
+    const manifest = await manager.call('POST', '/api/manifests', {
+      name: 'Metal–ligand MLX-7 (browser test)',
+      layoutId: layout['id'],
+      rows,
+      acceptMismatches: true,
+    });
+    const batch = await manager.call('POST', '/api/batches', {
+      name: BATCH_NAME,
+      profileId: profile.id,
+      layoutId: layout['id'],
+      manifestId: manifest['id'],
+      runId: RUN_ID,
+      systemName: 'M–L (browser test)',
+      temperatureC: 25,
+    });
+    batchId = batch['id'] as number;
+    await manager.ctx.close();
+
+    // bypassCSP lets the test inject axe-core; the app's own pages run under the server's CSP.
+    const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, bypassCSP: true });
+    page = await context.newPage();
+    await signIn(page, server.url, 'scientist@equilight.test');
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  const kValue = () => page.getByTestId('best-k-value').innerText();
+
+  it('shows the map and K as the readings land, without a reload', async () => {
+    await page.goto(`${server.url}/batches/${batchId}`);
+    await page.getByTestId('batch-name').waitFor();
+    await expect(page.getByTestId('batch-name').innerText()).resolves.toBe(BATCH_NAME);
+    await page.getByTestId('plate-map').waitFor();
+    await expect(page.getByTestId('best-k').count()).resolves.toBe(0);
+    await page.evaluate(() => ((window as unknown as { eqNoReload: boolean }).eqNoReload = true));
+
+    const form = new FormData();
+    form.append('file', new Blob([fs.readFileSync(path.join(SAMPLES, 'readings.csv'))]), `${RUN_ID}.csv`);
+    const res = await fetch(`${server.url}/api/ingest`, {
+      method: 'POST',
+      headers: { Authorization: `Bearer ${token}` },
+      body: form,
+    });
+    expect(res.status).toBe(202);
+
+    await page.getByTestId('best-k-value').waitFor({ timeout: 20_000 });
+    expect(Number((await kValue()).replace(/[^\d.]/g, ''))).toBeGreaterThan(0);
+    await expect(page.getByTestId('verdict').innerText()).resolves.toMatch(/1:1 fits best/);
+    await expect(page.getByTestId('file-count').innerText()).resolves.toBe('1 of 1');
+    const well = page.locator('[data-position="C20"]');
+    await expect(well.evaluate((el) => getComputedStyle(el).backgroundColor)).resolves.toMatch(/^rgb\(/);
+    await expect(well.getAttribute('aria-label')).resolves.toContain('JOB-5');
+    await expect(
+      page.evaluate(() => (window as unknown as { eqNoReload?: boolean }).eqNoReload),
+    ).resolves.toBe(true);
+  });
+
+  it('excludes a mixture with a reason, sees K change, saves it and marks the batch reviewed', async () => {
+    const before = await kValue();
+    await page.locator('[data-position="C20"]').click();
+    await page.getByTestId('exclude-reason').fill('meniscus disturbed while reading');
+    await page.getByTestId('exclude-submit').click();
+    await page.getByTestId('unsaved-banner').waitFor();
+    await page.waitForFunction(
+      (old) => document.querySelector('[data-testid="best-k-value"]')?.textContent?.trim() !== old,
+      before.trim(),
+    );
+    expect(await kValue()).not.toBe(before);
+    await expect(page.locator('[data-position="C20"]').getAttribute('data-marker')).resolves.toBe('excluded');
+
+    await page.getByTestId('what-if-save').click();
+    await page.getByTestId('reason-input').fill('JOB-5 read with a disturbed meniscus');
+    await page.getByTestId('reason-confirm').click();
+    await page.getByTestId('unsaved-banner').waitFor({ state: 'detached' });
+    const settings = await page.evaluate(
+      async (id) => (await (await fetch(`/api/batches/${id}`)).json()).settings,
+      batchId,
+    );
+    expect(settings.exclusions).toEqual([{ position: 'C20', reason: 'meniscus disturbed while reading' }]);
+
+    await page.getByTestId('mark-reviewed').click();
+    await page.getByTestId('batch-state').getByText('Reviewed').waitFor();
+  });
+
+  it('offers the CSV and PDF exports', async () => {
+    for (const [testId, type] of [
+      ['export-readings', 'text/csv'],
+      ['export-results', 'text/csv'],
+      ['export-pdf', 'application/pdf'],
+    ]) {
+      const href = await page.getByTestId(testId).getAttribute('href');
+      const res = await page.request.get(`${server.url}${href}`);
+      expect(res.status()).toBe(200);
+      expect(res.headers()['content-type']).toContain(type);
+    }
+  });
+
+  it('looks right at 1280×800 and 390×844, and passes an axe scan', async () => {
+    await page.setViewportSize({ width: 1280, height: 800 });
+    await page.getByTestId('plate-map').waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-1280x800.png'), fullPage: true });
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.getByTestId('plate-map').waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-390x844.png'), fullPage: true });
+    await page.setViewportSize({ width: 1280, height: 800 });
+    expect(await axeSeriousViolations(page)).toEqual([]);
+  });
+
+  it('a lab manager approves with a comment; the batch locks, live on the scientist page too', async () => {
+    const managerContext = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const manager = await managerContext.newPage();
+    await signIn(manager, server.url, 'manager@equilight.test');
+    await manager.goto(`${server.url}/batches/${batchId}`);
+    await manager.getByTestId('approve').click();
+    await manager.getByTestId('reason-input').fill('Calibration and fit checked; approved.');
+    await manager.getByTestId('reason-confirm').click();
+    await manager.getByTestId('batch-state').getByText('Approved').waitFor();
+    await manager.getByTestId('what-if-locked').waitFor();
+    await manager.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved.png'), fullPage: true });
+    await managerContext.close();
+
+    await page.getByTestId('batch-state').getByText('Approved').waitFor({ timeout: 10_000 });
+    await page.getByTestId('what-if-locked').waitFor();
+  });
+});

@@ -1,0 +1,55 @@
+import type { AnalysisSettings, BatchResult, Reading, SampleDefinition } from '@equilight/analysis';
+import { type Batch, type PlateFormat, isBatch } from '../batches/batch';
+
+/** GET /api/batches/:id/analysis: the batch, every input of the analysis, and its result. */
+export interface BatchAnalysis {
+  batch: Batch;
+  readings: (Reading & { intakeFileId?: number })[];
+  samples: SampleDefinition[];
+  layoutPositions: { position: string; role: string; replicateGroup?: string }[];
+  files: {
+    id: number;
+    originalName: string;
+    sha256: string;
+    status: string;
+    readingCount: number;
+    receivedAt: string;
+  }[];
+  /** The settings as the analysis module took them. */
+  settings: AnalysisSettings;
+  result: BatchResult;
+}
+
+const isObj = (v: unknown): v is Record<string, unknown> => !!v && typeof v === 'object';
+
+export function isBatchAnalysis(value: unknown): value is BatchAnalysis {
+  if (!isObj(value)) return false;
+  const r = value['result'];
+  return (
+    isBatch(value['batch']) &&
+    Array.isArray(value['readings']) &&
+    Array.isArray(value['samples']) &&
+    Array.isArray(value['layoutPositions']) &&
+    Array.isArray(value['files']) &&
+    isObj(value['settings']) &&
+    isObj(r) &&
+    Array.isArray(r['positions']) &&
+    Array.isArray(r['qc'])
+  );
+}
+
+/** The plate format, when the layout is not at hand: a cuvette number past 24 or a row past P is telling. */
+export function guessFormat(positions: readonly string[]): PlateFormat {
+  let maxRow = 0;
+  let maxCol = 0;
+  for (const p of positions) {
+    const m = /^([A-Z])(\d+)$/.exec(p);
+    if (!m) continue;
+    maxRow = Math.max(maxRow, m[1].charCodeAt(0) - 64);
+    maxCol = Math.max(maxCol, Number(m[2]));
+  }
+  const onlyC = positions.length > 0 && positions.every((p) => p.startsWith('C'));
+  if (onlyC && maxCol > 12) return 'cuvette';
+  if (maxRow > 8 || maxCol > 12) return '384';
+  return onlyC ? 'cuvette' : '96';
+}

@@ -1,0 +1,200 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { signal } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { provideRouter } from '@angular/router';
+import { Subject, filter } from 'rxjs';
+import type { Role } from '../core/auth/user';
+import { AuthService } from '../core/auth/auth.service';
+import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
+import { fixtureAnalysis } from './analysis-fixture';
+import { BatchDetailPage, LIVE_REFRESH_DEBOUNCE_MS, WHAT_IF_DEBOUNCE_MS } from './batch-detail-page';
+import { CalibrationPanel } from './calibration-panel';
+import { EquilibriumPanel } from './equilibrium-panel';
+import { ScatterChart } from './scatter-chart';
+import { ScatterChartStub } from './scatter-chart-stub';
+
+const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();
+
+jest.setTimeout(30_000);
+
+describe('BatchDetailPage what-if flow (real analysis module)', () => {
+  let events: Subject<LiveEvent>;
+  let http: HttpTestingController;
+
+  async function setup(role: Role = 'scientist', analysis = fixtureAnalysis()) {
+    events = new Subject<LiveEvent>();
+    TestBed.configureTestingModule({
+      imports: [BatchDetailPage],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideRouter([]),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+        {
+          provide: LiveEventsService,
+          useValue: {
+            connected: signal(true),
+            ofType: (...types: string[]) => events.pipe(filter((e) => types.includes(e.type))),
+          },
+        },
+        { provide: AuthService, useValue: { hasRole: (...roles: Role[]) => roles.includes(role) } },
+      ],
+    });
+    for (const panel of [CalibrationPanel, EquilibriumPanel])
+      TestBed.overrideComponent(panel, {
+        remove: { imports: [ScatterChart] },
+        add: { imports: [ScatterChartStub] },
+      });
+    http = TestBed.inject(HttpTestingController);
+    const fixture = TestBed.createComponent(BatchDetailPage);
+    fixture.componentRef.setInput('id', '7');
+    await fixture.whenStable();
+    http.expectOne('/api/batches/7/analysis').flush(analysis);
+    http.expectOne('/api/batches').flush([]);
+    await fixture.whenStable();
+    http.expectOne('/api/layouts/3').flush({ id: 3, format: 'cuvette' });
+    await fixture.whenStable();
+    const el = fixture.nativeElement as HTMLElement;
+    return { fixture, el };
+  }
+
+  afterEach(() => http.verify());
+
+  async function settle(fixture: { whenStable(): Promise<unknown> }) {
+    await fixture.whenStable();
+    await wait(WHAT_IF_DEBOUNCE_MS + 20);
+    await fixture.whenStable();
+  }
+
+  it('excluding a mixture with a reason changes K at once, marks it unsaved, and Save sends the reason', async () => {
+    const { fixture, el } = await setup();
+    const kBefore = text(el.querySelector('[data-testid="best-k-value"]'));
+    expect(kBefore).toMatch(/^6\d\d(\.\d)?$/);
+    expect(el.querySelector('[data-testid="unsaved-banner"]')).toBeNull();
+
+    // Pick the position on the map, give a reason, exclude.
+    (el.querySelector('[data-position="C15"]') as HTMLElement).click();
+    await fixture.whenStable();
+    const reason = el.querySelector<HTMLInputElement>('[data-testid="exclude-reason"]')!;
+    reason.value = 'air bubble in the light path';
+    reason.dispatchEvent(new Event('input'));
+    (el.querySelector('[data-testid="exclude-submit"]') as HTMLButtonElement).click();
+    await settle(fixture);
+
+    expect(text(el.querySelector('[data-testid="unsaved-banner"]'))).toContain(
+      'Exclude C15 (air bubble in the light path)',
+    );
+    const kAfter = text(el.querySelector('[data-testid="best-k-value"]'));
+    expect(kAfter).not.toBe(kBefore);
+    expect(el.querySelector('[data-position="C15"]')!.getAttribute('data-marker')).toBe('excluded');
+
+    // Save asks for a reason and sends only what changed.
+    (el.querySelector('[data-testid="what-if-save"]') as HTMLButtonElement).click();
+    await fixture.whenStable();
+    const dialogInput = document.querySelector<HTMLTextAreaElement>('[data-testid="reason-input"]')!;
+    dialogInput.value = 'C15 had a bubble; excluded after review';
+    dialogInput.dispatchEvent(new Event('input'));
+    document.querySelector<HTMLButtonElement>('[data-testid="reason-confirm"]')!.click();
+    await fixture.whenStable();
+    const put = http.expectOne('/api/batches/7/settings');
+    expect(put.request.method).toBe('PUT');
+    expect(put.request.body).toEqual({
+      settings: { exclusions: [{ position: 'C15', reason: 'air bubble in the light path' }] },
+      reason: 'C15 had a bubble; excluded after review',
+    });
+    const saved = fixtureAnalysis({
+      batch: {
+        settings: {
+          ...fixtureAnalysis().batch.settings,
+          exclusions: [{ position: 'C15', reason: 'air bubble in the light path' }],
+        },
+      },
+    });
+    put.flush(saved.batch);
+    await fixture.whenStable();
+    http.expectOne('/api/batches/7/analysis').flush(saved);
+    await settle(fixture);
+    expect(el.querySelector('[data-testid="unsaved-banner"]')).toBeNull();
+  });
+
+  it('Reset drops the what-if and shows the saved result again', async () => {
+    const { fixture, el } = await setup();
+    const kBefore = text(el.querySelector('[data-testid="best-k-value"]'));
+    const path = el.querySelector<HTMLInputElement>('[data-testid="what-if-path"]')!;
+    path.value = '0.5';
+    path.dispatchEvent(new Event('input'));
+    path.dispatchEvent(new Event('change'));
+    await settle(fixture);
+    expect(text(el.querySelector('[data-testid="unsaved-banner"]'))).toContain('Path length 0.5 cm');
+    // ε scales with 1/l and x = A/(ε·l) does not: K stays while the path alone changes.
+    expect(text(el.querySelector('[data-testid="best-k-value"]'))).toBe(kBefore);
+    (el.querySelector('[data-position="C12"]') as HTMLElement).click();
+    await fixture.whenStable();
+    const reason = el.querySelector<HTMLInputElement>('[data-testid="exclude-reason"]')!;
+    reason.value = 'scratched cuvette';
+    reason.dispatchEvent(new Event('input'));
+    (el.querySelector('[data-testid="exclude-submit"]') as HTMLButtonElement).click();
+    await settle(fixture);
+    expect(text(el.querySelector('[data-testid="best-k-value"]'))).not.toBe(kBefore);
+    (el.querySelector('[data-testid="what-if-reset"]') as HTMLButtonElement).click();
+    await settle(fixture);
+    expect(el.querySelector('[data-testid="unsaved-banner"]')).toBeNull();
+    expect(text(el.querySelector('[data-testid="best-k-value"]'))).toBe(kBefore);
+  });
+
+  it('refetches on a live event for this batch and keeps the unsaved edits on top of the fresh data', async () => {
+    const { fixture, el } = await setup();
+    (el.querySelector('[data-position="C20"]') as HTMLElement).click();
+    await fixture.whenStable();
+    const reason = el.querySelector<HTMLInputElement>('[data-testid="exclude-reason"]')!;
+    reason.value = 'pipetting slip';
+    reason.dispatchEvent(new Event('input'));
+    (el.querySelector('[data-testid="exclude-submit"]') as HTMLButtonElement).click();
+    await settle(fixture);
+
+    events.next({ type: 'file.stored', data: { id: 99, batchId: 8 }, at: '2031-05-02T08:11:00Z' });
+    events.next({ type: 'file.stored', data: { id: 100, batchId: 7 }, at: '2031-05-02T08:11:00Z' });
+    events.next({ type: 'batch.updated', data: { id: 7 }, at: '2031-05-02T08:11:01Z' });
+    await wait(LIVE_REFRESH_DEBOUNCE_MS + 50);
+    const fresh = fixtureAnalysis({ batch: { fileCount: 2, expectedFiles: 2 } });
+    http.expectOne('/api/batches/7/analysis').flush(fresh);
+    await settle(fixture);
+    expect(text(el.querySelector('[data-testid="file-count"]'))).toBe('2 of 2');
+    expect(text(el.querySelector('[data-testid="unsaved-banner"]'))).toContain(
+      'Exclude C20 (pipetting slip)',
+    );
+    expect(el.querySelector('[data-position="C20"]')!.getAttribute('data-marker')).toBe('excluded');
+  });
+
+  it('shows actions by role and locks the what-if of an approved batch', async () => {
+    const { el } = await setup('lab_manager', fixtureAnalysis({ batch: { state: 'approved' } }));
+    expect(el.querySelector('[data-testid="mark-reviewed"]')).toBeNull();
+    expect(el.querySelector('[data-testid="approve"]')).toBeNull();
+    expect(el.querySelector('[data-testid="reopen"]')).not.toBeNull();
+    expect(text(el.querySelector('[data-testid="what-if-locked"]'))).toContain('approved and read-only');
+    expect((el.querySelector('[data-testid="exclude-submit"]') as HTMLButtonElement).disabled).toBe(true);
+    expect(el.querySelector('[data-testid="export-pdf"]')!.getAttribute('href')).toBe(
+      '/api/batches/7/report.pdf',
+    );
+    expect(el.querySelector('[data-testid="export-results"]')!.getAttribute('href')).toBe(
+      '/api/batches/7/export.csv?content=results',
+    );
+  });
+
+  it('a scientist marks an open batch reviewed but cannot approve', async () => {
+    const { fixture, el } = await setup('scientist');
+    expect(el.querySelector('[data-testid="approve"]')).toBeNull();
+    (el.querySelector('[data-testid="mark-reviewed"]') as HTMLButtonElement).click();
+    await fixture.whenStable();
+    const req = http.expectOne('/api/batches/7/review');
+    expect(req.request.method).toBe('POST');
+    req.flush(fixtureAnalysis({ batch: { state: 'reviewed' } }).batch);
+    await fixture.whenStable();
+    http.expectOne('/api/batches/7/analysis').flush(fixtureAnalysis({ batch: { state: 'reviewed' } }));
+    await fixture.whenStable();
+    expect(text(el.querySelector('[data-testid="batch-state"]'))).toContain('Reviewed');
+  });
+});

@@ -1,0 +1,380 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatDialog } from '@angular/material/dialog';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTabsModule } from '@angular/material/tabs';
+import { RouterLink } from '@angular/router';
+import type { Exclusion } from '@equilight/analysis';
+import {
+  EMPTY,
+  Subject,
+  catchError,
+  debounceTime,
+  distinctUntilChanged,
+  filter,
+  map,
+  merge,
+  of,
+  switchMap,
+} from 'rxjs';
+import type { PlateFormat } from '../batches/batch';
+import { BatchStateLabel } from '../batches/batch-state-label';
+import { AuthService } from '../core/auth/auth.service';
+import { apiErrorMessage } from '../core/http/auth.interceptor';
+import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
+import { type BatchAnalysis, guessFormat } from './batch-analysis';
+import { BatchDetailService } from './batch-detail.service';
+import { CalibrationPanel } from './calibration-panel';
+import { EquilibriumPanel } from './equilibrium-panel';
+import { formatNumber, kUnitOf } from './number-format';
+import { PlateMap } from './plate-map';
+import { QcPanel } from './qc-panel';
+import { ReasonDialog, type ReasonDialogData } from './reason-dialog';
+import { UnknownsTable } from './unknowns-table';
+import {
+  NO_EDITS,
+  type WhatIfEdits,
+  describeEdits,
+  effectiveExclusions,
+  hasEdits,
+  runWhatIf,
+  settingsPatch,
+  wavelengthsOf,
+  withExclusion,
+  withoutExclusion,
+} from './what-if';
+import { type EpsilonSourceValue, type ExclusionRow, WhatIfPanel } from './what-if-panel';
+
+/** Quiet time after the last live event before the page asks again: a burst of files costs one request. */
+export const LIVE_REFRESH_DEBOUNCE_MS = 300;
+/** What-if edits are analysed once they stop changing for this long (an analysis takes ~15 ms). */
+export const WHAT_IF_DEBOUNCE_MS = 40;
+
+/** Does a live event concern this batch? */
+export function concernsBatch(event: LiveEvent, batchId: number): boolean {
+  return event.type === 'batch.updated' ? event.data.id === batchId : event.data['batchId'] === batchId;
+}
+
+/**
+ * One batch, live: its map, calibration, unknowns, equilibrium and QC, what-if edits recomputed in the
+ * browser with the shared analysis module, and review/approval by role.
+ */
+@Component({
+  selector: 'eq-batch-detail-page',
+  imports: [
+    DatePipe,
+    RouterLink,
+    MatButtonModule,
+    MatCardModule,
+    MatIconModule,
+    MatProgressBarModule,
+    MatTabsModule,
+    BatchStateLabel,
+    PlateMap,
+    CalibrationPanel,
+    UnknownsTable,
+    EquilibriumPanel,
+    QcPanel,
+    WhatIfPanel,
+  ],
+  templateUrl: './batch-detail-page.html',
+  styleUrl: './batch-detail-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class BatchDetailPage {
+  private readonly service = inject(BatchDetailService);
+  private readonly auth = inject(AuthService);
+  private readonly live = inject(LiveEventsService);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+
+  /** Route parameter `:id` (component input binding). */
+  readonly id = input.required<string>();
+  protected readonly batchId = computed(() => Number(this.id()));
+
+  protected readonly data = signal<BatchAnalysis | null>(null);
+  protected readonly loading = signal(true);
+  protected readonly loadError = signal<string | null>(null);
+  protected readonly busy = signal(false);
+  protected readonly edits = signal<WhatIfEdits>(NO_EDITS);
+  protected readonly selected = signal<string | null>(null);
+  protected readonly connected = this.live.connected;
+  private readonly reload$ = new Subject<void>();
+
+  protected readonly format = toSignal<PlateFormat | null, null>(
+    toObservable(computed(() => this.data()?.batch.layoutId ?? null)).pipe(
+      distinctUntilChanged(),
+      filter((id): id is number => id !== null),
+      switchMap((layoutId) =>
+        this.service
+          .layoutFormat(layoutId)
+          .pipe(
+            catchError(() => of(guessFormat(this.data()?.result.positions.map((p) => p.position) ?? []))),
+          ),
+      ),
+    ),
+    { initialValue: null },
+  );
+
+  protected readonly otherBatches = toSignal(
+    toObservable(this.batchId).pipe(
+      switchMap((id) =>
+        this.service.batches().pipe(
+          map((list) => list.filter((b) => b.id !== id).map((b) => ({ id: b.id, name: b.name }))),
+          catchError(() => of([])),
+        ),
+      ),
+    ),
+    { initialValue: [] as { id: number; name: string }[] },
+  );
+
+  /** The what-if analysis, run in the browser once the edits settle; null when there are none. */
+  protected readonly whatIf = toSignal(
+    toObservable(computed(() => ({ data: this.data(), edits: this.edits() }))).pipe(
+      debounceTime(WHAT_IF_DEBOUNCE_MS),
+      map(({ data, edits }) =>
+        data && hasEdits(edits) ? runWhatIf(data.readings, data.samples, data.settings, edits) : null,
+      ),
+    ),
+    { initialValue: null },
+  );
+
+  protected readonly unsaved = computed(() => hasEdits(this.edits()));
+  protected readonly editLines = computed(() => describeEdits(this.edits()));
+  protected readonly result = computed(() => {
+    const w = this.whatIf();
+    return (this.unsaved() && w?.result) || this.data()?.result || null;
+  });
+  protected readonly batch = computed(() => this.data()?.batch ?? null);
+  protected readonly best = computed(() => {
+    const s = this.result()?.stoichiometry;
+    return s?.candidates.find((c) => c.model === s.best) ?? null;
+  });
+
+  protected readonly canEdit = computed(
+    () => this.auth.hasRole('lab_manager', 'scientist') && this.batch()?.state !== 'approved',
+  );
+  protected readonly readOnlyNote = computed(() => {
+    if (this.batch()?.state === 'approved')
+      return 'This batch is approved and read-only. A lab manager can reopen it to change the analysis.';
+    if (!this.auth.hasRole('lab_manager', 'scientist'))
+      return 'Only scientists and lab managers change the analysis of a batch.';
+    return null;
+  });
+  protected readonly canReview = computed(
+    () => this.batch()?.state === 'open' && this.auth.hasRole('scientist', 'lab_manager'),
+  );
+  protected readonly canApprove = computed(
+    () => this.batch()?.state === 'reviewed' && this.auth.hasRole('lab_manager'),
+  );
+  protected readonly canReopen = computed(
+    () => !!this.batch() && this.batch()?.state !== 'open' && this.auth.hasRole('lab_manager'),
+  );
+
+  protected readonly exclusionRows = computed<ExclusionRow[]>(() => {
+    const saved = this.batch()?.settings.exclusions ?? [];
+    const savedKey = new Map(saved.map((e) => [e.position, e.reason]));
+    return effectiveExclusions(saved, this.edits()).map((e) => ({
+      ...e,
+      unsaved: savedKey.get(e.position) !== e.reason,
+    }));
+  });
+  protected readonly positionChoices = computed(() =>
+    (this.result()?.positions ?? [])
+      .filter((p) => p.role !== null)
+      .map((p) => ({ position: p.position, sampleId: p.sampleId, role: p.role })),
+  );
+  protected readonly wavelengths = computed(() => wavelengthsOf(this.data()?.readings ?? []));
+  protected readonly effective = computed(() => {
+    const saved = this.batch()?.settings;
+    const e = this.edits();
+    return {
+      candidates: e.candidates ?? saved?.candidates ?? [],
+      wavelengthNm: e.wavelengthNm !== undefined ? e.wavelengthNm : (saved?.wavelengthNm ?? null),
+      pathLengthCm: e.pathLengthCm ?? saved?.pathLengthCm ?? 1,
+      epsilon: e.epsilon ? e.epsilon.lPerMolCm : (saved?.epsilonLPerMolCm ?? null),
+    };
+  });
+  protected readonly epsilonSource = computed<EpsilonSourceValue>(() => {
+    const e = this.edits().epsilon;
+    if (e) return e.sourceBatchId !== null ? `batch:${e.sourceBatchId}` : 'own';
+    return this.batch()?.settings.epsilonLPerMolCm != null ? 'saved' : 'own';
+  });
+  protected readonly qcCount = computed(() => this.result()?.qc.length ?? 0);
+
+  protected readonly fmt = formatNumber;
+  protected readonly kUnit = kUnitOf;
+
+  constructor() {
+    toObservable(this.batchId)
+      .pipe(
+        switchMap((id) =>
+          merge(
+            of(undefined),
+            this.reload$,
+            this.live.ofType('batch.updated', 'file.stored').pipe(
+              filter((e) => concernsBatch(e, id)),
+              debounceTime(LIVE_REFRESH_DEBOUNCE_MS),
+            ),
+          ).pipe(
+            switchMap(() =>
+              this.service.analysis(id).pipe(
+                catchError((err: unknown) => {
+                  this.loadError.set(apiErrorMessage(err, 'The batch could not be loaded.'));
+                  this.loading.set(false);
+                  return EMPTY;
+                }),
+              ),
+            ),
+          ),
+        ),
+        takeUntilDestroyed(),
+      )
+      .subscribe((analysis) => {
+        this.data.set(analysis);
+        this.loadError.set(null);
+        this.loading.set(false);
+      });
+  }
+
+  protected ci(pair: [number, number] | null | undefined): string {
+    return pair ? `${formatNumber(pair[0])} – ${formatNumber(pair[1])}` : '—';
+  }
+
+  protected select(position: string): void {
+    this.selected.set(position);
+  }
+
+  protected exclude(exclusion: Exclusion): void {
+    this.edits.update((e) => withExclusion(e, exclusion));
+    this.selected.set(null);
+  }
+
+  protected restore(position: string): void {
+    this.edits.update((e) => withoutExclusion(e, position, this.batch()?.settings.exclusions ?? []));
+  }
+
+  protected setCandidates(candidates: string[]): void {
+    this.edits.update((e) => ({ ...e, candidates }));
+  }
+
+  protected setWavelength(wavelengthNm: number | null): void {
+    this.edits.update((e) => ({ ...e, wavelengthNm }));
+  }
+
+  protected setPathLength(pathLengthCm: number): void {
+    this.edits.update((e) => ({ ...e, pathLengthCm }));
+  }
+
+  protected setEpsilonSource(value: EpsilonSourceValue): void {
+    const savedEpsilon = this.batch()?.settings.epsilonLPerMolCm ?? null;
+    const dropEdit = () =>
+      this.edits.update((e) => {
+        const next = { ...e };
+        delete next.epsilon;
+        return next;
+      });
+    if (value === 'saved' || (value === 'own' && savedEpsilon === null)) return dropEdit();
+    if (value === 'own') {
+      this.edits.update((e) => ({
+        ...e,
+        epsilon: { lPerMolCm: null, sourceBatchId: null, label: "this batch's standards" },
+      }));
+      return;
+    }
+    const sourceId = Number(value.replace('batch:', ''));
+    const name = this.otherBatches().find((b) => b.id === sourceId)?.name ?? `batch ${sourceId}`;
+    this.service.analysis(sourceId).subscribe({
+      next: (other) => {
+        const epsilon = other.result.calibration?.epsilonLPerMolCm ?? null;
+        if (epsilon === null) {
+          this.snackBar.open(`${name} has no calibration to take ε from.`, 'OK', { duration: 6000 });
+          return;
+        }
+        this.edits.update((e) => ({
+          ...e,
+          epsilon: { lPerMolCm: epsilon, sourceBatchId: sourceId, label: `the calibration of ${name}` },
+        }));
+      },
+      error: (err: unknown) =>
+        this.snackBar.open(apiErrorMessage(err, `Could not read the calibration of ${name}.`), 'OK'),
+    });
+  }
+
+  protected reset(): void {
+    this.edits.set(NO_EDITS);
+  }
+
+  protected save(): void {
+    const batch = this.batch();
+    if (!batch || !this.unsaved()) return;
+    const patch = settingsPatch(batch.settings, this.edits());
+    this.askReason({
+      title: 'Save the what-if',
+      message: "These changes become the batch's analysis settings:",
+      details: this.editLines(),
+      fieldLabel: 'Reason',
+      confirmLabel: 'Save',
+    }).subscribe((reason) =>
+      this.run(this.service.saveSettings(batch.id, patch, reason), 'Settings saved.', () =>
+        this.edits.set(NO_EDITS),
+      ),
+    );
+  }
+
+  protected review(): void {
+    const batch = this.batch();
+    if (batch) this.run(this.service.review(batch.id), 'Marked reviewed.');
+  }
+
+  protected approve(): void {
+    const batch = this.batch();
+    if (!batch) return;
+    this.askReason({
+      title: `Approve ${batch.name}`,
+      message:
+        'An approved batch is locked: its analysis can no longer change until a lab manager reopens it.',
+      fieldLabel: 'Comment',
+      confirmLabel: 'Approve',
+    }).subscribe((comment) => this.run(this.service.approve(batch.id, comment), 'Approved.'));
+  }
+
+  protected reopen(): void {
+    const batch = this.batch();
+    if (!batch) return;
+    this.askReason({
+      title: `Reopen ${batch.name}`,
+      message: 'The batch goes back to open and can be changed and reviewed again.',
+      fieldLabel: 'Reason',
+      confirmLabel: 'Reopen',
+    }).subscribe((reason) => this.run(this.service.reopen(batch.id, reason), 'Reopened.'));
+  }
+
+  private askReason(data: ReasonDialogData) {
+    return this.dialog
+      .open<ReasonDialog, ReasonDialogData, string>(ReasonDialog, { data, width: '480px', maxWidth: '95vw' })
+      .afterClosed()
+      .pipe(filter((text): text is string => !!text));
+  }
+
+  private run(request: ReturnType<BatchDetailService['review']>, done: string, after?: () => void): void {
+    this.busy.set(true);
+    request.subscribe({
+      next: () => {
+        this.busy.set(false);
+        after?.();
+        this.snackBar.open(done, undefined, { duration: 3000 });
+        this.reload$.next();
+      },
+      error: (err: unknown) => {
+        this.busy.set(false);
+        this.snackBar.open(apiErrorMessage(err), 'OK');
+      },
+    });
+  }
+}

@@ -1,0 +1,117 @@
+import type { CalibrationResult, JobBatchResult, MixtureResult } from '@equilight/analysis';
+
+/** A point of a scatter chart; `flagged` points are drawn as triangles (shape, not colour alone). */
+export interface XY {
+  x: number;
+  y: number;
+}
+
+export interface ChartSeries {
+  label: string;
+  kind: 'points' | 'flagged' | 'line';
+  points: XY[];
+}
+
+export interface ScatterChartModel {
+  series: ChartSeries[];
+  xTitle: string;
+  yTitle: string;
+  /** One sentence describing the chart for a screen reader; the tables beside it carry the numbers. */
+  summary: string;
+}
+
+/** Standards (flagged ones apart) and the fitted line A = S·c + b over the standards' range. */
+export function calibrationChart(cal: CalibrationResult): ScatterChartModel {
+  const ok = cal.points.filter((p) => !p.aboveLinearRange && !p.outlier);
+  const flagged = cal.points.filter((p) => p.aboveLinearRange || p.outlier);
+  const xs = cal.points.map((p) => p.concentrationM);
+  const xMax = Math.max(0, ...xs);
+  const xMin = Math.min(0, ...xs);
+  const series: ChartSeries[] = [
+    { label: 'Standards', kind: 'points', points: ok.map((p) => ({ x: p.concentrationM, y: p.absorbance })) },
+  ];
+  if (flagged.length)
+    series.push({
+      label: 'Flagged standards',
+      kind: 'flagged',
+      points: flagged.map((p) => ({ x: p.concentrationM, y: p.absorbance })),
+    });
+  series.push({
+    label: 'Fitted line',
+    kind: 'line',
+    points: [xMin, xMax].map((x) => ({ x, y: cal.slope * x + cal.intercept })),
+  });
+  return {
+    series,
+    xTitle: 'Concentration (mol/L)',
+    yTitle: 'Corrected absorbance (AU)',
+    summary: `Calibration: ${cal.n} standards and the fitted line, R² ${cal.r2.toFixed(4)}.`,
+  };
+}
+
+/** Residuals (observed − fitted absorbance) against concentration, with the zero line. */
+export function residualChart(cal: CalibrationResult): ScatterChartModel {
+  const xs = cal.points.map((p) => p.concentrationM);
+  const flagged = cal.points.filter((p) => p.aboveLinearRange || p.outlier);
+  const series: ChartSeries[] = [
+    {
+      label: 'Residuals',
+      kind: 'points',
+      points: cal.points
+        .filter((p) => !p.aboveLinearRange && !p.outlier)
+        .map((p) => ({ x: p.concentrationM, y: p.residual })),
+    },
+  ];
+  if (flagged.length)
+    series.push({
+      label: 'Flagged standards',
+      kind: 'flagged',
+      points: flagged.map((p) => ({ x: p.concentrationM, y: p.residual })),
+    });
+  series.push({
+    label: 'Zero',
+    kind: 'line',
+    points: [
+      { x: Math.min(0, ...xs), y: 0 },
+      { x: Math.max(0, ...xs), y: 0 },
+    ],
+  });
+  return {
+    series,
+    xTitle: 'Concentration (mol/L)',
+    yTitle: 'Residual (AU)',
+    summary: `Residuals of the ${cal.n} standards around the fitted line.`,
+  };
+}
+
+/** The Job's series (absorbance against mole fraction of B) and its two straight branches. */
+export function jobChart(job: JobBatchResult, mixtures: readonly MixtureResult[]): ScatterChartModel {
+  const ids = new Set(job.sampleIds);
+  const points = mixtures
+    .filter((m) => ids.has(m.sampleId) && m.absorbance !== null)
+    .map((m) => ({ x: m.moleFractionB, y: m.absorbance as number }))
+    .sort((a, b) => a.x - b.x);
+  const series: ChartSeries[] = [{ label: 'Mixtures', kind: 'points', points }];
+  const xMax = job.maxMoleFractionB;
+  if (job.left && xMax !== null)
+    series.push({
+      label: 'Rising branch',
+      kind: 'line',
+      points: [0, xMax].map((x) => ({ x, y: job.left!.slope * x + job.left!.intercept })),
+    });
+  if (job.right && xMax !== null)
+    series.push({
+      label: 'Falling branch',
+      kind: 'line',
+      points: [xMax, 1].map((x) => ({ x, y: job.right!.slope * x + job.right!.intercept })),
+    });
+  return {
+    series,
+    xTitle: 'Mole fraction of B, B₀/(A₀ + B₀)',
+    yTitle: 'Corrected absorbance (AU)',
+    summary:
+      xMax === null
+        ? `Job's plot of ${points.length} mixtures; no maximum found.`
+        : `Job's plot of ${points.length} mixtures; the branches meet at a mole fraction of B of ${xMax.toFixed(3)}.`,
+  };
+}

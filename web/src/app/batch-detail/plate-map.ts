@@ -1,0 +1,165 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  ElementRef,
+  computed,
+  inject,
+  input,
+  output,
+  signal,
+} from '@angular/core';
+import type { PositionResult, QcFlag } from '@equilight/analysis';
+import type { PlateFormat } from '../batches/batch';
+import { VIRIDIS_NAME, legendGradient } from './colour-scale';
+import { formatAbsorbance } from './number-format';
+import {
+  type CellMarker,
+  MARKERS,
+  type PlateCell,
+  ROLE_LETTERS,
+  buildPlateModel,
+  describeCell,
+  statusWord,
+} from './plate-map-model';
+
+let nextId = 0;
+
+interface Hover {
+  cell: PlateCell;
+  left: number;
+  top: number;
+}
+
+/**
+ * A plate (96 or 384 wells) or a cuvette sequence, coloured by blank-corrected absorbance on the
+ * viridis scale. Role letters and symbols carry the meaning colour alone must not. An ARIA grid
+ * with a roving tab stop: arrow keys move, Home/End jump along a row, Enter or Space selects.
+ */
+@Component({
+  selector: 'eq-plate-map',
+  templateUrl: './plate-map.html',
+  styleUrl: './plate-map.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PlateMap {
+  private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
+
+  readonly format = input.required<PlateFormat>();
+  readonly positions = input.required<readonly PositionResult[]>();
+  readonly layoutPositions = input<readonly { position: string; role: string; replicateGroup?: string }[]>(
+    [],
+  );
+  readonly qc = input<readonly QcFlag[]>([]);
+  readonly wavelengthNm = input<number | null>(null);
+  readonly pathLengthCm = input<number | null>(null);
+  /** The position chosen for a what-if exclusion. */
+  readonly selected = input<string | null>(null);
+  /** Accessible name of the grid. */
+  readonly label = input('Plate map');
+
+  readonly positionSelect = output<string>();
+
+  protected readonly tooltipId = `eq-plate-tooltip-${nextId++}`;
+  protected readonly model = computed(() =>
+    buildPlateModel(this.format(), this.positions(), this.layoutPositions(), this.qc()),
+  );
+  protected readonly flatCells = computed(() => this.model().rows.flat());
+  private readonly active = signal<string | null>(null);
+  /** The cell holding the tab stop: the one last focused, else the selected one, else the first used. */
+  protected readonly activePosition = computed(() => {
+    const cells = this.flatCells();
+    const wanted = this.active() ?? this.selected();
+    if (wanted && cells.some((c) => c.position === wanted)) return wanted;
+    return (cells.find((c) => !c.empty) ?? cells[0])?.position ?? null;
+  });
+  protected readonly hover = signal<Hover | null>(null);
+
+  protected readonly gradient = legendGradient();
+  protected readonly scaleName = VIRIDIS_NAME;
+  protected readonly roleLegend = Object.entries(ROLE_LETTERS).map(([role, letter]) => ({ role, letter }));
+  protected readonly markerLegend = (Object.keys(MARKERS) as CellMarker[]).map((m) => ({
+    key: m,
+    ...MARKERS[m],
+  }));
+  protected readonly markers = MARKERS;
+  protected readonly usedRoles = computed(() => new Set(this.flatCells().map((c) => c.roleLetter)));
+  protected readonly usedMarkers = computed(() => new Set(this.flatCells().map((c) => c.marker)));
+  protected readonly rangeText = computed(() => {
+    const r = this.model().range;
+    return r ? { min: formatAbsorbance(r.min), max: formatAbsorbance(r.max) } : null;
+  });
+  protected readonly unitText = computed(() => {
+    const parts = ['absorbance units (AU)'];
+    if (this.wavelengthNm() !== null) parts.push(`${this.wavelengthNm()} nm`);
+    if (this.pathLengthCm() !== null) parts.push(`${this.pathLengthCm()} cm path`);
+    return parts.join(', ');
+  });
+
+  protected readonly describe = describeCell;
+  protected readonly abs = formatAbsorbance;
+  protected readonly statusWord = statusWord;
+
+  protected show(cell: PlateCell, event: Event): void {
+    const el = event.currentTarget as HTMLElement;
+    this.hover.set({ cell, left: el.offsetLeft + el.offsetWidth / 2, top: el.offsetTop + el.offsetHeight });
+  }
+
+  protected hide(cell: PlateCell): void {
+    if (this.hover()?.cell.position === cell.position) this.hover.set(null);
+  }
+
+  protected focusCell(cell: PlateCell, event: Event): void {
+    this.active.set(cell.position);
+    this.show(cell, event);
+  }
+
+  protected choose(cell: PlateCell): void {
+    this.active.set(cell.position);
+    if (!cell.empty) this.positionSelect.emit(cell.position);
+  }
+
+  protected onKeydown(event: KeyboardEvent): void {
+    const rows = this.model().rows;
+    const current = this.flatCells().find((c) => c.position === this.activePosition());
+    if (!current) return;
+    let { row, col } = current;
+    switch (event.key) {
+      case 'ArrowRight':
+        col += 1;
+        break;
+      case 'ArrowLeft':
+        col -= 1;
+        break;
+      case 'ArrowDown':
+        row += 1;
+        break;
+      case 'ArrowUp':
+        row -= 1;
+        break;
+      case 'Home':
+        col = 0;
+        if (event.ctrlKey) row = 0;
+        break;
+      case 'End':
+        col = Number.MAX_SAFE_INTEGER;
+        if (event.ctrlKey) row = rows.length - 1;
+        break;
+      case 'Enter':
+      case ' ':
+        event.preventDefault();
+        this.choose(current);
+        return;
+      case 'Escape':
+        this.hover.set(null);
+        return;
+      default:
+        return;
+    }
+    event.preventDefault();
+    row = Math.max(0, Math.min(rows.length - 1, row));
+    col = Math.max(0, Math.min(rows[row].length - 1, col));
+    const next = rows[row][col];
+    this.active.set(next.position);
+    this.host.nativeElement.querySelector<HTMLElement>(`[data-position="${next.position}"]`)?.focus();
+  }
+}

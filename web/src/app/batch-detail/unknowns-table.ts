@@ -1,0 +1,76 @@
+import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
+import { MatIconModule } from '@angular/material/icon';
+import type { UnknownResult } from '@equilight/analysis';
+import { formatAbsorbance, formatNumber } from './number-format';
+import { guidanceFor } from './qc-guidance';
+
+/** Concentrations of the unknowns (and controls) read from the calibration, with SE and QC marks. */
+@Component({
+  selector: 'eq-unknowns-table',
+  imports: [MatIconModule],
+  template: `
+    @if (rows().length) {
+      <div class="eq-table-wrap">
+        <table class="eq-table" data-testid="unknowns-table">
+          <caption>
+            Concentrations in the original sample (after the dilution factor)
+          </caption>
+          <thead>
+            <tr>
+              <th scope="col">Sample</th>
+              <th scope="col">Kind</th>
+              <th scope="col">Positions</th>
+              <th scope="col" class="eq-n">n</th>
+              <th scope="col" class="eq-n">A corrected (AU)</th>
+              <th scope="col" class="eq-n">Dilution factor</th>
+              <th scope="col" class="eq-n">c (mol/L)</th>
+              <th scope="col" class="eq-n">SE (mol/L)</th>
+              <th scope="col">QC</th>
+            </tr>
+          </thead>
+          <tbody>
+            @for (u of rows(); track u.kind + u.row.group) {
+              <tr [attr.data-sample]="u.row.sampleId">
+                <th scope="row">{{ u.row.sampleId }}</th>
+                <td>{{ u.kind }}</td>
+                <td>{{ u.row.positions.join(', ') }}</td>
+                <td class="eq-n">{{ u.row.n }}</td>
+                <td class="eq-n">{{ abs(u.row.absorbance) }}</td>
+                <td class="eq-n">× {{ u.row.dilutionFactor }}</td>
+                <td class="eq-n" data-testid="unknown-concentration">{{ fmt(u.row.concentrationM, 4) }}</td>
+                <td class="eq-n">{{ fmt(u.row.seM, 2) }}</td>
+                <td>
+                  @for (code of u.row.flags; track code) {
+                    <span class="eq-flag"
+                      ><mat-icon inline aria-hidden="true">flag</mat-icon>{{ title(code) }}</span
+                    >
+                  } @empty {
+                    <span class="eq-flag"><mat-icon inline aria-hidden="true">check</mat-icon>none</span>
+                  }
+                </td>
+              </tr>
+            }
+          </tbody>
+        </table>
+      </div>
+    } @else {
+      <p class="eq-empty">This batch has no unknowns or controls.</p>
+    }
+  `,
+  styleUrl: './panels.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class UnknownsTable {
+  readonly unknowns = input.required<readonly UnknownResult[]>();
+  readonly controls = input<readonly UnknownResult[]>([]);
+
+  protected readonly rows = computed(() => [
+    ...this.unknowns().map((row) => ({ kind: 'unknown', row })),
+    ...this.controls().map((row) => ({ kind: 'control', row })),
+  ]);
+  protected readonly fmt = formatNumber;
+  protected readonly abs = formatAbsorbance;
+  protected title(code: string): string {
+    return guidanceFor(code).title;
+  }
+}

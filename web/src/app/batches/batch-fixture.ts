@@ -1,0 +1,45 @@
+import type { Batch } from './batch';
+
+/** An invented batch for component tests. */
+export function batchFixture(overrides: Partial<Batch> = {}): Batch {
+  return {
+    id: 1,
+    name: 'Iron–ligand Job series',
+    state: 'open',
+    profileId: 2,
+    profileName: 'Reader Bay 2',
+    layoutId: 3,
+    layoutName: 'Job plate',
+    layoutVersion: 2,
+    manifestId: 4,
+    manifestName: 'Job mixtures',
+    manifestVersion: 1,
+    runId: 'RUN-0417',
+    expectedFiles: 3,
+    fileCount: 1,
+    systemName: 'Fe(III) + ligand L',
+    temperatureC: 25,
+    settings: {
+      wavelengthNm: 480,
+      pathLengthCm: 1,
+      candidates: ['1:1', '1:2'],
+      calibrationModel: 'linear',
+      linearRangeMaxAbsorbance: 1,
+      r2Min: 0.995,
+      replicateCvMax: 0.05,
+      kCvMax: 0.15,
+      epsilonLPerMolCm: null,
+      monteCarloDraws: 0,
+      exclusions: [],
+    },
+    createdAt: '2026-03-02T09:00:00.000Z',
+    updatedAt: '2026-03-02T09:00:00.000Z',
+    lastActivityAt: '2026-03-02T09:30:00.000Z',
+    reviewedBy: null,
+    reviewedAt: null,
+    approvedBy: null,
+    approvedAt: null,
+    approvalComment: null,
+    ...overrides,
+  };
+}

@@ -1,0 +1,113 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { TestBed } from '@angular/core/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { provideRouter } from '@angular/router';
+import { vantHoff } from '@equilight/analysis';
+import { ScatterChart } from '../batch-detail/scatter-chart';
+import { ScatterChartStub } from '../batch-detail/scatter-chart-stub';
+import { type SystemTemperatures, inverseKelvin, vantHoffChart } from './temperature-system';
+import { TemperaturesPage } from './temperatures-page';
+
+const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();
+
+// Invented: K of a 1:1 complex at three temperatures, and one batch with another stoichiometry.
+const POINTS = [
+  { temperatureC: 15, k: 910 },
+  { temperatureC: 25, k: 700 },
+  { temperatureC: 35, k: 548 },
+];
+const FIT = vantHoff(POINTS);
+
+function system(): SystemTemperatures {
+  return {
+    systemName: 'Ni–L (invented)',
+    model: '1:1',
+    points: [
+      ...POINTS.map((p, i) => ({
+        batchId: 10 + i,
+        batchName: `Ni–L ${p.temperatureC} °C`,
+        state: 'approved',
+        temperatureC: p.temperatureC,
+        model: '1:1',
+        k: p.k,
+        kSe: p.k * 0.03,
+        kCi95: [p.k * 0.94, p.k * 1.06] as [number, number],
+        excludedBecause: null,
+      })),
+      {
+        batchId: 20,
+        batchName: 'Ni–L 45 °C',
+        state: 'open',
+        temperatureC: 45,
+        model: '1:2',
+        k: 3.1e6,
+        kSe: null,
+        kCi95: null,
+        excludedBecause: 'not approved yet',
+      },
+    ],
+    vantHoff: { ...FIT },
+    note: "van 't Hoff fit over 3 batches at 3 temperatures (1:1).",
+  };
+}
+
+describe('vantHoffChart', () => {
+  it('plots ln K against 1/T, keeps left-out batches apart, and draws the fitted line', () => {
+    const chart = vantHoffChart(system());
+    const [used, left, line] = chart.series;
+    expect(used.points).toHaveLength(3);
+    expect(used.points[0].x).toBeCloseTo(1 / 288.15, 12);
+    expect(used.points[0].y).toBeCloseTo(Math.log(910), 12);
+    expect(left.kind).toBe('flagged');
+    expect(left.points).toHaveLength(1);
+    expect(line.points[0].x).toBeCloseTo(inverseKelvin(35), 12);
+    for (const p of line.points) expect(p.y).toBeCloseTo(FIT.intercept + FIT.slope * p.x, 12);
+    expect(chart.xTitle).toBe('1/T (K⁻¹)');
+  });
+});
+
+describe('TemperaturesPage', () => {
+  it('shows ΔH° in kJ/mol and ΔS° in J·mol⁻¹·K⁻¹ with SE, the points and the note; the toggle asks again', async () => {
+    TestBed.configureTestingModule({
+      imports: [TemperaturesPage],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideRouter([]),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+      ],
+    });
+    TestBed.overrideComponent(TemperaturesPage, {
+      remove: { imports: [ScatterChart] },
+      add: { imports: [ScatterChartStub] },
+    });
+    const http = TestBed.inject(HttpTestingController);
+    const fixture = TestBed.createComponent(TemperaturesPage);
+    await fixture.whenStable();
+    http.expectOne('/api/temperatures?includeUnapproved=false').flush([system()]);
+    await fixture.whenStable();
+    const el = fixture.nativeElement as HTMLElement;
+
+    const dh = text(el.querySelector('[data-testid="delta-h"]'));
+    expect(dh).toMatch(/^−?-?\d+(\.\d+)? ± \d+(\.\d+)? kJ\/mol$/);
+    expect(Number(dh.split(' ')[0].replace('−', '-'))).toBeCloseTo(FIT.deltaHJPerMol / 1000, 1);
+    expect(text(el.querySelector('[data-testid="delta-s"]'))).toContain('J·mol⁻¹·K⁻¹');
+    expect(text(el.querySelector('[data-testid="note"]'))).toContain("van 't Hoff fit over 3 batches");
+    const rows = el.querySelectorAll('tbody tr');
+    expect(rows).toHaveLength(4);
+    expect(text(rows[0])).toContain('15.0');
+    expect(text(rows[0])).toContain('288.15');
+    expect(text(rows[0])).toContain('910.0 L·mol⁻¹');
+    expect(rows[0].querySelector('a')!.getAttribute('href')).toBe('/batches/10');
+    expect(text(rows[3])).toContain('no: not approved yet');
+    expect(el.querySelector('canvas[role="img"]')!.getAttribute('aria-label')).toContain('ln K against 1/T');
+
+    (el.querySelector('[data-testid="include-unapproved"] button') as HTMLButtonElement).click();
+    await fixture.whenStable();
+    http.expectOne('/api/temperatures?includeUnapproved=true').flush([]);
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="no-systems"]')).not.toBeNull();
+    http.verify();
+  });
+});
