@@ -45,6 +45,7 @@ describe('watcher and server as real processes', () => {
   let server: Child | undefined;
   let watcher: Child | undefined;
   let admin: Session;
+  let profileId: number;
   let seed = 0;
 
   function drop(count: number): void {
@@ -78,7 +79,11 @@ describe('watcher and server as real processes', () => {
   }
 
   async function intake(): Promise<IntakeItem[]> {
-    const page = await admin.json<{ items: IntakeItem[]; total: number }>('GET', '/api/intake?pageSize=500');
+    // Only this test's instrument: the server's own demo seed brings files of its demo instruments too.
+    const page = await admin.json<{ items: IntakeItem[]; total: number }>(
+      'GET',
+      `/api/intake?pageSize=500&profileId=${profileId}`,
+    );
     expect(page.total).toBe(page.items.length);
     return page.items;
   }
@@ -107,7 +112,9 @@ describe('watcher and server as real processes', () => {
     await db.initialize();
     try {
       const rows = (await db.query(
-        'SELECT intake_file_id AS id, COUNT(*) AS n FROM readings GROUP BY intake_file_id',
+        'SELECT r.intake_file_id AS id, COUNT(*) AS n FROM readings r JOIN intake_files f ON f.id = r.intake_file_id ' +
+          'WHERE f.profile_id = ? GROUP BY r.intake_file_id',
+        [profileId],
       )) as Array<{ id: number; n: number }>;
       expect(rows).toHaveLength(expected);
       expect(rows.every((r) => Number(r.n) === WELLS_PER_FILE)).toBe(true);
@@ -149,6 +156,7 @@ describe('watcher and server as real processes', () => {
       dropSubfolder: 'e2e-reader',
     });
     expect(created.token).toMatch(/^eqt_/);
+    profileId = created.profile.id;
     const configFile = path.join(root, 'watcher.json');
     fs.writeFileSync(
       configFile,
