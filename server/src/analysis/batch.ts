@@ -346,7 +346,7 @@ export function analyzeBatch(
     if (calibration.r2 < s.r2Min) {
       flag(
         'calibration-r2-low',
-        'warning',
+        'error',
         `calibration R² ${calibration.r2.toFixed(4)} is below ${s.r2Min}`,
         {
           value: calibration.r2,
@@ -561,7 +561,7 @@ export function analyzeBatch(
       if (c.fit && !c.fit.converged) {
         flag(
           'fit-not-converged',
-          c.rank === 1 ? 'warning' : 'info',
+          c.rank === 1 ? 'error' : 'info',
           `${c.model}: global fit did not converge (${c.fit.message})`,
         );
       }
@@ -571,7 +571,7 @@ export function analyzeBatch(
     if (cvs.length > 0 && cvs.every((v) => v > s.kCvMax)) {
       flag(
         'k-not-constant',
-        'warning',
+        'error',
         `K is not constant under any candidate (smallest CV ${(Math.min(...cvs) * 100).toFixed(1)} %)`,
         {
           value: Math.min(...cvs),

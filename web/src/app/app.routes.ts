@@ -8,6 +8,12 @@ export const routes: Routes = [
     loadComponent: () => import('./auth/sign-in/sign-in-page').then((m) => m.SignInPage),
   },
   {
+    path: 'forgot-password',
+    title: 'Reset your password · Equilight',
+    loadComponent: () =>
+      import('./auth/forgot-password/forgot-password-page').then((m) => m.ForgotPasswordPage),
+  },
+  {
     path: 'set-password',
     title: 'Set your password · Equilight',
     loadComponent: () => import('./auth/set-password/set-password-page').then((m) => m.SetPasswordPage),
