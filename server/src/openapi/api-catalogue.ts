@@ -11,6 +11,7 @@ import {
 import { intakeQuerySchema } from '../ingest/intake.schema';
 import { createProfileSchema, updateProfileSchema } from '../instruments/instruments.schema';
 import { createLayoutSchema, updateLayoutSchema } from '../layouts/layouts.schema';
+import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from '../mail/mail.schema';
 import { manifestMetaSchema } from '../manifests/manifests.schema';
 import { temperaturesQuerySchema } from '../temperatures/temperatures.router';
 import { createUserSchema, updateUserSchema } from '../users/users.schema';
@@ -388,6 +389,74 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     query: auditQuerySchema,
     success: [200, 'A page of entries and the total'],
+  },
+  {
+    method: 'get',
+    path: '/api/batches/{id}/export.csv',
+    tag: 'reports',
+    summary: 'CSV export of readings or results (content=readings|results); formula-like text is escaped',
+    access: ALL,
+    success: [200, 'text/csv attachment'],
+  },
+  {
+    method: 'get',
+    path: '/api/batches/{id}/report.pdf',
+    tag: 'reports',
+    summary:
+      'PDF report: metadata, layout map, calibration plot, tables, verdict, QC flags, file hashes, review trail',
+    access: ALL,
+    success: [200, 'application/pdf'],
+  },
+  {
+    method: 'post',
+    path: '/api/auth/forgot-password',
+    tag: 'auth',
+    summary: 'Mail a one-time link to set a new password (never says whether the e-mail exists)',
+    access: 'public',
+    body: forgotPasswordSchema,
+    success: [202, 'Accepted'],
+  },
+  {
+    method: 'get',
+    path: '/api/me/notifications',
+    tag: 'mail',
+    summary: 'My notification settings',
+    access: ALL,
+    success: [200, 'batchComplete, qcFailure, batchApproved'],
+  },
+  {
+    method: 'put',
+    path: '/api/me/notifications',
+    tag: 'mail',
+    summary: 'Change my notification settings',
+    access: ALL,
+    body: notificationSettingsSchema,
+    success: [200, 'The settings'],
+  },
+  {
+    method: 'get',
+    path: '/api/outbox/status',
+    tag: 'mail',
+    summary: 'Whether the built-in SMTP stand-in runs',
+    access: ALL,
+    success: [200, '{ standIn }'],
+  },
+  {
+    method: 'get',
+    path: '/api/outbox',
+    tag: 'mail',
+    summary: 'Mails received by the SMTP stand-in (404 when it does not run)',
+    access: ADMIN,
+    query: outboxQuerySchema,
+    success: [200, 'A page of messages and the total'],
+  },
+  {
+    method: 'get',
+    path: '/api/outbox/{id}',
+    tag: 'mail',
+    summary: 'One received mail',
+    access: ADMIN,
+    success: [200, 'The message'],
   },
   {
     method: 'get',
