@@ -223,6 +223,8 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     await page.setViewportSize({ width: 390, height: 844 });
     await page.getByTestId('plate-map').waitFor();
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-390x844.png'), fullPage: true });
+    await page.getByTestId('plate-map').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-390x844-map.png') });
     await page.setViewportSize({ width: 1280, height: 800 });
     expect(await axeSeriousViolations(page)).toEqual([]);
   });

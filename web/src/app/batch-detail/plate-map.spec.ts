@@ -122,11 +122,11 @@ describe('PlateMap', () => {
       ],
     );
     expect(cell('A1').getAttribute('data-marker')).toBe('missing');
-    expect(cell('A1').textContent).toContain('∅');
+    expect(cell('A1').querySelector('.eq-map__marker')!.getAttribute('data-symbol')).toBe('∅');
     expect(cell('A2').getAttribute('data-marker')).toBe('saturated');
-    expect(cell('A2').textContent).toContain('▲');
+    expect(cell('A2').querySelector('.eq-map__marker')!.getAttribute('data-symbol')).toBe('▲');
     expect(cell('A3').getAttribute('data-marker')).toBe('excluded');
-    expect(cell('A3').textContent).toContain('✕');
+    expect(cell('A3').querySelector('.eq-map__marker')!.getAttribute('data-symbol')).toBe('✕');
     expect(cell('A3').getAttribute('aria-label')).toContain('reason: bubble seen');
     expect(cell('A4').getAttribute('data-marker')).toBe('flagged');
     expect(cell('A4').getAttribute('aria-label')).toContain('1 QC flag');

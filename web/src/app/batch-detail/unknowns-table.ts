@@ -10,7 +10,7 @@ import { guidanceFor } from './qc-guidance';
   imports: [MatIconModule],
   template: `
     @if (rows().length) {
-      <div class="eq-table-wrap">
+      <div class="eq-table-wrap" tabindex="0" role="region" aria-label="Unknowns table">
         <table class="eq-table" data-testid="unknowns-table">
           <caption>
             Concentrations in the original sample (after the dilution factor)

@@ -1,5 +1,13 @@
-import { ChangeDetectionStrategy, Component, computed, effect, input, output } from '@angular/core';
-import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  input,
+  output,
+  viewChild,
+} from '@angular/core';
+import { FormControl, FormGroup, FormGroupDirective, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -74,6 +82,7 @@ export class WhatIfPanel {
       validators: [Validators.required, Validators.minLength(REASON_MIN_LENGTH)],
     }),
   });
+  private readonly formDirective = viewChild(FormGroupDirective);
   protected readonly pathLength = new FormControl(1, {
     nonNullable: true,
     validators: [Validators.required, Validators.min(0.001), Validators.max(100)],
@@ -107,7 +116,10 @@ export class WhatIfPanel {
       return;
     }
     this.exclude.emit({ position, reason: reason.trim() });
-    this.form.reset();
+    // resetForm also clears "submitted", so the emptied fields do not show as errors.
+    const directive = this.formDirective();
+    if (directive) directive.resetForm();
+    else this.form.reset();
   }
 
   protected applyPathLength(): void {

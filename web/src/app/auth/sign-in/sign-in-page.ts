@@ -14,6 +14,7 @@ import { apiErrorMessage } from '../../core/http/auth.interceptor';
   selector: 'eq-sign-in-page',
   imports: [
     ReactiveFormsModule,
+    RouterLink,
     MatCardModule,
     MatFormFieldModule,
     MatInputModule,

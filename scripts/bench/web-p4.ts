@@ -1,0 +1,184 @@
+/**
+ * P4, two figures:
+ * 1. Initial JavaScript of the built app (the scripts index.html loads and preloads), gzip'd, against a
+ *    300 kB budget. Floor in the same run: the same chunks minified but not compressed (the ratio shows the
+ *    compression), and angular.json enforces a raw-size budget on every build.
+ * 2. A 384-well batch page in Debian's Chromium receiving 10 live events per second for 30 s (each a
+ *    small export stored into the open batch): the count of long tasks (> 50 ms) and their total time.
+ *    Floor in the same run: the same page for 30 s with no events.
+ * Run: npm run build && npm run bench:web [-- --seconds 30 --rate 10]
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import zlib from 'node:zlib';
+import type { Page } from 'playwright-core';
+import { launchChromium } from '../../web/e2e/support/browser';
+import { DEMO_PASSWORD, REPO_ROOT, startServer } from '../../web/e2e/support/server-process';
+
+const BUDGET_KB = 300;
+const option = (name: string, fallback: number): number => {
+  const i = process.argv.indexOf(`--${name}`);
+  return i >= 0 ? Number(process.argv[i + 1]) : fallback;
+};
+const SECONDS = option('seconds', 30);
+const RATE = option('rate', 10);
+
+function initialJs(): { files: string[]; rawBytes: number; gzipBytes: number } {
+  const dir = path.join(REPO_ROOT, 'dist/web/browser');
+  const html = fs.readFileSync(path.join(dir, 'index.html'), 'utf8');
+  const files = [...new Set([...html.matchAll(/(?:src|href)="([^"]+\.js)"/g)].map((m) => m[1]))];
+  let rawBytes = 0;
+  let gzipBytes = 0;
+  for (const file of files) {
+    const content = fs.readFileSync(path.join(dir, file));
+    rawBytes += content.length;
+    gzipBytes += zlib.gzipSync(content, { level: 9 }).length;
+  }
+  return { files, rawBytes, gzipBytes };
+}
+
+const ROWS = 'ABCDEFGHIJKLMNOP';
+const WELLS = [...ROWS].flatMap((r) => Array.from({ length: 24 }, (_, c) => `${r}${c + 1}`));
+
+async function api(
+  page: Page,
+  method: string,
+  url: string,
+  body?: unknown,
+): Promise<{ status: number; json: unknown }> {
+  return page.evaluate(
+    async ({ method, url, body }) => {
+      const xsrf = decodeURIComponent(document.cookie.match(/XSRF-TOKEN=([^;]+)/)?.[1] ?? '');
+      const res = await fetch(url, {
+        method,
+        headers: { 'content-type': 'application/json', 'x-xsrf-token': xsrf },
+        body: body === undefined ? undefined : JSON.stringify(body),
+      });
+      return { status: res.status, json: await res.json().catch(() => null) };
+    },
+    { method, url, body },
+  );
+}
+
+async function longTasksDuring(
+  page: Page,
+  ms: number,
+  during: () => Promise<void>,
+): Promise<{ count: number; totalMs: number }> {
+  await page.evaluate(() => {
+    const w = window as unknown as { __long: number[] };
+    w.__long = [];
+    new PerformanceObserver((list) => list.getEntries().forEach((e) => w.__long.push(e.duration))).observe({
+      type: 'longtask',
+      buffered: false,
+    });
+  });
+  await Promise.all([during(), new Promise((r) => setTimeout(r, ms))]);
+  const durations = await page.evaluate(() => (window as unknown as { __long: number[] }).__long);
+  return { count: durations.length, totalMs: durations.reduce((a, b) => a + b, 0) };
+}
+
+async function main(): Promise<void> {
+  const js = initialJs();
+  console.log(
+    `P4a initial JS: ${js.files.length} files, ${(js.rawBytes / 1024).toFixed(1)} kB minified, ${(js.gzipBytes / 1024).toFixed(1)} kB gzip`,
+  );
+  console.log(
+    `    budget ${BUDGET_KB} kB gzip: ${((js.gzipBytes / 1024 / BUDGET_KB) * 100).toFixed(0)} % used; gzip/minified ratio ${(js.gzipBytes / js.rawBytes).toFixed(2)}`,
+  );
+
+  const server = await startServer({ SEED_DEMO: 'true', SMTP_STANDIN: 'false' });
+  const browser = await launchChromium();
+  try {
+    const page = await (await browser.newContext({ viewport: { width: 1280, height: 800 } })).newPage();
+    await page.goto(`${server.url}/sign-in`);
+    await page.getByLabel('E-mail').fill('admin@equilight.test');
+    await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByTestId('main-nav').waitFor();
+
+    // A 384-well instrument, layout, manifest and open batch; its token feeds the events.
+    const profile = (
+      await api(page, 'POST', '/api/instruments', {
+        name: 'Bench 384',
+        kind: 'plate_reader',
+        plateFormat: '384',
+        fileFormat: 'long_table',
+        dropSubfolder: 'bench-384',
+        fileNamePattern: '^(?<run>B-\\d+)',
+      })
+    ).json as { profile: { id: number }; token: string };
+    const positions = WELLS.map((position, i) => ({
+      position,
+      role: i < 4 ? 'blank' : i < 12 ? 'standard' : 'unknown',
+    }));
+    const layout = (await api(page, 'POST', '/api/layouts', { name: 'Bench 384', format: '384', positions }))
+      .json as { id: number };
+    const rows = WELLS.map((position, i) => ({
+      position,
+      sample_id: i < 4 ? 'BLK' : i < 12 ? `S${i}` : `U${i}`,
+      role: i < 4 ? 'blank' : i < 12 ? 'standard' : 'unknown',
+      concentration_M: i >= 4 && i < 12 ? (i - 3) * 1e-4 : null,
+    }));
+    const manifest = (
+      await api(page, 'POST', '/api/manifests', { name: 'Bench 384', layoutId: layout.id, rows })
+    ).json as { id: number };
+    const batch = (
+      await api(page, 'POST', '/api/batches', {
+        name: 'Bench 384 batch',
+        profileId: profile.profile.id,
+        layoutId: layout.id,
+        manifestId: manifest.id,
+        runId: 'B-1',
+        expectedFiles: 1000,
+        settings: { wavelengthNm: 450 },
+      })
+    ).json as { id: number };
+    const full = [
+      'position,wavelength_nm,absorbance',
+      ...WELLS.map((w, i) => `${w},450,${(0.05 + (i % 97) / 120).toFixed(4)}`),
+    ].join('\n');
+    const send = async (name: string, text: string) => {
+      const form = new FormData();
+      form.append('file', new Blob([text]), name);
+      await fetch(`${server.url}/api/ingest`, {
+        method: 'POST',
+        headers: { authorization: `Bearer ${profile.token}` },
+        body: form,
+      });
+    };
+    await send('B-1_full.csv', full);
+    await page.goto(`${server.url}/batches/${batch.id}`);
+    await page.waitForTimeout(3000);
+
+    const quiet = await longTasksDuring(page, SECONDS * 1000, async () => undefined);
+    let n = 0;
+    const stream = async () => {
+      const end = Date.now() + SECONDS * 1000;
+      while (Date.now() < end) {
+        const started = Date.now();
+        const well = WELLS[12 + (n % 300)];
+        void send(
+          `B-1_event-${n++}.csv`,
+          `position,wavelength_nm,absorbance\n${well},450,${(0.1 + (n % 50) / 100).toFixed(4)}\n`,
+        );
+        await new Promise((r) => setTimeout(r, Math.max(0, 1000 / RATE - (Date.now() - started))));
+      }
+    };
+    const busy = await longTasksDuring(page, SECONDS * 1000 + 2000, stream);
+    console.log(
+      `P4b 384-well batch page, ${n} files stored in ${SECONDS} s (${RATE}/s target), each a live event:`,
+    );
+    console.log(
+      `    long tasks > 50 ms: ${busy.count} (total ${busy.totalMs.toFixed(0)} ms); floor with no events: ${quiet.count} (total ${quiet.totalMs.toFixed(0)} ms)`,
+    );
+  } finally {
+    await browser.close();
+    await server.stop();
+  }
+}
+
+main().catch((err: unknown) => {
+  console.error(err);
+  process.exit(1);
+});
