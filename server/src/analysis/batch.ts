@@ -344,15 +344,10 @@ export function analyzeBatch(
   }
   if (calibration) {
     if (calibration.r2 < s.r2Min) {
-      flag(
-        'calibration-r2-low',
-        'error',
-        `calibration R² ${calibration.r2.toFixed(4)} is below ${s.r2Min}`,
-        {
-          value: calibration.r2,
-          threshold: s.r2Min,
-        },
-      );
+      flag('calibration-r2-low', 'error', `calibration R² ${calibration.r2.toFixed(4)} is below ${s.r2Min}`, {
+        value: calibration.r2,
+        threshold: s.r2Min,
+      });
     }
     for (const pt of calibration.points) {
       if (pt.outlier) {

@@ -53,7 +53,7 @@ export class Shell {
     inject(BreakpointObserver)
       .observe('(max-width: 840px)')
       .pipe(map((state) => state.matches)),
-    { initialValue: false },
+    { initialValue: typeof matchMedia === 'function' && matchMedia('(max-width: 840px)').matches },
   );
   protected readonly dark = signal(localStorage.getItem(DARK_KEY) === '1');
 
