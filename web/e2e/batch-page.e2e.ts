@@ -1,6 +1,11 @@
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { extractPdfText } from '../../server/src/reports/pdf-text';
+import { parseWatcherConfig } from '../../watcher/src/config';
+import { silentLogger } from '../../watcher/src/logger';
+import { createWatcher, type DropFolderWatcher } from '../../watcher/src/watcher';
 import { launchChromium } from './support/browser';
 import {
   DEMO_PASSWORD,
@@ -81,6 +86,8 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
   let page: Page;
   let batchId: number;
   let token: string;
+  let watcher: DropFolderWatcher;
+  let dropDir: string;
 
   beforeAll(async () => {
     server = await startServer();
@@ -103,6 +110,20 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
         ? created['token']
         : ((await admin.call('POST', `/api/instruments/${profile.id}/token`))['token'] as string);
     await admin.ctx.close();
+
+    // The real watcher on a drop folder of its own, sending with the instrument's token.
+    dropDir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-e2e-drop-'));
+    watcher = createWatcher(
+      parseWatcherConfig({
+        serverUrl: server.url,
+        dropDir,
+        spoolDir: path.join(dropDir, '..', `${path.basename(dropDir)}-spool`),
+        settleMs: 300,
+        instruments: [{ folder: 'browser-test-cuvettes', token }],
+      }),
+      { logger: silentLogger },
+    );
+    await watcher.start();
 
     const manager = await apiAs(browser, server.url, 'manager@equilight.test');
     const rows = manifestRows();
@@ -141,6 +162,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
   });
 
   afterAll(async () => {
+    await watcher?.stop();
     await browser?.close();
     await server?.stop();
   });
@@ -155,16 +177,12 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     await expect(page.getByTestId('best-k').count()).resolves.toBe(0);
     await page.evaluate(() => ((window as unknown as { eqNoReload: boolean }).eqNoReload = true));
 
-    const form = new FormData();
-    form.append('file', new Blob([fs.readFileSync(path.join(SAMPLES, 'readings.csv'))]), `${RUN_ID}.csv`);
-    const res = await fetch(`${server.url}/api/ingest`, {
-      method: 'POST',
-      headers: { Authorization: `Bearer ${token}` },
-      body: form,
-    });
-    expect(res.status).toBe(202);
+    // The instrument writes its export into the drop folder; the watcher sends it in.
+    const target = path.join(dropDir, 'browser-test-cuvettes', `${RUN_ID}.csv`);
+    fs.writeFileSync(`${target}.tmp`, fs.readFileSync(path.join(SAMPLES, 'readings.csv')));
+    fs.renameSync(`${target}.tmp`, target);
 
-    await page.getByTestId('best-k-value').waitFor({ timeout: 20_000 });
+    await page.getByTestId('best-k-value').waitFor({ timeout: 30_000 });
     expect(Number((await kValue()).replace(/[^\d.]/g, ''))).toBeGreaterThan(0);
     await expect(page.getByTestId('verdict').innerText()).resolves.toMatch(/1:1 fits best/);
     await expect(page.getByTestId('file-count').innerText()).resolves.toBe('1 of 1');
@@ -203,7 +221,8 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     await page.getByTestId('batch-state').getByText('Reviewed').waitFor();
   });
 
-  it('offers the CSV and PDF exports', async () => {
+  it('offers the CSV and PDF exports, with the batch name and K in the report', async () => {
+    const bodies: Record<string, Buffer> = {};
     for (const [testId, type] of [
       ['export-readings', 'text/csv'],
       ['export-results', 'text/csv'],
@@ -213,7 +232,15 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
       const res = await page.request.get(`${server.url}${href}`);
       expect(res.status()).toBe(200);
       expect(res.headers()['content-type']).toContain(type);
+      bodies[testId] = await res.body();
     }
+    expect(bodies['export-readings'].toString('utf8')).toMatch(/JOB-5/);
+    expect(bodies['export-results'].toString('utf8')).toMatch(/1:1/);
+    const text = extractPdfText(bodies['export-pdf']).replace(/\s+/g, ' ');
+    expect(text).toContain(BATCH_NAME);
+    // K as the page shows it (4 significant figures) is in the report's text too
+    const shown = (await kValue()).replace(/[^\d.]/g, '');
+    expect(text).toContain(shown);
   });
 
   it('looks right at 1280×800 and 390×844, and passes an axe scan', async () => {
@@ -244,5 +271,22 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
 
     await page.getByTestId('batch-state').getByText('Approved').waitFor({ timeout: 10_000 });
     await page.getByTestId('what-if-locked').waitFor();
+  });
+
+  it('the approval mail arrives in the SMTP stand-in (Outbox)', async () => {
+    const admin = await apiAs(browser, server.url, 'admin@equilight.test');
+    try {
+      let subjects: string[] = [];
+      for (let i = 0; i < 50 && !subjects.some((s) => s.includes(`Batch approved: ${BATCH_NAME}`)); i++) {
+        const outbox = (await admin.call('GET', '/api/outbox?pageSize=100')) as {
+          items: { subject: string }[];
+        };
+        subjects = outbox.items.map((m) => m.subject);
+        await new Promise((r) => setTimeout(r, 200));
+      }
+      expect(subjects).toContain(`Batch approved: ${BATCH_NAME}`);
+    } finally {
+      await admin.ctx.close();
+    }
   });
 });
