@@ -7,6 +7,7 @@ import { parseWatcherConfig } from '../../watcher/src/config';
 import { silentLogger } from '../../watcher/src/logger';
 import { createWatcher, type DropFolderWatcher } from '../../watcher/src/watcher';
 import { launchChromium } from './support/browser';
+import { eventually, expectEventually } from './support/eventually';
 import {
   DEMO_PASSWORD,
   REPO_ROOT,
@@ -184,11 +185,21 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
 
     await page.getByTestId('best-k-value').waitFor({ timeout: 30_000 });
     expect(Number((await kValue()).replace(/[^\d.]/g, ''))).toBeGreaterThan(0);
-    await expect(page.getByTestId('verdict').innerText()).resolves.toMatch(/1:1 fits best/);
-    await expect(page.getByTestId('file-count').innerText()).resolves.toBe('1 of 1');
+    expect(
+      await eventually(
+        () => page.getByTestId('verdict').innerText(),
+        (t) => /1:1 fits best/.test(t),
+      ),
+    ).toMatch(/1:1 fits best/);
+    await expectEventually(() => page.getByTestId('file-count').innerText(), '1 of 1');
     const well = page.locator('[data-position="C20"]');
     await expect(well.evaluate((el) => getComputedStyle(el).backgroundColor)).resolves.toMatch(/^rgb\(/);
-    await expect(well.getAttribute('aria-label')).resolves.toContain('JOB-5');
+    expect(
+      await eventually(
+        () => well.getAttribute('aria-label'),
+        (t) => !!t?.includes('JOB-5'),
+      ),
+    ).toContain('JOB-5');
     await expect(
       page.evaluate(() => (window as unknown as { eqNoReload?: boolean }).eqNoReload),
     ).resolves.toBe(true);
@@ -205,7 +216,10 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
       before.trim(),
     );
     expect(await kValue()).not.toBe(before);
-    await expect(page.locator('[data-position="C20"]').getAttribute('data-marker')).resolves.toBe('excluded');
+    await expectEventually(
+      () => page.locator('[data-position="C20"]').getAttribute('data-marker'),
+      'excluded',
+    );
 
     await page.getByTestId('what-if-save').click();
     await page.getByTestId('reason-input').fill('JOB-5 read with a disturbed meniscus');

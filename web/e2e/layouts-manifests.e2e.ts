@@ -3,6 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { launchChromium } from './support/browser';
+import { eventually, expectEventually } from './support/eventually';
 import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
 
 jest.setTimeout(120_000);
@@ -33,6 +34,9 @@ function manifestCsv(standardB2: string): string {
   return `${[HEADER, ...rows].join('\n')}\n`;
 }
 
+/** Waits until the editor's selection counter reads `text` (the grid answers each key in turn). */
+let selectedCount: (text: string) => Promise<void>;
+
 describe('a lab manager goes from an empty layout to a batch waiting for its files', () => {
   let server: RunningServer;
   let browser: Browser;
@@ -46,6 +50,14 @@ describe('a lab manager goes from an empty layout to a batch waiting for its fil
     tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-manifest-'));
     const context = await browser.newContext({ viewport: { width: 1400, height: 1000 } });
     page = await context.newPage();
+    selectedCount = async (text) => {
+      await page.waitForFunction(
+        (expected) =>
+          document.querySelector('[data-testid="selected-count"]')?.textContent?.trim() === expected,
+        text,
+        { timeout: 10_000 },
+      );
+    };
     await page.goto(`${server.url}/sign-in`);
     await page.getByLabel('E-mail').fill('manager@equilight.test');
     await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
@@ -76,23 +88,24 @@ describe('a lab manager goes from an empty layout to a batch waiting for its fil
 
     // A 384-well plate stays usable: small wells, still reachable by keyboard.
     await page.getByRole('radio', { name: '384-well plate' }).click();
-    await expect(page.locator('[data-testid="layout-grid"] [role="gridcell"]').count()).resolves.toBe(384);
+    await expectEventually(() => page.locator('[data-testid="layout-grid"] [role="gridcell"]').count(), 384);
     await well('A1').focus();
     await page.keyboard.press('Control+End');
-    await expect(page.evaluate(() => document.activeElement?.getAttribute('data-position'))).resolves.toBe(
+    await expectEventually(
+      () => page.evaluate(() => document.activeElement?.getAttribute('data-position')),
       'P24',
     );
     await page.keyboard.press('Space');
-    await expect(page.getByTestId('selected-count').innerText()).resolves.toBe('1 selected');
+    await expectEventually(() => page.getByTestId('selected-count').innerText(), '1 selected');
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'layout-editor-384.png') });
     await page.getByRole('radio', { name: '96-well plate' }).click();
-    await expect(page.locator('[data-testid="layout-grid"] [role="gridcell"]').count()).resolves.toBe(96);
-    await expect(page.getByTestId('selected-count').innerText()).resolves.toBe('0 selected');
+    await expectEventually(() => page.locator('[data-testid="layout-grid"] [role="gridcell"]').count(), 96);
+    await expectEventually(() => page.getByTestId('selected-count').innerText(), '0 selected');
 
     // Blanks: click, then shift-click.
     await well('A1').click();
     await well('A3').click({ modifiers: ['Shift'] });
-    await expect(page.getByTestId('selected-count').innerText()).resolves.toBe('3 selected');
+    await expectEventually(() => page.getByTestId('selected-count').innerText(), '3 selected');
     await page.getByTestId('assign-blank').click();
 
     // Standards: two dragged rectangles, each a replicate group.
@@ -107,17 +120,20 @@ describe('a lab manager goes from an empty layout to a batch waiting for its fil
     // Unknowns: the keyboard.
     await group.fill('');
     await well('D1').focus();
+    // One key at a time, each answered before the next, as a person types.
     await page.keyboard.press('Space');
+    await selectedCount('1 selected');
     await page.keyboard.press('Shift+ArrowRight');
+    await selectedCount('2 selected');
     await page.keyboard.press('Shift+ArrowRight');
-    await expect(page.getByTestId('selected-count').innerText()).resolves.toBe('3 selected');
+    await selectedCount('3 selected');
     await page.getByTestId('assign-unknown').click();
 
-    await expect(well('B2').getAttribute('aria-label')).resolves.toBe('B2, standard, group S1');
-    await expect(well('B5').getAttribute('aria-label')).resolves.toBe('B5, standard, group S2');
-    await expect(well('A2').getAttribute('aria-label')).resolves.toBe('A2, blank');
-    await expect(well('D3').getAttribute('aria-label')).resolves.toBe('D3, unknown');
-    await expect(well('D4').getAttribute('aria-label')).resolves.toBe('D4, empty');
+    await expectEventually(() => well('B2').getAttribute('aria-label'), 'B2, standard, group S1');
+    await expectEventually(() => well('B5').getAttribute('aria-label'), 'B5, standard, group S2');
+    await expectEventually(() => well('A2').getAttribute('aria-label'), 'A2, blank');
+    await expectEventually(() => well('D3').getAttribute('aria-label'), 'D3, unknown');
+    await expectEventually(() => well('D4').getAttribute('aria-label'), 'D4, empty');
 
     await page.getByTestId('save-layout').click();
     await page.waitForURL(/\/layouts\/\d+$/);
@@ -149,7 +165,12 @@ describe('a lab manager goes from an empty layout to a batch waiting for its fil
     await page.getByTestId('check-manifest').click();
     const problems = page.locator('[data-testid="manifest-problems"] [data-testid="problem"]');
     await problems.first().waitFor();
-    await expect(problems.allInnerTexts()).resolves.toHaveLength(1);
+    expect(
+      await eventually(
+        () => problems.count(),
+        (n) => n === 1,
+      ),
+    ).toBe(1);
     const problem = (await problems.first().innerText()).replace(/\s+/g, ' ');
     expect(problem).toContain('Row 6');
     expect(problem).toContain('concentration_M');
@@ -159,10 +180,16 @@ describe('a lab manager goes from an empty layout to a batch waiting for its fil
     await page.getByTestId('check-manifest').click();
     await page.getByText('No problems found').waitFor();
     await page.getByText('No mismatches: every position matches the layout').waitFor();
-    await expect(well('B2', '[data-testid="mapped-grid"]').getAttribute('aria-label')).resolves.toBe(
+    await expectEventually(
+      () => well('B2', '[data-testid="mapped-grid"]').getAttribute('aria-label'),
       'B2, standard, group S1, sample STD-2',
     );
-    await expect(well('D3', '[data-testid="mapped-grid"]').innerText()).resolves.toContain('TEA-3');
+    expect(
+      await eventually(
+        () => well('D3', '[data-testid="mapped-grid"]').innerText(),
+        (t) => t.includes('TEA-3'),
+      ),
+    ).toContain('TEA-3');
 
     await page.getByTestId('save-manifest').click();
     await page.waitForURL(/\/manifests\/\d+$/);

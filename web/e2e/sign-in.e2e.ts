@@ -3,6 +3,7 @@ import path from 'node:path';
 import type { Browser } from 'playwright-core';
 import { navItemsFor } from '../src/app/core/shell/navigation';
 import { launchChromium } from './support/browser';
+import { expectEventually } from './support/eventually';
 import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
 
 jest.setTimeout(90_000);
@@ -60,7 +61,7 @@ describe('signing in through Chromium', () => {
     );
     expect(labels).toEqual(nav);
     await page.goto(`${server.url}/`);
-    await expect(page.getByTestId('role-label').innerText()).resolves.toBe(role);
+    await expectEventually(() => page.getByTestId('role-label').innerText(), role);
     const iconFont = await page.evaluate(async () => {
       await document.fonts.ready;
       return [...document.fonts].some((f) => f.family.includes('Material Symbols') && f.status === 'loaded');

@@ -4,6 +4,7 @@ import {
   ElementRef,
   computed,
   inject,
+  linkedSignal,
   input,
   output,
   signal,
@@ -102,6 +103,11 @@ export class PlateGrid {
   protected readonly focusPoint = signal<GridPoint>({ r: 0, c: 0 });
   private readonly dragPreview = signal<Set<string> | null>(null);
   /** What the grid shows as selected: the owner's selection, or the rectangle being dragged. */
+  /**
+   * The selection the next key or click builds on: what this grid last emitted, until the owner passes a
+   * new selection in. Quick key presses can arrive before the owner has re-rendered with the last one.
+   */
+  private readonly working = linkedSignal<ReadonlySet<string>>(() => this.selected());
   protected readonly shown = computed(() => this.dragPreview() ?? this.selected());
 
   private drag: { start: GridPoint; base: Set<string>; moved: boolean } | null = null;
@@ -126,12 +132,12 @@ export class PlateGrid {
     this.moveFocus({ r, c });
     if (this.readonly()) return;
     if (event.shiftKey && this.anchor) {
-      this.emit(this.union(this.selected(), positionsInRect(this.geometry(), this.anchor, { r, c })));
+      this.emit(this.union(this.working(), positionsInRect(this.geometry(), this.anchor, { r, c })));
       return;
     }
     this.anchor = { r, c };
     this.extendBase = null;
-    this.drag = { start: { r, c }, base: new Set(this.selected()), moved: false };
+    this.drag = { start: { r, c }, base: new Set(this.working()), moved: false };
   }
 
   protected dragOver(r: number, c: number): void {
@@ -180,7 +186,7 @@ export class PlateGrid {
       const next = this.clamp(target);
       const isCell = next.r >= 0 && next.c >= 0 && f.r >= 0 && f.c >= 0;
       if (event.shiftKey && isCell && !this.readonly()) {
-        this.extendBase ??= new Set(this.selected());
+        this.extendBase ??= new Set(this.working());
         this.anchor ??= f;
         this.emit(this.union(this.extendBase, positionsInRect(g, this.anchor, next)));
       } else {
@@ -224,7 +230,7 @@ export class PlateGrid {
 
   /** Adds the positions, or removes them when every one of them is already selected. */
   private toggle(positions: string[]): void {
-    const current = this.selected();
+    const current = this.working();
     const next = new Set(current);
     const allIn = positions.every((p) => current.has(p));
     for (const p of positions) {
@@ -241,6 +247,7 @@ export class PlateGrid {
   }
 
   private emit(selection: Set<string>): void {
+    this.working.set(selection);
     this.selectedChange.emit(selection);
   }
 
