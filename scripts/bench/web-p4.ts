@@ -149,7 +149,12 @@ async function main(): Promise<void> {
     };
     await send('B-1_full.csv', full);
     await page.goto(`${server.url}/batches/${batch.id}`);
+    await page.getByTestId('plate-map').waitFor();
     await page.waitForTimeout(3000);
+    let refetches = 0;
+    page.on('response', (res) => {
+      if (res.url().endsWith(`/api/batches/${batch.id}/analysis`)) refetches++;
+    });
 
     const quiet = await longTasksDuring(page, SECONDS * 1000, async () => undefined);
     let n = 0;
@@ -167,7 +172,7 @@ async function main(): Promise<void> {
     };
     const busy = await longTasksDuring(page, SECONDS * 1000 + 2000, stream);
     console.log(
-      `P4b 384-well batch page, ${n} files stored in ${SECONDS} s (${RATE}/s target), each a live event:`,
+      `P4b 384-well batch page, ${n} files stored in ${SECONDS} s (${RATE}/s target), each a live event; the page refetched its analysis ${refetches} times:`,
     );
     console.log(
       `    long tasks > 50 ms: ${busy.count} (total ${busy.totalMs.toFixed(0)} ms); floor with no events: ${quiet.count} (total ${quiet.totalMs.toFixed(0)} ms)`,

@@ -11,15 +11,16 @@ import { MatTabsModule } from '@angular/material/tabs';
 import { RouterLink } from '@angular/router';
 import type { Exclusion } from '@equilight/analysis';
 import {
-  EMPTY,
-  Subject,
+  auditTime,
   catchError,
   debounceTime,
   distinctUntilChanged,
+  EMPTY,
   filter,
   map,
   merge,
   of,
+  Subject,
   switchMap,
 } from 'rxjs';
 import type { PlateFormat } from '../batches/batch';
@@ -219,7 +220,7 @@ export class BatchDetailPage {
             this.reload$,
             this.live.ofType('batch.updated', 'file.stored').pipe(
               filter((e) => concernsBatch(e, id)),
-              debounceTime(LIVE_REFRESH_DEBOUNCE_MS),
+              auditTime(LIVE_REFRESH_DEBOUNCE_MS),
             ),
           ).pipe(
             switchMap(() =>

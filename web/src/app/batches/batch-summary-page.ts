@@ -4,7 +4,7 @@ import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import { catchError, debounceTime, filter, merge, of, startWith, switchMap } from 'rxjs';
+import { auditTime, catchError, filter, merge, of, startWith, switchMap } from 'rxjs';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { LiveEventsService } from '../core/live/live-events.service';
 import type { Batch } from './batch';
@@ -38,7 +38,7 @@ export class BatchSummaryPage {
             this.live.ofType('batch.updated').pipe(filter((e) => e.data.id === id)),
             this.live.ofType('file.stored').pipe(filter((e) => e.data['batchId'] === id)),
           ).pipe(
-            debounceTime(BATCHES_LIVE_DEBOUNCE_MS),
+            auditTime(BATCHES_LIVE_DEBOUNCE_MS),
             startWith(null),
             switchMap(() =>
               this.batches.get(id).pipe(

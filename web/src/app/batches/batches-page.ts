@@ -10,7 +10,7 @@ import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { RouterLink } from '@angular/router';
-import { EMPTY, Subject, catchError, debounceTime, merge, startWith, switchMap } from 'rxjs';
+import { auditTime, catchError, EMPTY, merge, startWith, Subject, switchMap } from 'rxjs';
 import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { LiveEventsService } from '../core/live/live-events.service';
@@ -108,7 +108,7 @@ export class BatchesPage {
 
     merge(
       this.refresh$,
-      this.live.ofType('batch.updated', 'file.stored').pipe(debounceTime(BATCHES_LIVE_DEBOUNCE_MS)),
+      this.live.ofType('batch.updated', 'file.stored').pipe(auditTime(BATCHES_LIVE_DEBOUNCE_MS)),
     )
       .pipe(
         startWith(undefined),

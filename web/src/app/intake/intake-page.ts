@@ -14,7 +14,7 @@ import { MatSortModule, type Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import {
-  Subject,
+  auditTime,
   catchError,
   combineLatest,
   debounceTime,
@@ -25,6 +25,7 @@ import {
   of,
   skip,
   startWith,
+  Subject,
   switchMap,
   tap,
 } from 'rxjs';
@@ -131,7 +132,7 @@ export class IntakePage {
 
     const liveChange$ = this.live.events$.pipe(
       filter((e) => e.type.startsWith('file.')),
-      debounceTime(LIVE_REFRESH_DEBOUNCE_MS),
+      auditTime(LIVE_REFRESH_DEBOUNCE_MS),
     );
     // Events sent while the socket was down are lost: catch up once it is open again.
     const reconnected$ = toObservable(this.live.connected).pipe(
