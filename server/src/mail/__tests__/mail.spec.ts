@@ -60,6 +60,15 @@ describe('e-mail through the local SMTP stand-in', () => {
     ).toHaveLength(2);
   }, 30_000);
 
+  it('when a completed batch has QC errors then the QC mail names them', async () => {
+    // An R² floor no real calibration reaches makes the calibration check an error.
+    const batch = await createAnalysedBatch(t, { name: 'QC check batch', settings: { r2Min: 0.99999999 } });
+    await batch.ingest(0);
+    const mails = (await delivered(t)).filter((m) => m.subject === 'QC errors in batch QC check batch');
+    expect(mails.map((m) => m.to).sort()).toEqual([DEMO_EMAILS.lab_manager, DEMO_EMAILS.scientist]);
+    expect(mails[0].text).toMatch(/calibration R² .* is below 0\.99999999/);
+  }, 30_000);
+
   it('when a batch is approved then the approval mail with comment and approver reaches those who want it', async () => {
     const scientist = await t.agent('scientist');
     const manager = await t.agent('lab_manager');

@@ -27,7 +27,7 @@ let counter = 0;
  */
 export async function createAnalysedBatch(
   t: TestApp,
-  options: { name?: string; expectedFiles?: number } = {},
+  options: { name?: string; expectedFiles?: number; settings?: Record<string, unknown> } = {},
 ): Promise<AnalysedBatch> {
   const seq = ++counter;
   const admin = await t.agent('admin');
@@ -76,6 +76,7 @@ export async function createAnalysedBatch(
     expectedFiles: options.expectedFiles ?? 1,
     temperatureC: 25,
     systemName: 'Ferric thiocyanate (invented demo)',
+    ...(options.settings ? { settings: options.settings } : {}),
   });
   if (batch.status !== 201) throw new Error(`batch: ${batch.status} ${JSON.stringify(batch.body)}`);
   return {
