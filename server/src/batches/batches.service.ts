@@ -20,6 +20,15 @@ import { User } from '../users/user.entity';
 import { Batch, type BatchState } from './batch.entity';
 import { type BatchSettings, type CreateBatchInput, batchSettingsSchema } from './batches.schema';
 
+/** The headline of a batch's analysis, for lists: QC flags, the best stoichiometry and its K. */
+export interface BatchResultSummary {
+  qcFlagCount: number;
+  qcErrorCount: number;
+  best: string | null;
+  k: number | null;
+  kCi95: [number, number] | null;
+}
+
 export interface BatchDto {
   id: number;
   name: string;
@@ -46,6 +55,8 @@ export interface BatchDto {
   approvedBy: string | null;
   approvedAt: string | null;
   approvalComment: string | null;
+  /** Null until a file has arrived. */
+  summary: BatchResultSummary | null;
 }
 
 /** Everything the analysis needs, so the browser can recompute what-if edits with the same module. */
@@ -64,6 +75,18 @@ export interface BatchAnalysisDto {
   }[];
   settings: AnalysisSettings;
   result: BatchResult;
+}
+
+/** The headline of an analysis result. */
+export function summarize(result: BatchResult): BatchResultSummary {
+  const best = result.stoichiometry?.candidates.find((c) => c.model === result.stoichiometry?.best) ?? null;
+  return {
+    qcFlagCount: result.qc.filter((f) => f.severity !== 'info').length,
+    qcErrorCount: result.qc.filter((f) => f.severity === 'error').length,
+    best: result.stoichiometry?.best ?? null,
+    k: best?.fit?.k ?? null,
+    kCi95: best?.fit?.kCi95 ?? null,
+  };
 }
 
 /** Batch settings as the analysis module takes them. */
@@ -90,6 +113,8 @@ export function toAnalysisSettings(
 /** Batches: creation, files attached by run id, settings, review and approval — all audited. */
 export class BatchesService {
   private readonly batches: Repository<Batch>;
+  /** Summaries by batch, valid while the batch row and its files are unchanged. */
+  private readonly summaries = new Map<number, { key: string; summary: BatchResultSummary }>();
 
   constructor(
     private readonly dataSource: DataSource,
@@ -331,7 +356,7 @@ export class BatchesService {
     return this.toDto(await this.getBatch(id));
   }
 
-  private async toDto(b: Batch): Promise<BatchDto> {
+  private async toDto(b: Batch, withSummary = true): Promise<BatchDto> {
     const m = this.dataSource.manager;
     const [profile, layout, manifest, files, reviewer, approver] = await Promise.all([
       m.findOneBy(InstrumentProfile, { id: b.profileId }),
@@ -376,12 +401,29 @@ export class BatchesService {
       approvedBy: approver?.displayName ?? null,
       approvedAt: b.approvedAt,
       approvalComment: b.approvalComment,
+      summary:
+        withSummary && files.length
+          ? await this.summary(b.id, `${updatedAt}|${files.length}|${lastFile}`)
+          : null,
     };
+  }
+
+  /** The analysis headline, computed once per change of the batch or its files. */
+  private async summary(id: number, key: string): Promise<BatchResultSummary | null> {
+    const cached = this.summaries.get(id);
+    if (cached?.key === key) return cached.summary;
+    try {
+      const summary = summarize((await this.analysis(id)).result);
+      this.summaries.set(id, { key, summary });
+      return summary;
+    } catch {
+      return null;
+    }
   }
 
   /** The batch's inputs and its analysis, computed with the shared module. */
   async analysis(id: number, overrides: Partial<AnalysisSettings> = {}): Promise<BatchAnalysisDto> {
-    const batch = await this.get(id);
+    const batch = await this.toDto(await this.getBatch(id), false);
     const files = await this.dataSource.manager.find(IntakeFile, {
       where: { batchId: id, status: 'stored' },
       order: { id: 'ASC' },
@@ -406,6 +448,7 @@ export class BatchesService {
     const layout = await this.layouts.get(batch.layoutId, batch.layoutVersion);
     const settings = toAnalysisSettings(batch.settings, overrides);
     const result = analyzeBatch(readings, manifest.samples, settings);
+    if (files.length && Object.keys(overrides).length === 0) batch.summary = summarize(result);
     return {
       batch,
       readings,

@@ -495,6 +495,20 @@ describe('layouts, manifests and batches', () => {
       expect(analysis.body.readings.length).toBe(rows.length);
       expect(analysis.body.result.calibration.slope).toBeGreaterThan(0);
       expect(analysis.body.result.stoichiometry.best).toBe('1:1');
+      const listed = (await (await t.agent('scientist')).get('/api/batches')).body.find(
+        (b: { id: number }) => b.id === batch.body.id,
+      );
+      const best = analysis.body.result.stoichiometry.candidates.find(
+        (c: { model: string }) => c.model === '1:1',
+      );
+      expect(listed.summary).toEqual({
+        qcFlagCount: analysis.body.result.qc.filter((f: { severity: string }) => f.severity !== 'info')
+          .length,
+        qcErrorCount: 0,
+        best: '1:1',
+        k: best.fit.k,
+        kCi95: best.fit.kCi95,
+      });
     });
   });
 });

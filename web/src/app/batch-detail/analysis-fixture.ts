@@ -118,6 +118,7 @@ export function fixtureBatch(changes: Partial<Batch> = {}): Batch {
     approvedBy: null,
     approvedAt: null,
     approvalComment: null,
+    summary: null,
     ...changes,
   };
 }

@@ -40,6 +40,7 @@ export function batchFixture(overrides: Partial<Batch> = {}): Batch {
     approvedBy: null,
     approvedAt: null,
     approvalComment: null,
+    summary: null,
     ...overrides,
   };
 }

@@ -45,6 +45,16 @@ export interface Batch {
   approvedBy: string | null;
   approvedAt: string | null;
   approvalComment: string | null;
+  /** The analysis headline; null until a file has arrived. */
+  summary: BatchResultSummary | null;
+}
+
+export interface BatchResultSummary {
+  qcFlagCount: number;
+  qcErrorCount: number;
+  best: string | null;
+  k: number | null;
+  kCi95: [number, number] | null;
 }
 
 /** POST /api/batches. Settings left out take the instrument's or the product's defaults. */

@@ -77,6 +77,26 @@ describe('BatchesPage', () => {
     expect(el.querySelectorAll('tr.mat-mdc-row eq-batch-state-label mat-icon')).toHaveLength(3);
   });
 
+  it('shows the QC flag count and the best fit once a batch has results', async () => {
+    const { fixture, http, live, el } = await setup();
+    live.events.next({ type: 'batch.updated', data: { id: 1, state: 'open' }, at: new Date().toISOString() });
+    await new Promise((r) => setTimeout(r, BATCHES_LIVE_DEBOUNCE_MS + 50));
+    http
+      .expectOne('/api/batches')
+      .flush([
+        batchFixture({
+          summary: { qcFlagCount: 2, qcErrorCount: 1, best: '1:1', k: 839.04, kCi95: [800, 880] },
+        }),
+        batchFixture({ id: 2, name: 'Empty run', summary: null }),
+      ]);
+    await fixture.whenStable();
+    const qc = [...el.querySelectorAll('[data-testid="batch-qc"]')].map((c) => c.textContent?.trim());
+    const best = [...el.querySelectorAll('[data-testid="batch-best"]')].map((c) => c.textContent?.trim());
+    expect(qc).toContain('error 2 (1 error)');
+    expect(best).toContain('1:1: K = 839.0 L·mol⁻¹');
+    expect(best).toContain('—');
+  });
+
   it('filters on name, state and run id', async () => {
     const { fixture, el } = await setup();
     const input = el.querySelector<HTMLInputElement>('input[matInput]')!;
