@@ -81,14 +81,12 @@ describe('BatchesPage', () => {
     const { fixture, http, live, el } = await setup();
     live.events.next({ type: 'batch.updated', data: { id: 1, state: 'open' }, at: new Date().toISOString() });
     await new Promise((r) => setTimeout(r, BATCHES_LIVE_DEBOUNCE_MS + 50));
-    http
-      .expectOne('/api/batches')
-      .flush([
-        batchFixture({
-          summary: { qcFlagCount: 2, qcErrorCount: 1, best: '1:1', k: 839.04, kCi95: [800, 880] },
-        }),
-        batchFixture({ id: 2, name: 'Empty run', summary: null }),
-      ]);
+    http.expectOne('/api/batches').flush([
+      batchFixture({
+        summary: { qcFlagCount: 2, qcErrorCount: 1, best: '1:1', k: 839.04, kCi95: [800, 880] },
+      }),
+      batchFixture({ id: 2, name: 'Empty run', summary: null }),
+    ]);
     await fixture.whenStable();
     const qc = [...el.querySelectorAll('[data-testid="batch-qc"]')].map((c) => c.textContent?.trim());
     const best = [...el.querySelectorAll('[data-testid="batch-best"]')].map((c) => c.textContent?.trim());
