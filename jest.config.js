@@ -8,9 +8,6 @@ const esmPackages = [
   'eventemitter3',
   'chokidar',
   'readdirp',
-  'ml-levenberg-marquardt',
-  'is-any-array',
-  'ml-matrix',
 ];
 const transformIgnorePatterns = [`node_modules/(?!(${esmPackages.join('|')})/)`];
 const nodeTransform = {
