@@ -26,6 +26,7 @@ export interface BatchResultSummary {
   qcErrorCount: number;
   best: string | null;
   k: number | null;
+  kSe: number | null;
   kCi95: [number, number] | null;
 }
 
@@ -85,6 +86,7 @@ export function summarize(result: BatchResult): BatchResultSummary {
     qcErrorCount: result.qc.filter((f) => f.severity === 'error').length,
     best: result.stoichiometry?.best ?? null,
     k: best?.fit?.k ?? null,
+    kSe: best?.fit?.kSe ?? null,
     kCi95: best?.fit?.kCi95 ?? null,
   };
 }

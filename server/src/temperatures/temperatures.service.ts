@@ -33,19 +33,18 @@ export class TemperaturesService {
     const out: SystemTemperatures[] = [];
     for (const systemName of names) {
       const points: TemperaturePoint[] = [];
+      // The list already carries each batch's analysis headline (cached per change): no second analysis here.
       for (const batch of all.filter((b) => b.systemName === systemName)) {
-        const { result } = await this.batches.analysis(batch.id);
-        const best =
-          result.stoichiometry?.candidates.find((c) => c.model === result.stoichiometry?.best) ?? null;
+        const summary = batch.summary;
         points.push({
           batchId: batch.id,
           batchName: batch.name,
           state: batch.state,
           temperatureC: batch.temperatureC as number,
-          model: best?.model ?? null,
-          k: best?.fit?.k ?? null,
-          kSe: best?.fit?.kSe ?? null,
-          kCi95: best?.fit?.kCi95 ?? null,
+          model: summary?.best ?? null,
+          k: summary?.k ?? null,
+          kSe: summary?.kSe ?? null,
+          kCi95: summary?.kCi95 ?? null,
           excludedBecause: null,
         });
       }

@@ -507,6 +507,7 @@ describe('layouts, manifests and batches', () => {
         qcErrorCount: 0,
         best: '1:1',
         k: best.fit.k,
+        kSe: best.fit.kSe,
         kCi95: best.fit.kCi95,
       });
     });

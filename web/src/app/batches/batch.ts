@@ -54,6 +54,7 @@ export interface BatchResultSummary {
   qcErrorCount: number;
   best: string | null;
   k: number | null;
+  kSe: number | null;
   kCi95: [number, number] | null;
 }
 

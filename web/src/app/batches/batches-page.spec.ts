@@ -83,7 +83,7 @@ describe('BatchesPage', () => {
     await new Promise((r) => setTimeout(r, BATCHES_LIVE_DEBOUNCE_MS + 50));
     http.expectOne('/api/batches').flush([
       batchFixture({
-        summary: { qcFlagCount: 2, qcErrorCount: 1, best: '1:1', k: 839.04, kCi95: [800, 880] },
+        summary: { qcFlagCount: 2, qcErrorCount: 1, best: '1:1', k: 839.04, kSe: 20, kCi95: [800, 880] },
       }),
       batchFixture({ id: 2, name: 'Empty run', summary: null }),
     ]);
