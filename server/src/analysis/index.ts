@@ -32,3 +32,4 @@ export * from './vant-hoff';
 export * from './planner';
 export * from './replicates';
 export * from './blank';
+export * from './number-format';
