@@ -12,9 +12,11 @@ import { JobResult } from './job';
 import { KMonteCarlo } from './monte-carlo';
 import { Exclusion, ResolvedAnalysisSettings } from './options';
 import { KPropagation } from './uncertainty-propagation';
+import { MoleRatioResult } from './mole-ratio';
+import { KStatement } from './number-format';
 import { SampleRole } from './types';
 
-export const BATCH_RESULT_SCHEMA_VERSION = 1;
+export const BATCH_RESULT_SCHEMA_VERSION = 2;
 
 /** What happened to one position. */
 export type PositionStatus = 'used' | 'excluded' | 'saturated' | 'missing' | 'no-sample' | 'no-reading';
@@ -34,7 +36,13 @@ export type QcCode =
   | 'candidate-impossible'
   | 'k-not-constant'
   | 'fit-not-converged'
-  | 'stoichiometry-ambiguous';
+  | 'stoichiometry-ambiguous'
+  | 'calibration-curvature'
+  | 'k-poorly-determined'
+  | 'k-lower-bound'
+  | 'k-fits-disagree'
+  | 'job-disagrees'
+  | 'mole-ratio-disagrees';
 
 /** One QC finding, for a person to review. */
 export interface QcFlag {
@@ -122,13 +130,20 @@ export interface CandidateResult {
   model: string;
   a: number;
   b: number;
+  /** Unit of K, e.g. "L²·mol⁻²". */
+  kUnit: string;
   /** Per-mixture K over feasible mixtures, M^(1−a−b); CV a fraction. Null without ε or mixtures. */
   kMean: number | null;
   kSd: number | null;
   kCv: number | null;
   nFeasible: number;
   nInfeasible: number;
+  /** The global fit the batch's settings describe (ε fixed when the batch has an ε source). */
   fit: GlobalFitResult | null;
+  /** With ε fixed: the fit with ε free as well, as a cross-check (null when ε is fitted anyway). */
+  freeFit: GlobalFitResult | null;
+  /** This candidate's own fit notes. */
+  warnings: string[];
   rank: number;
   deltaAic: number | null;
   akaikeWeight: number | null;
@@ -160,6 +175,36 @@ export interface JobBatchResult extends JobResult {
   totalConcentrationM: number;
 }
 
+/** Mole-ratio analysis of mixtures with one reactant fixed and the other rising. */
+export interface MoleRatioBatchResult extends MoleRatioResult {
+  sampleIds: string[];
+  /** The reactant held constant and its concentration, mol/L. */
+  fixed: 'A' | 'B';
+  fixedConcentrationM: number;
+}
+
+/** Where the ε of the complex came from, and what it was. */
+export interface EpsilonSource {
+  kind: 'standards' | 'given' | 'none';
+  epsilonLPerMolCm: number | null;
+  epsilonSe: number | null;
+  /** Absorbance subtracted before A/(ε·l): the calibration intercept (standards), else 0. */
+  interceptAbsorbance: number;
+  /** Standard error of that intercept and its covariance with ε (from the calibration), else 0. */
+  interceptSe: number;
+  epsilonInterceptCov: number;
+  /** Plain-language account, e.g. "ε from this batch's standards (calibration line, intercept subtracted as for the unknowns)". */
+  note: string;
+}
+
+/** The batch's one K: the best candidate's, as every screen, report, mail and the CLI state it. */
+export interface KHeadline extends KStatement {
+  kUnit: string;
+  epsilonFixed: boolean;
+  /** formatK(...) of this headline. */
+  text: string;
+}
+
 export interface BenesiHildebrandBatchResult {
   applicable: boolean;
   /** Why it was (not) applied. */
@@ -189,7 +234,13 @@ export interface BatchResult {
   stoichiometry: StoichiometryResult | null;
   uncertainty: UncertaintyResult | null;
   job: JobBatchResult | null;
+  moleRatio: MoleRatioBatchResult | null;
   benesiHildebrand: BenesiHildebrandBatchResult | null;
+  epsilonSource: EpsilonSource;
+  /** The best candidate's K; null without mixtures or a best candidate. */
+  headline: KHeadline | null;
+  /** Said once wherever K is shown (see K_CONCENTRATION_CONSTANT_NOTE). */
+  kNote: string;
   qc: QcFlag[];
   /** Plain-language notes for a person (skipped readings, unassigned positions, fits that failed…). */
   warnings: string[];

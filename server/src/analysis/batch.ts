@@ -14,6 +14,12 @@ import { replicateStats } from './replicates';
 import { parseStoichiometry, Stoichiometry } from './stoichiometry-model';
 import { rankStoichiometries } from './stoichiometry-ranking';
 import { propagateKUncertainty } from './uncertainty-propagation';
+import { epsilonSourceOf } from './epsilon-source';
+import { kHeadline } from './k-headline';
+import { findMoleRatioSeries } from './mole-ratio-series';
+import { moleRatioAnalysis } from './mole-ratio';
+import { EPSILON_UNIT, formatK, formatNumber, K_CONCENTRATION_CONSTANT_NOTE, kUnit } from './number-format';
+import { crossCheckNotes, intervalsOverlap, stoichiometryCrossChecks } from './stoichiometry-cross-checks';
 import { Reading, SampleDefinition } from './types';
 import {
   BATCH_RESULT_SCHEMA_VERSION,
@@ -22,6 +28,7 @@ import {
   CandidateResult,
   JobBatchResult,
   MixtureResult,
+  MoleRatioBatchResult,
   PositionResult,
   QcCode,
   QcFlag,
@@ -349,6 +356,20 @@ export function analyzeBatch(
         threshold: s.r2Min,
       });
     }
+    if (calibration.linearity?.curved) {
+      flag(
+        'calibration-curvature',
+        'warning',
+        `the calibration curves: Mandel's test (ISO 8466-1) PW ${calibration.linearity.testValue.toFixed(1)} > F ${calibration.linearity.criticalValue.toFixed(1)}; narrow the range or check the highest standards`,
+        { value: calibration.linearity.testValue, threshold: calibration.linearity.criticalValue },
+      );
+    }
+    if (calibration.lodExtrapolated || calibration.loqExtrapolated) {
+      warnings.push(
+        `${calibration.lodExtrapolated ? 'LOD' : ''}${calibration.lodExtrapolated && calibration.loqExtrapolated ? ' and ' : ''}${calibration.loqExtrapolated ? 'LOQ' : ''} ` +
+          `lie below the lowest standard: extrapolated, not measured`,
+      );
+    }
     for (const pt of calibration.points) {
       if (pt.outlier) {
         flag(
@@ -418,13 +439,11 @@ export function analyzeBatch(
 
   // Mixtures: initial concentrations, product and ICE tables.
   const candidates: Stoichiometry[] = s.candidates.map(parseStoichiometry);
-  const epsilon = s.epsilonLPerMolCm ?? calibration?.epsilonLPerMolCm ?? null;
+  const epsilonSource = epsilonSourceOf(s, calibration);
+  const epsilon = epsilonSource.epsilonLPerMolCm;
+  const intercept = epsilonSource.interceptAbsorbance;
   const mixtureGroups = groupList.filter((g) => g.sample.role === 'mixture');
-  if (mixtureGroups.length > 0 && epsilon === null) {
-    warnings.push(
-      'no ε (no calibration and none in the settings): per-mixture K is not computed; global fits still run',
-    );
-  }
+  if (mixtureGroups.length > 0 && epsilon === null) warnings.push(epsilonSource.note);
   const mixtures: MixtureResult[] = [];
   const measurements: MixtureMeasurement[] = [];
   for (const g of mixtureGroups) {
@@ -444,7 +463,8 @@ export function analyzeBatch(
       continue;
     }
     const { mean, n } = groupMean.get(g.key) as { mean: number | null; n: number };
-    const productM = epsilon !== null && mean !== null ? mean / (epsilon * s.pathLengthCm) : null;
+    const productM =
+      epsilon !== null && mean !== null ? (mean - intercept) / (epsilon * s.pathLengthCm) : null;
     const flags: QcCode[] = [];
     const stats =
       productM !== null
@@ -470,7 +490,7 @@ export function analyzeBatch(
       measurements.push({
         ...recipe,
         totalVolumeMl: init.totalVolumeMl,
-        absorbance: mean,
+        absorbance: mean - intercept,
         pathLengthCm: s.pathLengthCm,
         replicates: n,
       });
@@ -486,9 +506,16 @@ export function analyzeBatch(
     const points = usableMixtures.map((m) => ({
       a0M: m.a0M,
       b0M: m.b0M,
-      absorbance: m.absorbance as number,
+      absorbance: (m.absorbance as number) - intercept,
       pathLengthCm: s.pathLengthCm,
     }));
+    const fitOptions = {
+      fitBaseline: s.fitBaseline,
+      maxIterations: s.fit.maxIterations,
+      parameterTolerance: s.fit.parameterTolerance,
+      solverTolerance: s.solver.tolerance,
+      solverMaxIterations: s.solver.maxIterations,
+    };
     const evidence = candidates.map((c) => {
       const kStats: KStatistics | null =
         epsilon !== null
@@ -497,15 +524,22 @@ export function analyzeBatch(
               c,
             )
           : null;
-      const fit = fitEquilibriumModel(points, c, {
-        fitBaseline: s.fitBaseline,
-        maxIterations: s.fit.maxIterations,
-        parameterTolerance: s.fit.parameterTolerance,
-        solverTolerance: s.solver.tolerance,
-        solverMaxIterations: s.solver.maxIterations,
-      });
+      // The headline fit follows the batch's ε source; with ε held, the free-ε fit is the cross-check.
+      const freeFit = fitEquilibriumModel(points, c, fitOptions);
+      const fit =
+        epsilon !== null
+          ? fitEquilibriumModel(points, c, {
+              ...fitOptions,
+              fixedEpsilon: {
+                value: epsilon,
+                se: epsilonSource.epsilonSe ?? 0,
+                interceptSe: epsilonSource.interceptSe,
+                covariance: epsilonSource.epsilonInterceptCov,
+              },
+            })
+          : freeFit;
       fits.set(c.label, fit);
-      return { model: c.label, kStats, fit };
+      return { model: c.label, kStats, fit, freeFit: fit === freeFit ? null : freeFit };
     });
     const ranking = rankStoichiometries(evidence, {
       ambiguityDeltaAic: s.ambiguityDeltaAic,
@@ -520,12 +554,15 @@ export function analyzeBatch(
         model: r.model,
         a: c.a,
         b: c.b,
+        kUnit: kUnit(c.a, c.b),
         kMean: e.kStats?.kMean ?? null,
         kSd: e.kStats?.kSd ?? null,
         kCv: e.kStats?.kCv ?? null,
         nFeasible: e.kStats?.nFeasible ?? 0,
         nInfeasible: e.kStats?.nInfeasible ?? 0,
         fit: e.fit,
+        freeFit: e.freeFit,
+        warnings: [...e.fit.warnings, ...(e.freeFit ? crossCheckNotes(e.fit, e.freeFit) : [])],
         rank: r.rank,
         deltaAic: r.deltaAic,
         akaikeWeight: r.akaikeWeight,
@@ -560,14 +597,35 @@ export function analyzeBatch(
           `${c.model}: global fit did not converge (${c.fit.message})`,
         );
       }
-      for (const w of c.fit?.warnings ?? []) if (c.rank === 1) warnings.push(w);
+      if (c.rank === 1) warnings.push(...c.warnings);
+    }
+    const top = ranked[0];
+    if (top?.fit?.status === 'lower-bound') {
+      flag(
+        'k-lower-bound',
+        'info',
+        `${top.model}: K is too large to determine from these concentrations (${formatK(top.fit)}); to measure K, redesign the mixtures (the Planner shows which concentrations would)`,
+        { value: top.fit.kLowerBound95 },
+      );
+    } else if (top?.fit?.status === 'poorly-determined') {
+      flag('k-poorly-determined', 'warning', `${top.model}: K is poorly determined: ${formatK(top.fit)}`);
+    }
+    if (top?.fit && top.freeFit && !intervalsOverlap(top.fit, top.freeFit)) {
+      flag(
+        'k-fits-disagree',
+        'warning',
+        `${top.model}: K with ε held at the batch's value (${formatK(top.fit)}) and K with ε fitted (${formatK(top.freeFit)}, ε ${formatNumber(top.freeFit.epsilonLPerMolCm)} ${EPSILON_UNIT}) disagree beyond their intervals; check the ε source`,
+      );
     }
     const cvs = ranked.map((c) => c.kCv).filter((v): v is number => v !== null);
     if (cvs.length > 0 && cvs.every((v) => v > s.kCvMax)) {
+      // Near complete binding per-mixture K rests on tiny free concentrations: its scatter is expected.
+      const expected = top?.fit?.status === 'lower-bound';
       flag(
         'k-not-constant',
-        'error',
-        `K is not constant under any candidate (smallest CV ${(Math.min(...cvs) * 100).toFixed(1)} %)`,
+        expected ? 'info' : 'error',
+        `K is not constant under any candidate (smallest CV ${(Math.min(...cvs) * 100).toFixed(1)} %)` +
+          (expected ? '; expected when binding is nearly complete, the global fit decides' : ''),
         {
           value: Math.min(...cvs),
           threshold: s.kCvMax,
@@ -585,7 +643,7 @@ export function analyzeBatch(
   if (
     bestLabel &&
     bestFit &&
-    bestFit.converged &&
+    bestFit.status === 'determined' &&
     bestFit.k !== null &&
     measurements.length === usableMixtures.length
   ) {
@@ -616,6 +674,30 @@ export function analyzeBatch(
       sampleIds: members.map((m) => m.sampleId),
       totalConcentrationM: members.reduce((sum, m) => sum + m.a0M + m.b0M, 0) / members.length,
     };
+  }
+  let moleRatio: MoleRatioBatchResult | null = null;
+  const series = findMoleRatioSeries(usableMixtures, s.moleRatio.relativeTolerance, s.moleRatio.minPoints);
+  if (series.indices.length > 0) {
+    const members = series.indices.map((i) => usableMixtures[i]);
+    const varied = series.fixed === 'A' ? 'B' : 'A';
+    const r = moleRatioAnalysis(
+      members.map((m) => ({
+        ratio: varied === 'B' ? m.b0M / m.a0M : m.a0M / m.b0M,
+        absorbance: m.absorbance as number,
+      })),
+      varied,
+      candidates,
+    );
+    moleRatio = {
+      ...r,
+      sampleIds: members.map((m) => m.sampleId),
+      fixed: series.fixed,
+      fixedConcentrationM:
+        members.reduce((sum, m) => sum + (series.fixed === 'A' ? m.a0M : m.b0M), 0) / members.length,
+    };
+  }
+  for (const check of stoichiometryCrossChecks(stoichiometry?.best ?? null, job, moleRatio)) {
+    flag(check.code, check.severity, check.message, { value: check.value });
   }
   let bh: BenesiHildebrandBatchResult | null = null;
   if (usableMixtures.length > 0) {
@@ -676,7 +758,11 @@ export function analyzeBatch(
     stoichiometry,
     uncertainty,
     job,
+    moleRatio,
     benesiHildebrand: bh,
+    epsilonSource,
+    headline: kHeadline(stoichiometry?.candidates.find((c) => c.model === stoichiometry?.best)),
+    kNote: K_CONCENTRATION_CONSTANT_NOTE,
     qc,
     warnings,
   };

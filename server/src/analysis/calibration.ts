@@ -1,6 +1,7 @@
 import { detectionLimits } from './detection-limits';
 import { AnalysisError } from './errors';
 import { fitLinear, LinearFit } from './linear-regression';
+import { mandelTest, MandelTestResult } from './mandel-test';
 
 /** One standard as given to {@link calibrate}. */
 export interface CalibrationStandard {
@@ -58,6 +59,13 @@ export interface CalibrationResult {
   /** ICH Q2 limits, mol/L. */
   lodM: number;
   loqM: number;
+  /** Lowest non-zero standard concentration, mol/L (null when every standard is zero). */
+  lowestStandardM: number | null;
+  /** The LOD / LOQ lies below the lowest non-zero standard: extrapolated, not measured. */
+  lodExtrapolated: boolean;
+  loqExtrapolated: boolean;
+  /** Mandel's fitting test (ISO 8466-1), quadratic vs straight line; null with fewer than 5 standards. */
+  linearity: MandelTestResult | null;
   /** Mean concentration (mol/L) and absorbance of the standards, and Σ(x−x̄)² (Σx² through the origin). */
   concentrationMeanM: number;
   absorbanceMean: number;
@@ -69,7 +77,9 @@ export interface CalibrationResult {
  * Beer–Lambert calibration by ordinary least squares: A = S·c + b (or A = S·c), ε = S/l,
  * LOD = 3.3·s_y/x/S, LOQ = 10·s_y/x/S, and a linear-range check per standard: absorbance above a
  * ceiling, or an externally studentised residual t_i = r_i·√((df−1)/(df−r_i²)) beyond a limit, with
- * r_i = e_i/(s·√(1−h_i)), h_i = 1/n + (c_i−c̄)²/Sxx (through the origin h_i = c_i²/Σc²).
+ * r_i = e_i/(s·√(1−h_i)), h_i = 1/n + (c_i−c̄)²/Sxx (through the origin h_i = c_i²/Σc²). Linearity is
+ * judged beside R² by Mandel's fitting test (ISO 8466-1); an LOD or LOQ below the lowest non-zero
+ * standard is labelled extrapolated.
  *
  * Units: concentrations mol/L, absorbance dimensionless, path length cm, ε L·mol⁻¹·cm⁻¹.
  * Reference: Beer–Lambert law; ICH Q2(R1) for LOD/LOQ; Draper & Smith, Applied Regression Analysis,
@@ -94,6 +104,8 @@ export function calibrate(
   const y = standards.map((s) => s.absorbance);
   const fit: LinearFit = fitLinear(x, y, options.throughOrigin ?? false);
   const limits = detectionLimits(fit.residualSd, fit.slope);
+  const nonZero = x.filter((c) => c > 0);
+  const lowestStandardM = nonZero.length ? Math.min(...nonZero) : null;
   const points = standards.map((s, i): CalibrationPoint => {
     const leverage =
       fit.model === 'linear' ? 1 / fit.n + (x[i] - fit.xMean) ** 2 / fit.sxx : x[i] ** 2 / fit.sxx;
@@ -131,6 +143,10 @@ export function calibrate(
     pathLengthCm,
     lodM: limits.lod,
     loqM: limits.loq,
+    lowestStandardM,
+    lodExtrapolated: lowestStandardM !== null && limits.lod < lowestStandardM,
+    loqExtrapolated: lowestStandardM !== null && limits.loq < lowestStandardM,
+    linearity: mandelTest(x, y),
     concentrationMeanM: fit.xMean,
     absorbanceMean: fit.yMean,
     sxx: fit.sxx,

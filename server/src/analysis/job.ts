@@ -1,4 +1,4 @@
-import { fitLinear, LinearFit } from './linear-regression';
+import { branchOf, fitTwoLines, JobBranch } from './two-line-break';
 
 /** One point of a Job's plot. */
 export interface JobPoint {
@@ -8,13 +8,7 @@ export interface JobPoint {
   absorbance: number;
 }
 
-/** A straight branch of the Job's plot. */
-export interface JobBranch {
-  n: number;
-  slope: number;
-  intercept: number;
-  r2: number;
-}
+export type { JobBranch } from './two-line-break';
 
 /** Result of a Job's analysis. */
 export interface JobResult {
@@ -27,39 +21,11 @@ export interface JobResult {
   nearestModel: string | null;
   /** Absorbance at the intersection. */
   absorbanceAtMax: number | null;
+  /** Measured absorbance nearest the maximum ÷ the lines' intersection (1 = a sharp corner); null without one. */
+  sharpness: number | null;
   left: JobBranch | null;
   right: JobBranch | null;
   message: string;
-}
-
-const branch = (f: LinearFit): JobBranch => ({ n: f.n, slope: f.slope, intercept: f.intercept, r2: f.r2 });
-
-function lineThrough(xs: readonly number[], ys: readonly number[]): { fit: LinearFit | null; rss: number } {
-  if (xs.length === 2) {
-    const slope = (ys[1] - ys[0]) / (xs[1] - xs[0]);
-    const intercept = ys[0] - slope * xs[0];
-    return {
-      fit: {
-        model: 'linear',
-        n: 2,
-        df: 0,
-        slope,
-        intercept,
-        slopeSe: NaN,
-        interceptSe: null,
-        residualSd: NaN,
-        rss: 0,
-        r2: 1,
-        residuals: [0, 0],
-        xMean: (xs[0] + xs[1]) / 2,
-        yMean: (ys[0] + ys[1]) / 2,
-        sxx: 0,
-      },
-      rss: 0,
-    };
-  }
-  const fit = fitLinear(xs, ys);
-  return { fit, rss: fit.rss };
 }
 
 /**
@@ -97,6 +63,7 @@ export function jobAnalysis(
     impliedRatioBToA: null,
     nearestModel: null,
     absorbanceAtMax: null,
+    sharpness: null,
     left: null,
     right: null,
     message,
@@ -104,19 +71,7 @@ export function jobAnalysis(
   if (n < 4) return none("a Job's analysis needs at least 4 mixtures of different mole fraction");
   const xs = pts.map((p) => p.moleFractionB);
   const ys = pts.map((p) => p.absorbance);
-  let best: { rss: number; x: number; y: number; left: LinearFit; right: LinearFit } | null = null;
-  for (let k = 2; k <= n - 2; k++) {
-    if (xs[k - 1] === xs[k]) continue;
-    const l = lineThrough(xs.slice(0, k), ys.slice(0, k));
-    const r = lineThrough(xs.slice(k), ys.slice(k));
-    if (!l.fit || !r.fit || !(l.fit.slope > 0) || !(r.fit.slope < 0)) continue;
-    const x = (r.fit.intercept - l.fit.intercept) / (l.fit.slope - r.fit.slope);
-    // The two lines must meet between the last rising and the first falling point.
-    if (!(x >= xs[k - 1] - 1e-12 && x <= xs[k] + 1e-12)) continue;
-    const rss = l.rss + r.rss;
-    if (!best || rss < best.rss)
-      best = { rss, x, y: l.fit.intercept + l.fit.slope * x, left: l.fit, right: r.fit };
-  }
+  const best = fitTwoLines(xs, ys, (left, right) => left.slope > 0 && right.slope < 0);
   if (!best) return none('no rising and falling branches meet: the series shows no maximum');
   const x = best.x;
   let nearest: string | null = null;
@@ -134,8 +89,9 @@ export function jobAnalysis(
     impliedRatioBToA: x < 1 ? x / (1 - x) : null,
     nearestModel: nearest,
     absorbanceAtMax: best.y,
-    left: branch(best.left),
-    right: branch(best.right),
+    sharpness: best.sharpness,
+    left: branchOf(best.left),
+    right: branchOf(best.right),
     message: `the branches meet at a mole fraction of B of ${x.toFixed(3)}`,
   };
 }

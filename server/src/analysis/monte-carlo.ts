@@ -80,14 +80,21 @@ export function monteCarloK(
         pathLengthCm: m.pathLengthCm,
       };
     });
+    // A held ε is one more input, drawn once per refit from its own uncertainty.
+    const heldEpsilon = fit.epsilonFixed
+      ? { value: (fit.epsilonLPerMolCm as number) + (fit.epsilonSe ?? 0) * rng.normal() }
+      : undefined;
     const r = fitEquilibriumModel(points, model, {
       fitBaseline,
+      fixedEpsilon: heldEpsilon && heldEpsilon.value > 0 ? heldEpsilon : undefined,
       startK: fit.k,
       startEpsilon: fit.epsilonLPerMolCm,
       maxIterations: 100,
       parameterTolerance: 1e-8,
+      profile: false,
     });
-    if (r.converged && r.log10K !== null && Number.isFinite(r.log10K)) lnKs.push(r.log10K * Math.LN10);
+    if (r.status === 'determined' && r.log10K !== null && Number.isFinite(r.log10K))
+      lnKs.push(r.log10K * Math.LN10);
     else failed++;
   }
   if (lnKs.length < 2) return null;

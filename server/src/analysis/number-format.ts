@@ -151,8 +151,8 @@ function kDigits(k: number, ci: [number | null, number | null] | null): number {
 }
 
 /**
- * K as a person reads it, with its unit and what is known: "839 L·mol⁻¹ (95 % CI 810 to 886)",
- * "> 2.1 × 10⁶ L²·mol⁻² (95 % lower bound)", "between 140 and 6.5 × 10³ L·mol⁻¹ (poorly determined)",
+ * K as a person reads it, with its unit and what is known: "839 L·mol⁻¹ (95 % CI 811 to 886)",
+ * "> 2.1 × 10⁶ L²·mol⁻² (95 % lower bound)", "between 140 and 6500 L·mol⁻¹ (poorly determined)",
  * "did not converge: …". The one K format of the product.
  *
  * @example
@@ -191,7 +191,7 @@ export function formatK(s: KStatement | null | undefined): string {
   }
 }
 
-/** The K value alone for a table cell ("839", "> 2.1 × 10⁶", "140 to 6.5 × 10³", "—"), unit in the header. */
+/** The K value alone for a table cell ("839", "> 2.1 × 10⁶", "140 to 6500", "—"), unit in the header. */
 export function formatKValue(s: KStatement | null | undefined): string {
   if (!s) return DASH;
   const [lo, hi] = s.kCi95 ?? [null, null];

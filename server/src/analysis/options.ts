@@ -44,11 +44,18 @@ export interface AnalysisSettings {
   ruledOutDeltaAic?: number;
   /** Fit a constant absorbance offset in the global fits. Default false. */
   fitBaseline?: boolean;
-  /** ε of the complex for the per-mixture ICE tables, L·mol⁻¹·cm⁻¹. Default: from the calibration. */
+  /**
+   * ε of the complex, L·mol⁻¹·cm⁻¹ (typed, or taken from another batch). Default: from this batch's
+   * calibration. When a batch has ε, the headline global fit holds it fixed and the per-mixture K uses it.
+   */
   epsilonLPerMolCm?: number | null;
+  /** Standard uncertainty of a given ε, L·mol⁻¹·cm⁻¹ (propagated into K). Default 0. */
+  epsilonSeLPerMolCm?: number | null;
   /** Positions to leave out, with reasons. */
   exclusions?: Exclusion[];
   job?: { relativeTolerance?: number; minPoints?: number };
+  /** Mole-ratio series: the fixed reactant's relative tolerance (default 0.02) and points (default 6). */
+  moleRatio?: { relativeTolerance?: number; minPoints?: number };
   benesiHildebrand?: { minExcessRatio?: number; minPoints?: number };
   uncertainty?: Partial<InputUncertainties>;
   /** Draws (0 = off) and seed of the Monte Carlo for K. Default 0 draws, seed 1. */
@@ -77,8 +84,10 @@ export interface ResolvedAnalysisSettings {
   ruledOutDeltaAic: number;
   fitBaseline: boolean;
   epsilonLPerMolCm: number | null;
+  epsilonSeLPerMolCm: number;
   exclusions: Exclusion[];
   job: { relativeTolerance: number; minPoints: number };
+  moleRatio: { relativeTolerance: number; minPoints: number };
   benesiHildebrand: { minExcessRatio: number; minPoints: number };
   uncertainty: InputUncertainties;
   monteCarlo: { draws: number; seed: number };
@@ -162,10 +171,15 @@ export function resolveAnalysisSettings(settings: AnalysisSettings = {}): Resolv
     ruledOutDeltaAic: positive('ruled-out ΔAIC', s.ruledOutDeltaAic ?? 10),
     fitBaseline: s.fitBaseline ?? false,
     epsilonLPerMolCm: s.epsilonLPerMolCm == null ? null : positive('ε', s.epsilonLPerMolCm),
+    epsilonSeLPerMolCm: nonNegative('standard uncertainty of ε', s.epsilonSeLPerMolCm ?? 0),
     exclusions,
     job: {
       relativeTolerance: positive('Job total tolerance', s.job?.relativeTolerance ?? 0.02),
       minPoints: Math.max(4, Math.floor(s.job?.minPoints ?? 5)),
+    },
+    moleRatio: {
+      relativeTolerance: positive('mole-ratio tolerance', s.moleRatio?.relativeTolerance ?? 0.02),
+      minPoints: Math.max(5, Math.floor(s.moleRatio?.minPoints ?? 6)),
     },
     benesiHildebrand: {
       minExcessRatio: positive('Benesi–Hildebrand excess ratio', s.benesiHildebrand?.minExcessRatio ?? 10),

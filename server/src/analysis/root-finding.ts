@@ -47,8 +47,14 @@ export function findRootBracketed(
     else hi = x;
     let next = x - fx / dfx;
     if (!(next > lo && next < hi)) {
-      // Bisect geometrically when the bracket spans decades: roots near 0 are reached in few steps.
-      next = lo > 0 && hi / lo > 4 ? Math.sqrt(lo * hi) : 0.5 * (lo + hi);
+      // Bisect geometrically when the bracket spans decades, and step down by decades while the lower end
+      // is still 0: roots near 0 (weak binding) are then reached in a few dozen steps at most.
+      next =
+        lo > 0 && hi / lo > 4
+          ? Math.sqrt(lo * hi)
+          : lo === 0 && hi > 0 && fx > 0
+            ? hi * 1e-3
+            : 0.5 * (lo + hi);
     }
     if (Math.abs(next - x) <= tol * Math.abs(next) || hi - lo <= tol * Math.abs(hi)) {
       return { root: next, iterations: i, converged: true };

@@ -62,8 +62,10 @@ export function rankStoichiometries(
   const kCvMax = options.kCvMax ?? 0.15;
   if (candidates.length === 0)
     return { ranked: [], best: null, ambiguous: false, verdict: 'No candidates to rank.' };
+  // A fit that runs to complete binding (K only bounded), or whose K the data leave open, stays
+  // eligible: its residuals still count.
   const usable = (c: CandidateEvidence): number | null =>
-    c.fit && c.fit.converged && c.fit.aic !== null && c.fit.k !== null ? c.fit.aic : null;
+    c.fit && c.fit.converged && c.fit.aic !== null ? c.fit.aic : null;
   const bestAic = Math.min(...candidates.map((c) => usable(c) ?? Infinity));
   const sorted = candidates.slice().sort((u, v) => {
     const au = usable(u);
@@ -89,15 +91,15 @@ export function rankStoichiometries(
         `impossible for ${infeasible} of ${c.kStats?.rows.length} mixtures (a reactant would go negative)`,
       );
     }
-    if (c.kStats?.kCv != null && c.kStats.kCv > kCvMax)
+    // Near complete binding a per-mixture K rests on tiny free concentrations; its scatter says nothing.
+    if (c.kStats?.kCv != null && c.kStats.kCv > kCvMax && c.fit?.status !== 'lower-bound')
       reasons.push(`its K drifts ${pct(c.kStats.kCv)} across mixtures`);
     if (deltaAic !== null && deltaAic > ruledOutDeltaAic)
       reasons.push(`its global fit is far worse (ΔAIC ${deltaAic.toFixed(1)})`);
     if (aic === null) {
       if (!c.fit) reasons.push('no global fit');
-      else if (c.fit.converged && c.fit.k === null)
-        reasons.push('its K is not determined (the fit runs to complete binding)');
-      else reasons.push(`its global fit failed (${c.fit.message})`);
+      else if (!c.fit.converged) reasons.push(`its global fit did not converge (${c.fit.message})`);
+      else reasons.push(`its K is not determined (${c.fit.message})`);
     }
     const ruledOut = i > 0 && reasons.length > 0;
     return {
@@ -123,10 +125,17 @@ export function rankStoichiometries(
         `mixtures over a wider range of ratios would decide`,
     );
   } else {
-    parts.push(`${best.model} fits best`);
+    const status = candidates.find((c) => c.model === best.model)?.fit?.status;
+    parts.push(
+      status === 'lower-bound'
+        ? `${best.model} fits best, with K too large to determine from these concentrations (a lower bound only)`
+        : `${best.model} fits best`,
+    );
   }
-  const bestCv = candidates.find((c) => c.model === best.model)?.kStats?.kCv;
-  if (bestCv != null && bestCv > kCvMax) parts.push(`but even its K varies ${pct(bestCv)} across mixtures`);
+  const bestEvidence = candidates.find((c) => c.model === best.model);
+  const bestCv = bestEvidence?.kStats?.kCv;
+  if (bestCv != null && bestCv > kCvMax && bestEvidence?.fit?.status !== 'lower-bound')
+    parts.push(`but even its K varies ${pct(bestCv)} across mixtures`);
   for (const r of ranked.slice(ambiguous ? 2 : 1)) {
     parts.push(
       r.ruledOut ? `${r.model} is ruled out: ${r.reason}` : `${r.model} fits less well (${r.reason})`,

@@ -14,7 +14,7 @@ export interface KPropagation {
   /** Standard uncertainty of K, M^(1−a−b). */
   kSd: number;
   /** Share of the variance of ln K from each source (sums to 1). */
-  contributions: { absorbance: number; pipette: number; flask: number; stock: number };
+  contributions: { absorbance: number; pipette: number; flask: number; stock: number; epsilon: number };
   /** The absorbance SD that was used (given, or the fit's residual SD). */
   absorbanceSdUsed: number;
 }
@@ -25,7 +25,8 @@ export interface KPropagation {
  * an input z that moves A₀ or B₀ acts as δy = −(∂A/∂A₀·∂A₀/∂z + ∂A/∂B₀·∂B₀/∂z)·δz, with
  * ∂A/∂A₀ = ε·l·∂x/∂A₀ from the implicit equilibrium. Then u²(ln K) = Σ_z (∂ln K/∂z)²·u²(z).
  * Pipetted volumes, made-up totals and absorbances are independent per mixture; each distinct stock
- * concentration is one input shared by every mixture that uses it.
+ * concentration is one input shared by every mixture that uses it. When ε is held at the batch's own
+ * value, it is one more input: δy = −l·x·δε, with the fit's u(ε).
  *
  * Units: volumes mL, concentrations mol/L, relative SDs as fractions, absorbance SD dimensionless.
  * Reference: JCGM 100:2008 (GUM) §5.1.2, law of propagation of uncertainty; sensitivity of least-squares
@@ -50,19 +51,23 @@ export function propagateKUncertainty(
   const k = fit.k;
   const eps = fit.epsilonLPerMolCm;
   const fitBaseline = fit.baseline !== null;
-  const p = fitBaseline ? 3 : 2;
+  const held = fit.epsilonFixed;
+  const p = (held ? 1 : 2) + (fitBaseline ? 1 : 0);
   // Jacobian of the model at the solution and the sensitivities to A₀, B₀.
   const jac: number[][] = [];
   const dA0: number[] = [];
   const dB0: number[] = [];
+  const dEps: number[] = [];
   const conc = mixtures.map((m) => mixtureInitialConcentrations(m));
   for (let i = 0; i < n; i++) {
     const l = mixtures[i].pathLengthCm;
     const s = solveEquilibrium(k, conc[i].a0M, conc[i].b0M, model);
     const sens = equilibriumSensitivity(s, model);
-    const row = [eps * l * sens.dProductDLnK, l * s.productM];
+    const row = [eps * l * sens.dProductDLnK];
+    if (!held) row.push(l * s.productM);
     if (fitBaseline) row.push(1);
     jac.push(row);
+    dEps.push(l * s.productM);
     dA0.push(eps * l * sens.dProductDA0);
     dB0.push(eps * l * sens.dProductDB0);
   }
@@ -98,10 +103,12 @@ export function propagateKUncertainty(
     stockA.set(m.stockAM, (stockA.get(m.stockAM) ?? 0) + effect(a0M, 0) * u.stockRelSd);
     stockB.set(m.stockBM, (stockB.get(m.stockBM) ?? 0) + effect(0, b0M) * u.stockRelSd);
   }
+  const epsilonEffect = held ? -g.reduce((sum, gi, i) => sum + gi * dEps[i], 0) * (fit.epsilonSe ?? 0) : 0;
+  const vEps = epsilonEffect * epsilonEffect;
   let vStock = 0;
   for (const v of stockA.values()) vStock += v * v;
   for (const v of stockB.values()) vStock += v * v;
-  const total = vAbs + vPip + vFlask + vStock;
+  const total = vAbs + vPip + vFlask + vStock + vEps;
   const lnKSd = Math.sqrt(total);
   const share = (v: number): number => (total > 0 ? v / total : 0);
   return {
@@ -114,6 +121,7 @@ export function propagateKUncertainty(
       pipette: share(vPip),
       flask: share(vFlask),
       stock: share(vStock),
+      epsilon: share(vEps),
     },
     absorbanceSdUsed: absorbanceSd,
   };

@@ -2,6 +2,7 @@ import { type DataSource, type EntityManager, In, type Repository } from 'typeor
 import {
   type AnalysisSettings,
   type BatchResult,
+  type KStatus,
   type Reading,
   type SampleDefinition,
   analyzeBatch,
@@ -25,9 +26,16 @@ export interface BatchResultSummary {
   qcFlagCount: number;
   qcErrorCount: number;
   best: string | null;
+  /** K of the best candidate when it has a value (not for bounds or failed fits). */
   k: number | null;
   kSe: number | null;
-  kCi95: [number, number] | null;
+  kCi95: [number | null, number | null] | null;
+  kStatus: KStatus | null;
+  kLowerBound95: number | null;
+  kUpperBound95: number | null;
+  kUnit: string | null;
+  /** The K as every screen, report and mail states it (formatK). */
+  kText: string | null;
 }
 
 export interface BatchDto {
@@ -81,13 +89,19 @@ export interface BatchAnalysisDto {
 /** The headline of an analysis result. */
 export function summarize(result: BatchResult): BatchResultSummary {
   const best = result.stoichiometry?.candidates.find((c) => c.model === result.stoichiometry?.best) ?? null;
+  const h = result.headline;
   return {
     qcFlagCount: result.qc.filter((f) => f.severity !== 'info').length,
     qcErrorCount: result.qc.filter((f) => f.severity === 'error').length,
     best: result.stoichiometry?.best ?? null,
-    k: best?.fit?.k ?? null,
+    k: h?.k ?? null,
     kSe: best?.fit?.kSe ?? null,
-    kCi95: best?.fit?.kCi95 ?? null,
+    kCi95: h?.kCi95 ?? null,
+    kStatus: h?.status ?? null,
+    kLowerBound95: h?.kLowerBound95 ?? null,
+    kUpperBound95: h?.kUpperBound95 ?? null,
+    kUnit: h?.kUnit ?? null,
+    kText: h?.text ?? null,
   };
 }
 

@@ -83,8 +83,6 @@ export class BatchMailer {
     if (!(await this.claim(batchId, 'complete'))) return;
     const analysis = await this.batches.analysis(batchId);
     const result = analysis.result;
-    const bestName = result.stoichiometry?.best ?? null;
-    const best = result.stoichiometry?.candidates.find((c) => c.model === bestName) ?? null;
     const errors = result.qc.filter((f) => f.severity === 'error');
     const summary: BatchSummary = {
       id: batch.id,
@@ -92,14 +90,7 @@ export class BatchMailer {
       instrument: batch.profileName,
       fileCount: batch.fileCount,
       url: this.batchUrl(batch.id),
-      best: best
-        ? {
-            model: best.model,
-            k: best.fit?.k ?? best.kMean,
-            ciLow: best.fit?.kCi95?.[0] ?? null,
-            ciHigh: best.fit?.kCi95?.[1] ?? null,
-          }
-        : null,
+      best: result.headline ? { model: result.headline.model, kText: result.headline.text } : null,
       verdict: result.stoichiometry?.verdict ?? null,
       errorFlags: errors.length,
     };

@@ -1,5 +1,4 @@
 import type { QcFlag } from '../analysis';
-import { formatNumber, kPdfUnit } from '../reports/report-format';
 
 /** A mail's content: a subject, a plain-text part and a simple HTML part saying the same. */
 export interface MailContent {
@@ -67,8 +66,8 @@ export interface BatchSummary {
   instrument: string | null;
   fileCount: number;
   url: string;
-  /** Best stoichiometry and its K with a 95 % interval, when the analysis found them. */
-  best: { model: string; k: number | null; ciLow: number | null; ciHigh: number | null } | null;
+  /** Best stoichiometry and its K as the batch page states it (formatK: value and interval, bound, or reason). */
+  best: { model: string; kText: string } | null;
   verdict: string | null;
   errorFlags: number;
 }
@@ -76,15 +75,8 @@ export interface BatchSummary {
 export function batchCompleteMail(name: string, s: BatchSummary): MailContent {
   const lines: string[] = [`Instrument: ${s.instrument ?? 'unknown'}`, `Files stored: ${s.fileCount}`];
   if (s.best) {
-    const unit = kPdfUnit(s.best.model);
     lines.push(`Best stoichiometry: ${s.best.model}`);
-    if (s.best.k !== null) {
-      const ci =
-        s.best.ciLow !== null && s.best.ciHigh !== null
-          ? ` (95 % CI ${formatNumber(s.best.ciLow)} to ${formatNumber(s.best.ciHigh)})`
-          : '';
-      lines.push(`K = ${formatNumber(s.best.k)}${unit ? ` ${unit}` : ''}${ci}`);
-    }
+    lines.push(`K = ${s.best.kText}`);
   } else {
     lines.push('No equilibrium constant was computed for this batch.');
   }

@@ -1,3 +1,5 @@
+import { roundSignificant } from '../analysis/number-format';
+
 /** A cell: text, a number, or empty (null/undefined). */
 export type CsvCell = string | number | boolean | null | undefined;
 
@@ -18,7 +20,8 @@ export function escapeFormula(text: string): string {
  */
 export function csvField(value: CsvCell): string {
   if (value === null || value === undefined) return '';
-  if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '';
+  // Twelve significant digits: far beyond any measurement, and free of binary noise (0.1 + 0.2 → 0.3).
+  if (typeof value === 'number') return Number.isFinite(value) ? String(roundSignificant(value, 12)) : '';
   if (typeof value === 'boolean') return value ? 'true' : 'false';
   return `"${escapeFormula(value).replace(/"/g, '""')}"`;
 }

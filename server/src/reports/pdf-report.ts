@@ -3,7 +3,13 @@ import PDFDocument from 'pdfkit';
 import type { CalibrationResult, PositionResult } from '../analysis';
 import type { AuditDto } from '../audit/audit.service';
 import type { BatchAnalysisDto } from '../batches/batches.service';
-import { formatNumber, kPdfUnit } from './report-format';
+import {
+  EPSILON_UNIT,
+  formatKValue,
+  formatNumber,
+  formatQuantity,
+  kUnitOf as kPdfUnit,
+} from '../analysis/number-format';
 import { loadWoffFont } from './woff';
 
 export interface BatchReportInput {
@@ -520,14 +526,10 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
     size: 8.5,
   });
 
-  const best = r.stoichiometry?.candidates.find((c) => c.model === r.stoichiometry?.best) ?? null;
   if (r.stoichiometry?.verdict) {
     w.y += 4;
     const verdict = r.stoichiometry.verdict;
-    const kLine =
-      best?.fit?.k != null
-        ? `K (${best.model}) = ${formatNumber(best.fit.k)} ${kPdfUnit(best.model)}${best.fit.kCi95 ? ` (95 % CI ${formatNumber(best.fit.kCi95[0])} to ${formatNumber(best.fit.kCi95[1])})` : ''}`
-        : null;
+    const kLine = r.headline ? `K (${r.headline.model}) = ${r.headline.text}` : null;
     const boxText = kLine ? `${verdict}\n${kLine}` : verdict;
     const h = w.heightOf(boxText, w.width - 16, 10, 'bold') + 12;
     w.ensure(h + 6);
@@ -557,9 +559,9 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
     ],
     [
       'ε from',
-      s.epsilonLPerMolCm === null
-        ? "this batch's standards"
-        : `${formatNumber(s.epsilonLPerMolCm)} L/(mol·cm), given`,
+      r.epsilonSource.kind === 'none'
+        ? 'none (fitted with K)'
+        : `${formatQuantity(r.epsilonSource.epsilonLPerMolCm, EPSILON_UNIT)} — ${r.epsilonSource.kind === 'given' ? 'given' : "this batch's standards"}`,
     ],
     ['Monte Carlo draws', String(s.monteCarloDraws)],
     [
@@ -582,13 +584,20 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
         { header: 'Unit', width: 149 },
       ],
       [
-        ['Slope ± SE', withSe(cal.slope, cal.slopeSe), '1/M'],
+        ['Slope ± SE', withSe(cal.slope, cal.slopeSe), 'L·mol⁻¹'],
         ['Intercept ± SE', withSe(cal.intercept, cal.interceptSe), 'absorbance'],
         ['R²', cal.r2.toFixed(5), ''],
         ['Residual SD', formatNumber(cal.residualSd), 'absorbance'],
-        ['ε ± SE', withSe(cal.epsilonLPerMolCm, cal.epsilonSe), 'L/(mol·cm)'],
-        ['LOD', formatNumber(cal.lodM), 'M'],
-        ['LOQ', formatNumber(cal.loqM), 'M'],
+        ['ε ± SE', withSe(cal.epsilonLPerMolCm, cal.epsilonSe), EPSILON_UNIT],
+        ['LOD', formatNumber(cal.lodM) + (cal.lodExtrapolated ? ' (extrapolated)' : ''), 'mol/L'],
+        ['LOQ', formatNumber(cal.loqM) + (cal.loqExtrapolated ? ' (extrapolated)' : ''), 'mol/L'],
+        [
+          'Linearity (Mandel, ISO 8466-1)',
+          cal.linearity
+            ? `PW ${formatNumber(cal.linearity.testValue)} vs F ${formatNumber(cal.linearity.criticalValue)}: ${cal.linearity.curved ? 'curved' : 'linear'}`
+            : 'needs 5 standards',
+          '',
+        ],
         ['Standards used', String(cal.n), ''],
       ],
     );
@@ -656,7 +665,7 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
       { header: 'Rank', width: 30, align: 'right' },
       { header: 'Mean K', width: 56, align: 'right' },
       { header: 'CV', width: 40, align: 'right' },
-      { header: 'Global K', width: 56, align: 'right' },
+      { header: 'K (global fit)', width: 56, align: 'right' },
       { header: '95 % CI', width: 100, align: 'right' },
       { header: 'AIC', width: 44, align: 'right' },
       { header: 'ΔAIC', width: 36, align: 'right' },
@@ -669,8 +678,12 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
       String(c.rank),
       formatNumber(c.kMean),
       percent(c.kCv),
-      formatNumber(c.fit?.k),
-      c.fit?.kCi95 ? `${formatNumber(c.fit.kCi95[0])} – ${formatNumber(c.fit.kCi95[1])}` : '—',
+      formatKValue(c.fit),
+      c.fit?.status === 'determined' && c.fit.kCi95
+        ? `${formatNumber(c.fit.kCi95[0])} – ${formatNumber(c.fit.kCi95[1])}`
+        : c.fit
+          ? c.fit.status.replace('-', ' ')
+          : '—',
       formatNumber(c.fit?.aic, 4),
       formatNumber(c.deltaAic, 3),
       formatNumber(c.akaikeWeight, 2),
@@ -680,6 +693,7 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
     'No mixtures, or no ε: no stoichiometry was assessed.',
   );
   if (r.stoichiometry?.verdict) w.paragraph(r.stoichiometry.verdict, { weight: 'bold' });
+  if (r.headline) w.paragraph(`${r.kNote} ${r.epsilonSource.note}.`, { color: MUTED });
   const u = r.uncertainty;
   if (u?.propagation || u?.monteCarlo) {
     const parts: string[] = [];

@@ -1,4 +1,5 @@
 import type { BatchAnalysisDto } from '../batches/batches.service';
+import { formatK } from '../analysis/number-format';
 import type { CsvCell } from './csv';
 
 export type Table = CsvCell[][];
@@ -165,10 +166,16 @@ export function resultsTable(a: BatchAnalysisDto): Table {
       'k_cv',
       'n_feasible',
       'n_infeasible',
-      'global_k',
-      'global_k_se',
-      'k_ci95_low',
-      'k_ci95_high',
+      'k_status',
+      'K',
+      'K_unit',
+      'K_se',
+      'K_ci95_low',
+      'K_ci95_high',
+      'K_lower_bound_95',
+      'K_upper_bound_95',
+      'K_text',
+      'epsilon_held',
       'aic',
       'delta_aic',
       'akaike_weight',
@@ -183,10 +190,16 @@ export function resultsTable(a: BatchAnalysisDto): Table {
       cand.kCv,
       cand.nFeasible,
       cand.nInfeasible,
+      cand.fit?.status ?? null,
       cand.fit?.k ?? null,
+      cand.kUnit,
       cand.fit?.kSe ?? null,
       cand.fit?.kCi95?.[0] ?? null,
       cand.fit?.kCi95?.[1] ?? null,
+      cand.fit?.kLowerBound95 ?? null,
+      cand.fit?.kUpperBound95 ?? null,
+      formatK(cand.fit),
+      cand.fit?.epsilonFixed ?? null,
       cand.fit?.aic ?? null,
       cand.deltaAic,
       cand.akaikeWeight,
@@ -198,6 +211,9 @@ export function resultsTable(a: BatchAnalysisDto): Table {
     rows.push([]);
     rows.push(['Verdict']);
     rows.push([r.stoichiometry.verdict]);
+    if (r.headline) rows.push([`K (${r.headline.model}) = ${r.headline.text}`]);
+    rows.push([r.kNote]);
+    rows.push([r.epsilonSource.note]);
   }
   section(
     'QC flags',

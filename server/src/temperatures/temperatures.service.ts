@@ -9,7 +9,9 @@ export interface TemperaturePoint {
   model: string | null;
   k: number | null;
   kSe: number | null;
-  kCi95: [number, number] | null;
+  kCi95: [number | null, number | null] | null;
+  /** K as every screen and report states it (a bound or a failed fit reads as such). */
+  kText: string | null;
   /** Why this batch is not in the fit, when it is not. */
   excludedBecause: string | null;
 }
@@ -45,6 +47,7 @@ export class TemperaturesService {
           k: summary?.k ?? null,
           kSe: summary?.kSe ?? null,
           kCi95: summary?.kCi95 ?? null,
+          kText: summary?.kText ?? null,
           excludedBecause: null,
         });
       }
@@ -55,7 +58,7 @@ export class TemperaturesService {
         )[0] ?? null;
       for (const p of points) {
         if (!options.includeUnapproved && p.state !== 'approved') p.excludedBecause = 'not approved yet';
-        else if (p.k === null) p.excludedBecause = 'no K from this batch';
+        else if (p.k === null) p.excludedBecause = p.kText ? `K ${p.kText}` : 'no K from this batch';
         else if (p.model !== model) p.excludedBecause = `its best stoichiometry is ${p.model}, not ${model}`;
       }
       const used = points.filter((p) => !p.excludedBecause);

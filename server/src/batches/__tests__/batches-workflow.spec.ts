@@ -509,6 +509,11 @@ describe('layouts, manifests and batches', () => {
         k: best.fit.k,
         kSe: best.fit.kSe,
         kCi95: best.fit.kCi95,
+        kStatus: 'determined',
+        kLowerBound95: null,
+        kUpperBound95: null,
+        kUnit: 'L·mol⁻¹',
+        kText: analysis.body.result.headline.text,
       });
     });
   });

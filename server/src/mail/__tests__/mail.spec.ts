@@ -1,7 +1,6 @@
 import net from 'node:net';
 import request from 'supertest';
 import { createAnalysedBatch } from '../../reports/__tests__/analysed-batch';
-import { formatNumber } from '../../reports/report-format';
 import { DEMO_EMAILS, DEMO_PASSWORD, startTestApp, type TestApp } from '../../testing/test-app';
 import type { OutboxMessageDto } from '../outbox.service';
 import { SmtpStandIn } from '../smtp-stand-in';
@@ -46,11 +45,11 @@ describe('e-mail through the local SMTP stand-in', () => {
     await batch.ingest(1);
     const mails = (await delivered(t)).filter((m) => m.subject === 'Batch complete: Completion check batch');
     expect(mails.map((m) => m.to).sort()).toEqual([DEMO_EMAILS.lab_manager, DEMO_EMAILS.scientist]);
-    const k = (await t.services.batches.analysis(batch.batchId)).result.stoichiometry!.candidates.find(
-      (c) => c.model === '1:1',
-    )!.fit!.k!;
+    const headline = (await t.services.batches.analysis(batch.batchId)).result.headline!;
     expect(mails[0].text).toContain('Best stoichiometry: 1:1');
-    expect(mails[0].text).toContain(`K = ${formatNumber(k)} 1/M (95 % CI`);
+    // The same K text as the batch page and the PDF, with its unit from the model.
+    expect(mails[0].text).toContain(`K = ${headline.text}`);
+    expect(headline.text).toMatch(/ L·mol⁻¹ \(95 % CI /);
     expect(mails[0].html).toContain('<li>Best stoichiometry: 1:1</li>');
     expect(mails[0].from).toContain('equilight@localhost');
     // A further event for the same batch sends nothing twice.

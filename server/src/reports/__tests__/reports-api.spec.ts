@@ -75,7 +75,11 @@ describe('batch reports', () => {
       expect(mixturesHeader).toEqual(expect.arrayContaining(['K_1:1', 'K_1:2', 'K_2:1']));
       const best = analysis.result.stoichiometry!.candidates.find((c) => c.model === '1:1')!;
       const stoichRow = rows.find((r) => r[0] === '1:1' && r.length > 10)!;
-      expect(Number(stoichRow[7])).toBeCloseTo(best.fit!.k!, 6);
+      const header = rows.find((r) => r[0] === 'model' && r.includes('K_unit'))!;
+      expect(Number(stoichRow[header.indexOf('K')])).toBeCloseTo(best.fit!.k!, 6);
+      // The same K, unit and text as the page, the PDF and the mails.
+      expect(stoichRow[header.indexOf('K_unit')]).toBe('L·mol⁻¹');
+      expect(stoichRow[header.indexOf('K_text')]).toBe(analysis.result.headline!.text);
       const positionsHeader = rows.find((r) => r[0] === 'position')!;
       expect(positionsHeader).toEqual(expect.arrayContaining(['absorbance_raw', 'absorbance_corrected']));
     });

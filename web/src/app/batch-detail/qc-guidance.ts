@@ -94,6 +94,47 @@ export const QC_GUIDANCE: Record<QcCode, QcGuidance> = {
       'Two candidates fit almost equally well (ΔAIC below the limit); the data cannot choose between them.',
     action: "Add mixtures that separate the candidates, such as a Job's series or a wider excess range.",
   },
+  'calibration-curvature': {
+    title: 'Calibration curves',
+    meaning:
+      "Mandel's fitting test (ISO 8466-1) finds a quadratic significantly better than the straight line: the response bends within the range of the standards.",
+    action:
+      'Narrow the working range (drop the highest standards, dilute samples into the lower part) or check for stray light and saturation at the top.',
+  },
+  'k-poorly-determined': {
+    title: 'K poorly determined',
+    meaning: 'The 95 % interval of K spans more than a decade: these mixtures constrain K only loosely.',
+    action:
+      'Use the Planner to choose concentrations near 1/K where the complex is about half formed, and add replicates.',
+  },
+  'k-lower-bound': {
+    title: 'K too large to determine',
+    meaning:
+      'Binding is complete at these concentrations, so the data show the stoichiometry but only a lower bound for K.',
+    action:
+      'To measure K, redesign the mixtures at lower concentrations (or use a competing reagent); the Planner predicts which concentrations would show partial binding.',
+  },
+  'k-fits-disagree': {
+    title: 'Held and fitted ε disagree',
+    meaning:
+      "K with ε held at the batch's value and K with ε fitted from the mixtures disagree beyond their intervals.",
+    action:
+      'Check that the standards are of the complex itself and were read at the same wavelength and path length, or that a typed ε applies to this medium.',
+  },
+  'job-disagrees': {
+    title: "Job's plot points elsewhere",
+    meaning:
+      "The maximum of the Job's plot suggests a different stoichiometry from the one the global fits choose.",
+    action:
+      'Look at both plots: a rounded maximum (moderate K) shifts the intersection; a sharp one that disagrees calls for checking the stock concentrations.',
+  },
+  'mole-ratio-disagrees': {
+    title: 'Mole-ratio break points elsewhere',
+    meaning:
+      'The break of the mole-ratio plot suggests a different stoichiometry from the one the global fits choose.',
+    action:
+      'Check the stock concentrations and volumes of the series, and whether the break is sharp enough to read.',
+  },
 };
 
 export const SEVERITY_DISPLAY: Record<QcFlag['severity'], { label: string; icon: string; rank: number }> = {
