@@ -70,8 +70,8 @@ export interface EquilightApp {
 
 /** Build the Express app without listening: tests drive it with supertest. */
 export function createApp({ config, dataSource, log = console.error }: AppContext): EquilightApp {
-  const users = new UsersService(dataSource);
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
+  const users = new UsersService(dataSource, store);
   const passport = createPassport(users);
   const events = new EventBus();
   const audit = new AuditService(dataSource);
@@ -98,7 +98,7 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
 
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  app.set('trust proxy', config.trustProxy);
   app.use(
     helmet({
       contentSecurityPolicy: {

@@ -3,6 +3,7 @@ import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type { PassportStatic } from 'passport';
 import { AppError } from '../common/app-error';
 import { validateBody } from '../common/validate';
+import { emailKeyOf } from '../users/email-address';
 import { type User, toPublicUser } from '../users/user.entity';
 import type { UsersService } from '../users/users.service';
 import { loginSchema, setPasswordSchema } from './auth.schema';
@@ -32,8 +33,7 @@ export function authRouter(
     // Only failed attempts count: a lab signing in all day is not an attack.
     skipSuccessfulRequests: true,
     // Per address and account: one person mistyping does not lock out the lab's shared address.
-    keyGenerator: (req) =>
-      `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${emailKeyOf(req.body)}`,
     handler: (_req, _res, next) =>
       next(
         new AppError(
@@ -63,7 +63,9 @@ export function authRouter(
   });
 
   router.post('/set-password', loginLimiter, validateBody(setPasswordSchema), async (req, res) => {
-    res.json(await users.setPasswordWithToken(req.body.token, req.body.password));
+    // A signed-in person redeeming a link for their own account keeps this session; every other one ends.
+    const keep = req.user ? req.sessionID : undefined;
+    res.json(await users.setPasswordWithToken(req.body.token, req.body.password, keep));
   });
 
   return router;
