@@ -1,4 +1,4 @@
-import { Router, type Request } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type { PassportStatic } from 'passport';
 import { AppError } from '../common/app-error';
@@ -23,6 +23,8 @@ export function authRouter(
   passport: PassportStatic,
   users: UsersService,
   limits: { max: number; windowMs: number },
+  /** Issue the XSRF token for the session now in force: sign-in and sign-out change the session. */
+  newXsrfToken: (res: Response, sessionId: string) => void,
 ): Router {
   const router = Router();
   const loginLimiter = rateLimit({
@@ -47,6 +49,7 @@ export function authRouter(
   router.post('/login', loginLimiter, validateBody(loginSchema), async (req, res) => {
     const user = await authenticate(passport, req);
     await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
+    newXsrfToken(res, req.sessionID);
     res.json(toPublicUser(user));
   });
 
@@ -54,6 +57,7 @@ export function authRouter(
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())));
     await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
     res.clearCookie('equilight.sid');
+    newXsrfToken(res, '');
     res.status(204).end();
   });
 

@@ -25,6 +25,20 @@ export interface TestApp extends EquilightApp {
   stop(): Promise<void>;
 }
 
+/**
+ * Make an agent behave like the web app: whenever a response sets a new XSRF-TOKEN cookie (the first
+ * visit, sign-in, sign-out), later requests echo that value in X-XSRF-TOKEN.
+ */
+export function followXsrfCookie(a: TestAgent): void {
+  const agent = a as unknown as { _saveCookies(res: { headers: Record<string, unknown> }): void };
+  const save = agent._saveCookies.bind(a);
+  agent._saveCookies = (res) => {
+    save(res);
+    const xsrf = /XSRF-TOKEN=([^;]+)/.exec(String(res.headers['set-cookie'] ?? ''))?.[1];
+    if (xsrf) a.set('X-XSRF-TOKEN', decodeURIComponent(xsrf));
+  };
+}
+
 /** A real app on a real SQLite file in a temporary folder, seeded with the demo people. */
 export async function startTestApp(env: Record<string, string> = {}): Promise<TestApp> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-test-'));
@@ -42,10 +56,8 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
 
   const agent = async (role?: keyof typeof DEMO_EMAILS): Promise<TestAgent> => {
     const a = request.agent(equilight.app);
-    const first = await a.get('/api/health');
-    const xsrf = /XSRF-TOKEN=([^;]+)/.exec(String(first.headers['set-cookie'] ?? ''))?.[1];
-    if (!xsrf) throw new Error('no XSRF cookie issued');
-    a.set('X-XSRF-TOKEN', decodeURIComponent(xsrf));
+    followXsrfCookie(a);
+    await a.get('/api/health');
     if (role) {
       const res = await a.post('/api/auth/login').send({ email: DEMO_EMAILS[role], password: DEMO_PASSWORD });
       if (res.status !== 200)
