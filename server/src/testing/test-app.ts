@@ -22,7 +22,10 @@ export interface TestApp extends EquilightApp {
   dir: string;
   /** A supertest agent that keeps cookies and sends the XSRF header, optionally signed in. */
   agent(role?: keyof typeof DEMO_EMAILS): Promise<TestAgent>;
+  /** Shut down and remove the data folder. */
   stop(): Promise<void>;
+  /** Shut down and keep the data folder (to inspect it, damage it, or start on it again). */
+  shutDown(): Promise<void>;
 }
 
 /**
@@ -40,8 +43,12 @@ export function followXsrfCookie(a: TestAgent): void {
 }
 
 /** A real app on a real SQLite file in a temporary folder, seeded with the demo people. */
-export async function startTestApp(env: Record<string, string> = {}): Promise<TestApp> {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-test-'));
+export async function startTestApp(
+  env: Record<string, string> = {},
+  /** An existing data folder to start on again (a restart); by default a new temporary one. */
+  existingDir?: string,
+): Promise<TestApp> {
+  const dir = existingDir ?? fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-test-'));
   const config = loadConfig({
     NODE_ENV: 'test',
     DATA_DIR: dir,
@@ -66,6 +73,11 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
     return a;
   };
 
+  const shutDown = async (): Promise<void> => {
+    await equilight.close();
+    if (dataSource.isInitialized) await dataSource.destroy();
+  };
+
   return {
     ...equilight,
     config,
@@ -73,9 +85,9 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
     dir,
     agent,
     async stop() {
-      await equilight.close();
-      await dataSource.destroy();
+      await shutDown();
       fs.rmSync(dir, { recursive: true, force: true });
     },
+    shutDown,
   };
 }
