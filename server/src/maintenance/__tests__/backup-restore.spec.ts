@@ -99,5 +99,5 @@ describe('backup and restore of the database', () => {
     ).catch((err: { code: number; stderr: string }) => err);
     expect((refused as { code: number }).code).toBe(1);
     expect((refused as { stderr: string }).stderr).toMatch(/not a sound database/);
-  });
+  }, 60_000);
 });

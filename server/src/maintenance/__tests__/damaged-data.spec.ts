@@ -127,7 +127,7 @@ describe('damaged data is noticed at start', () => {
       return err;
     });
     expect(stdout).toMatch(/no longer match their SHA-256/);
-  });
+  }, 60_000);
 
   it('when everything is in order then health is ok and db:check passes', async () => {
     const dir = folder(await folderWithReadings(1));
