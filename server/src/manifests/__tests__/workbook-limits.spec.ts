@@ -7,6 +7,7 @@ import {
   MANIFEST_MAX_SHEET_COLUMNS,
   MANIFEST_MAX_SHEET_ROWS,
   MANIFEST_MAX_UNCOMPRESSED_BYTES,
+  MANIFEST_MAX_ZIP_ENTRIES,
 } from '../xlsx-limits';
 import { part, repeatedPart, SHEET_HEAD, SHEET_TAIL, workbookSkeleton, zipOf } from './workbook-builder';
 
@@ -115,7 +116,10 @@ describe('manifest workbooks are bounded by what a manifest can hold', () => {
       sheet.getCell('A1048576').value = 'far down';
     });
     expect(workbook.length).toBeLessThan(20_000);
-    const { res, health } = await checkWithProbe(workbook);
+    const { res, health, uploadMs } = await checkWithProbe(workbook);
+    console.log(
+      `sparse workbook (${workbook.length} B): refused in ${uploadMs.toFixed(0)} ms, health slowest ${health.slowestMs.toFixed(0)} ms over ${health.probes} probes`,
+    );
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('invalid_manifest');
     expect(res.body.error.message).toMatch(
@@ -152,7 +156,7 @@ describe('manifest workbooks are bounded by what a manifest can hold', () => {
   it('when a 400 kB workbook expands to 400 MB then 413 naming the size limit, and health stays quick', async () => {
     const bomb = await zipBomb();
     expect(bomb.length).toBeLessThan(600_000);
-    const { res, health } = await checkWithProbe(bomb);
+    const { res, health, uploadMs } = await checkWithProbe(bomb);
     expect(res.status).toBe(413);
     expect(res.body.error.code).toBe('manifest_too_large');
     expect(res.body.error.message).toMatch(/declare 381 MB uncompressed/);
@@ -162,18 +166,18 @@ describe('manifest workbooks are bounded by what a manifest can hold', () => {
     expect(health.failures).toBe(0);
     expect(health.slowestMs).toBeLessThan(1000);
     console.log(
-      `workbook bomb (declared size): health slowest ${health.slowestMs.toFixed(0)} ms over ${health.probes} probes`,
+      `workbook bomb (${bomb.length} B, declared size): refused in ${uploadMs.toFixed(0)} ms, health slowest ${health.slowestMs.toFixed(0)} ms over ${health.probes} probes`,
     );
   });
 
   it('when the bomb declares a small size but expands to 400 MB then inflation stops at the limit with 413', async () => {
-    const { res, health } = await checkWithProbe(await zipBomb(1000));
+    const { res, health, uploadMs } = await checkWithProbe(await zipBomb(1000));
     expect(res.status).toBe(413);
     expect(res.body.error.message).toMatch(/the part xl\/worksheets\/sheet1.xml expands beyond the limit/);
     expect(health.failures).toBe(0);
     expect(health.slowestMs).toBeLessThan(1000);
     console.log(
-      `workbook bomb (lying size): health slowest ${health.slowestMs.toFixed(0)} ms over ${health.probes} probes`,
+      `workbook bomb (lying size): refused in ${uploadMs.toFixed(0)} ms, health slowest ${health.slowestMs.toFixed(0)} ms over ${health.probes} probes`,
     );
   });
 
@@ -189,6 +193,17 @@ describe('manifest workbooks are bounded by what a manifest can hold', () => {
     expect(res.status).toBe(400);
     expect(res.body.error.message).toMatch(new RegExp(`more than ${MANIFEST_MAX_SHEET_CELLS} cells`));
     expect(health.slowestMs).toBeLessThan(1000);
+  });
+
+  it('when a workbook has more parts than any workbook needs then 413 naming the count', async () => {
+    const parts = Array.from({ length: MANIFEST_MAX_ZIP_ENTRIES + 1 }, (_, i) =>
+      part(`xl/extra/${i}.xml`, '<x/>'),
+    );
+    const { res } = await checkWithProbe(zipOf([...workbookSkeleton(), ...parts]));
+    expect(res.status).toBe(413);
+    expect(res.body.error.message).toMatch(
+      new RegExp(`has ${MANIFEST_MAX_ZIP_ENTRIES + 5} parts, more than ${MANIFEST_MAX_ZIP_ENTRIES}`),
+    );
   });
 
   it('when the file is not a ZIP at all then 400 saying it is not a readable workbook', async () => {
