@@ -119,7 +119,8 @@ async function signIn(base: string): Promise<{ cookie: string; xsrf: string }> {
   });
   if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`);
   keep(res);
-  return { cookie: cookie(), xsrf };
+  // Sign-in issues a new XSRF token bound to the new session.
+  return { cookie: cookie(), xsrf: decodeURIComponent(jar.get('XSRF-TOKEN') ?? '') };
 }
 
 async function main(): Promise<void> {

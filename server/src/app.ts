@@ -10,7 +10,7 @@ import { AuditService } from './audit/audit.service';
 import { authRouter } from './auth/auth.router';
 import { batchesRouter } from './batches/batches.router';
 import { BatchesService } from './batches/batches.service';
-import { csrfProtection } from './auth/csrf';
+import { createCsrfProtection } from './auth/csrf';
 import { createPassport } from './auth/passport';
 import { SessionRow } from './auth/session.entity';
 import { TypeOrmSessionStore } from './auth/typeorm-session-store';
@@ -26,6 +26,7 @@ import { InstrumentsService } from './instruments/instruments.service';
 import { layoutsRouter } from './layouts/layouts.router';
 import { createMailModule, type MailModule } from './mail/mail.module';
 import { LayoutsService } from './layouts/layouts.service';
+import { HealthService } from './maintenance/health.service';
 import { manifestsRouter } from './manifests/manifests.router';
 import { ReportsService } from './reports/reports.service';
 import { reportsRouter } from './reports/reports.router';
@@ -62,6 +63,8 @@ export interface EquilightApp {
   /** E-mail: sender, local SMTP stand-in and outbox, notification settings. */
   mail: MailModule;
   worker: SqliteJobWorker<IngestJobData>;
+  /** /api/health: touches the database; keeps what the start checks found. */
+  health: HealthService;
   /** Start background work: resume queued jobs left by a previous run. */
   start(): Promise<void>;
   /** Stop background work and wait for running jobs. */
@@ -70,8 +73,8 @@ export interface EquilightApp {
 
 /** Build the Express app without listening: tests drive it with supertest. */
 export function createApp({ config, dataSource, log = console.error }: AppContext): EquilightApp {
-  const users = new UsersService(dataSource);
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
+  const users = new UsersService(dataSource, store);
   const passport = createPassport(users);
   const events = new EventBus();
   const audit = new AuditService(dataSource);
@@ -83,6 +86,7 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
     queue,
     events,
   );
+  const health = new HealthService(dataSource, path.join(config.dataDir, 'archive'));
   const layouts = new LayoutsService(dataSource, audit);
   const manifests = new ManifestsService(dataSource, layouts, audit);
   const batches = new BatchesService(dataSource, layouts, manifests, audit, events);
@@ -98,18 +102,21 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
 
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  app.set('trust proxy', config.trustProxy);
   app.use(
     helmet({
       contentSecurityPolicy: {
         directives: {
           // Angular Material injects component styles at run time.
           'style-src': ["'self'", "'unsafe-inline'"],
-          'connect-src': ["'self'", 'ws:', 'wss:'],
+          // 'self' covers ws:/wss: to this same host (CSP level 3); no other host is reachable.
+          'connect-src': ["'self'"],
           'img-src': ["'self'", 'data:', 'blob:'],
           'upgrade-insecure-requests': config.cookieSecure ? [] : null,
         },
       },
+      // HSTS only when the app is served over HTTPS (COOKIE_SECURE=true); over plain HTTP it is meaningless.
+      strictTransportSecurity: config.cookieSecure,
     }),
   );
   app.use(express.json({ limit: '1mb' }));
@@ -126,16 +133,25 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   });
 
   const api = express.Router();
-  api.use(csrfProtection({ secret: config.sessionSecret, secureCookie: config.cookieSecure }));
-  api.get('/health', (_req, res) => {
-    res.json({ status: 'ok', service: 'equilight' });
+  // API answers are per person and change all the time: no browser or proxy may keep them.
+  api.use((_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
   });
+  const csrf = createCsrfProtection({
+    secret: config.sessionSecret,
+    secureCookie: config.cookieSecure,
+    sessionCookie: SESSION_COOKIE,
+    publicUrl: config.publicUrl,
+  });
+  api.use(csrf.middleware);
+  api.get('/health', health.handler());
   const openApi = buildOpenApiDocument(config.publicUrl);
   api.get('/openapi.json', (_req, res) => {
     res.json(openApi);
   });
   api.use(sessionParser, passport.initialize(), passport.session());
-  api.use('/auth', authRouter(passport, users, config.loginRateLimit));
+  api.use('/auth', authRouter(passport, users, config.loginRateLimit, csrf.issue));
   api.use('/users', usersRouter(users, config.publicUrl));
   api.use('/instruments', instrumentsRouter(instruments, config.uploadMaxBytes));
   api.use('/ingest', ingestRouter(ingest, instruments, config.uploadMaxBytes));
@@ -160,7 +176,9 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
     events,
     mail,
     worker,
+    health,
     async start() {
+      for (const problem of await health.checkAtStart()) log(`Start check: ${problem}`);
       await mail.start();
       await worker.start();
       await ingest.recoverUnqueued();

@@ -1,3 +1,4 @@
+import net from 'node:net';
 import path from 'node:path';
 import { z } from 'zod';
 
@@ -8,6 +9,36 @@ import { z } from 'zod';
 const booleanText = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
   .transform((value) => value === 'true' || value === '1' || value === 'yes');
+
+/**
+ * Which proxies may set X-Forwarded-For (Express' `trust proxy`): a hop count, or addresses, subnets and
+ * the names loopback / linklocal / uniquelocal, comma-separated. `true` (trust anyone) is refused: a
+ * client could then choose its own address and escape the sign-in limit.
+ */
+const trustProxyText = z
+  .string()
+  .trim()
+  .refine((value) => {
+    if (/^(false|none|)$/i.test(value) || /^\d+$/.test(value)) return true;
+    return value.split(',').every((part) => {
+      const item = part.trim();
+      if (['loopback', 'linklocal', 'uniquelocal'].includes(item)) return true;
+      const [address, prefix, ...rest] = item.split('/');
+      return (
+        rest.length === 0 &&
+        net.isIP(address ?? '') !== 0 &&
+        (prefix === undefined || /^\d{1,3}$/.test(prefix))
+      );
+    });
+  }, 'name the proxy: a hop count, or addresses/subnets (e.g. 10.0.0.5, 10.0.0.0/8, loopback), comma-separated')
+  .transform((value): false | number | string => {
+    if (/^(false|none|)$/i.test(value)) return false;
+    if (/^\d+$/.test(value)) return Number(value);
+    return value
+      .split(',')
+      .map((part) => part.trim())
+      .join(',');
+  });
 
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -28,6 +59,7 @@ const envSchema = z.object({
   UPLOAD_MAX_MB: z.coerce.number().positive().max(512).default(20),
   WEB_DIST_DIR: z.string().optional(),
   PUBLIC_URL: z.string().url().optional(),
+  TRUST_PROXY: trustProxyText.default(false),
   SMTP_URL: z
     .string()
     .regex(/^smtps?:\/\//, 'must start with smtp:// or smtps://')
@@ -55,6 +87,8 @@ export interface AppConfig {
   /** Folder of the built Angular app; served with an index.html fallback when it exists. */
   webDistDir: string;
   publicUrl: string;
+  /** Express `trust proxy`: false (the default) ignores X-Forwarded-For; otherwise the named proxies. */
+  trustProxy: false | number | string;
   mail: MailConfig;
 }
 
@@ -107,6 +141,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
     uploadMaxBytes: Math.round(e.UPLOAD_MAX_MB * 1024 * 1024),
     webDistDir: path.resolve(cwd, e.WEB_DIST_DIR ?? 'dist/web/browser'),
     publicUrl: e.PUBLIC_URL ?? `http://localhost:${e.PORT}`,
+    trustProxy: e.TRUST_PROXY,
     mail: {
       smtpUrl: e.SMTP_URL ?? null,
       from: e.MAIL_FROM,

@@ -2,6 +2,7 @@ import http from 'node:http';
 import { createApp } from './app';
 import { ConfigError, loadConfig } from './config';
 import { openDatabase } from './database/data-source';
+import { DatabaseProblemError } from './database/integrity';
 import { attachLiveEvents } from './events/live-events';
 import { seedDemoInstruments } from './seed/demo-instruments';
 import { seedDemoScenario } from './seed/demo-scenario';
@@ -54,6 +55,6 @@ async function main(): Promise<void> {
 }
 
 main().catch((err: unknown) => {
-  console.error(err instanceof ConfigError ? err.message : err);
+  console.error(err instanceof ConfigError || err instanceof DatabaseProblemError ? err.message : err);
   process.exit(1);
 });

@@ -1,8 +1,9 @@
-import { Router, type Request } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type { PassportStatic } from 'passport';
 import { AppError } from '../common/app-error';
 import { validateBody } from '../common/validate';
+import { emailKeyOf } from '../users/email-address';
 import { type User, toPublicUser } from '../users/user.entity';
 import type { UsersService } from '../users/users.service';
 import { loginSchema, setPasswordSchema } from './auth.schema';
@@ -22,6 +23,8 @@ export function authRouter(
   passport: PassportStatic,
   users: UsersService,
   limits: { max: number; windowMs: number },
+  /** Issue the XSRF token for the session now in force: sign-in and sign-out change the session. */
+  newXsrfToken: (res: Response, sessionId: string) => void,
 ): Router {
   const router = Router();
   const loginLimiter = rateLimit({
@@ -32,8 +35,7 @@ export function authRouter(
     // Only failed attempts count: a lab signing in all day is not an attack.
     skipSuccessfulRequests: true,
     // Per address and account: one person mistyping does not lock out the lab's shared address.
-    keyGenerator: (req) =>
-      `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '').toLowerCase()}`,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${emailKeyOf(req.body)}`,
     handler: (_req, _res, next) =>
       next(
         new AppError(
@@ -47,6 +49,7 @@ export function authRouter(
   router.post('/login', loginLimiter, validateBody(loginSchema), async (req, res) => {
     const user = await authenticate(passport, req);
     await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
+    newXsrfToken(res, req.sessionID);
     res.json(toPublicUser(user));
   });
 
@@ -54,6 +57,7 @@ export function authRouter(
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())));
     await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
     res.clearCookie('equilight.sid');
+    newXsrfToken(res, '');
     res.status(204).end();
   });
 
@@ -63,7 +67,9 @@ export function authRouter(
   });
 
   router.post('/set-password', loginLimiter, validateBody(setPasswordSchema), async (req, res) => {
-    res.json(await users.setPasswordWithToken(req.body.token, req.body.password));
+    // A signed-in person redeeming a link for their own account keeps this session; every other one ends.
+    const keep = req.user ? req.sessionID : undefined;
+    res.json(await users.setPasswordWithToken(req.body.token, req.body.password, keep));
   });
 
   return router;

@@ -1,12 +1,12 @@
 import { z } from 'zod';
+import { normaliseEmail } from '../users/email-address';
 import { passwordSchema } from '../users/users.schema';
 
 export const loginSchema = z.strictObject({
   email: z
     .string({ message: 'email is required' })
-    .trim()
-    .min(1, 'is required')
-    .max(254, 'must be at most 254 characters'),
+    .transform(normaliseEmail)
+    .pipe(z.string().min(1, 'is required').max(254, 'must be at most 254 characters')),
   password: z
     .string({ message: 'password is required' })
     .min(1, 'is required')

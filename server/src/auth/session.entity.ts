@@ -12,4 +12,9 @@ export class SessionRow {
 
   @Column('text')
   data!: string;
+
+  /** The signed-in person (from passport's session data); null before sign-in. */
+  @Index('idx_sessions_user_id')
+  @Column('integer', { name: 'user_id', nullable: true })
+  userId!: number | null;
 }

@@ -4,6 +4,11 @@ import { SessionRow } from './session.entity';
 
 type Callback = (err?: unknown) => void;
 
+function ownerOf(sess: session.SessionData): number | null {
+  const user = (sess as { passport?: { user?: unknown } }).passport?.user;
+  return typeof user === 'number' ? user : null;
+}
+
 /** express-session store on our own TypeORM entity, so it works on SQLite and PostgreSQL alike. */
 export class TypeOrmSessionStore extends session.Store {
   private readonly pruneTimer: NodeJS.Timeout;
@@ -35,7 +40,9 @@ export class TypeOrmSessionStore extends session.Store {
 
   override set(sid: string, sess: session.SessionData, callback?: Callback): void {
     this.repository
-      .upsert({ sid, expiresAt: this.expiry(sess), data: JSON.stringify(sess) }, ['sid'])
+      .upsert({ sid, expiresAt: this.expiry(sess), data: JSON.stringify(sess), userId: ownerOf(sess) }, [
+        'sid',
+      ])
       .then(() => callback?.())
       .catch((err) => callback?.(err));
   }
@@ -52,6 +59,17 @@ export class TypeOrmSessionStore extends session.Store {
       .delete({ sid })
       .then(() => callback?.())
       .catch((err) => callback?.(err));
+  }
+
+  /** End every session of a person except the one given (the one making the change, if it is theirs). */
+  async destroyAllOf(userId: number, exceptSid?: string): Promise<number> {
+    const query = this.repository
+      .createQueryBuilder()
+      .delete()
+      .from(SessionRow)
+      .where('user_id = :userId', { userId });
+    if (exceptSid) query.andWhere('sid <> :exceptSid', { exceptSid });
+    return (await query.execute()).affected ?? 0;
   }
 
   async prune(): Promise<void> {

@@ -14,6 +14,7 @@ import { Layout, LayoutVersion } from '../layouts/layout.entity';
 import { Manifest, ManifestVersion } from '../manifests/manifest.entity';
 import { JobRow } from '../queue/job.entity';
 import { User } from '../users/user.entity';
+import { assertDatabaseFileNotEmpty, assertQuickCheckPasses, openFailure } from './integrity';
 import { migrations } from './migrations';
 
 export const entities = [
@@ -56,10 +57,30 @@ export function createDataSource(config: Pick<AppConfig, 'database'>): DataSourc
   return new DataSource(options);
 }
 
-/** Open the database and bring its schema up to date. */
+/**
+ * Open the database and bring its schema up to date. A SQLite file is checked first: an existing empty
+ * file and a file that fails `PRAGMA quick_check` are refused with a DatabaseProblemError (before any
+ * migration or seed writes into it).
+ */
 export async function openDatabase(config: Pick<AppConfig, 'database'>): Promise<DataSource> {
+  if (config.database.type === 'sqlite') assertDatabaseFileNotEmpty(config.database.file);
   const dataSource = createDataSource(config);
-  await dataSource.initialize();
+  if (config.database.type === 'sqlite') {
+    const file = config.database.file;
+    try {
+      await dataSource.initialize();
+    } catch (err) {
+      throw openFailure(file, err);
+    }
+    try {
+      await assertQuickCheckPasses(dataSource, file);
+    } catch (err) {
+      await dataSource.destroy();
+      throw err;
+    }
+  } else {
+    await dataSource.initialize();
+  }
   await dataSource.runMigrations({ transaction: 'each' });
   return dataSource;
 }

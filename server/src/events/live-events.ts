@@ -17,6 +17,16 @@ function refuse(socket: Duplex, status: number, reason: string): void {
   socket.destroy();
 }
 
+/** No Origin (not a browser) or one naming this host; an Origin that does not parse is foreign. */
+function isSameOrigin(origin: string | undefined, host: string | undefined): boolean {
+  if (origin === undefined) return true;
+  try {
+    return new URL(origin).host === host;
+  } catch {
+    return false;
+  }
+}
+
 /** The signed-in, active user of an upgrade request, found through the same session cookie as the API. */
 function sessionUserId(
   sessionParser: RequestHandler,
@@ -44,8 +54,7 @@ export function attachLiveEvents(
     void (async () => {
       const url = new URL(req.url ?? '/', 'http://placeholder');
       if (url.pathname !== LIVE_EVENTS_PATH) return refuse(socket, 404, 'Not Found');
-      const origin = req.headers.origin;
-      if (origin && new URL(origin).host !== req.headers.host) return refuse(socket, 403, 'Forbidden');
+      if (!isSameOrigin(req.headers.origin, req.headers.host)) return refuse(socket, 403, 'Forbidden');
       const userId = await sessionUserId(deps.sessionParser, req);
       const user = userId ? await deps.users.findById(userId) : null;
       if (!user || !user.active) return refuse(socket, 401, 'Unauthorized');

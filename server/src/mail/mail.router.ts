@@ -3,6 +3,7 @@ import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import { requireRole, requireSignedIn } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues, idParam, validateBody } from '../common/validate';
+import { emailKeyOf } from '../users/email-address';
 import type { UsersService } from '../users/users.service';
 import { RESET_PASSWORD_TTL_HOURS } from '../users/users.service';
 import { passwordResetMail } from './mail-templates';
@@ -71,10 +72,7 @@ export function forgotPasswordRouter(
     limit: Math.max(1, Math.min(5, limits.max)),
     standardHeaders: 'draft-7',
     legacyHeaders: false,
-    keyGenerator: (req) =>
-      `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown })?.email ?? '')
-        .trim()
-        .toLowerCase()}`,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${emailKeyOf(req.body)}`,
     handler: (_req, _res, next) => next(tooMany()),
   });
   const perAddress = rateLimit({

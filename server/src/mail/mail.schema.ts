@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { emailSchema } from '../users/users.schema';
 
 export const notificationSettingsSchema = z.strictObject({
   batchComplete: z.boolean().optional(),
@@ -7,7 +8,7 @@ export const notificationSettingsSchema = z.strictObject({
 });
 
 export const forgotPasswordSchema = z.strictObject({
-  email: z.string().trim().toLowerCase().max(254).pipe(z.email('must be an e-mail address')),
+  email: emailSchema,
 });
 
 export const outboxQuerySchema = z.strictObject({

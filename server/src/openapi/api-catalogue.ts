@@ -48,9 +48,10 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     method: 'get',
     path: '/api/health',
     tag: 'system',
-    summary: 'Liveness check',
+    summary:
+      'Health: touches the database; status ok, or degraded with reasons (503 when the database does not answer)',
     access: 'public',
-    success: [200, 'The server is up'],
+    success: [200, 'The server is up: {status: ok} or {status: degraded, reasons: [...]}'],
   },
   {
     method: 'post',

@@ -22,12 +22,33 @@ export interface TestApp extends EquilightApp {
   dir: string;
   /** A supertest agent that keeps cookies and sends the XSRF header, optionally signed in. */
   agent(role?: keyof typeof DEMO_EMAILS): Promise<TestAgent>;
+  /** Shut down and remove the data folder. */
   stop(): Promise<void>;
+  /** Shut down and keep the data folder (to inspect it, damage it, or start on it again). */
+  shutDown(): Promise<void>;
+}
+
+/**
+ * Make an agent behave like the web app: whenever a response sets a new XSRF-TOKEN cookie (the first
+ * visit, sign-in, sign-out), later requests echo that value in X-XSRF-TOKEN.
+ */
+export function followXsrfCookie(a: TestAgent): void {
+  const agent = a as unknown as { _saveCookies(res: { headers: Record<string, unknown> }): void };
+  const save = agent._saveCookies.bind(a);
+  agent._saveCookies = (res) => {
+    save(res);
+    const xsrf = /XSRF-TOKEN=([^;]+)/.exec(String(res.headers['set-cookie'] ?? ''))?.[1];
+    if (xsrf) a.set('X-XSRF-TOKEN', decodeURIComponent(xsrf));
+  };
 }
 
 /** A real app on a real SQLite file in a temporary folder, seeded with the demo people. */
-export async function startTestApp(env: Record<string, string> = {}): Promise<TestApp> {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-test-'));
+export async function startTestApp(
+  env: Record<string, string> = {},
+  /** An existing data folder to start on again (a restart); by default a new temporary one. */
+  existingDir?: string,
+): Promise<TestApp> {
+  const dir = existingDir ?? fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-test-'));
   const config = loadConfig({
     NODE_ENV: 'test',
     DATA_DIR: dir,
@@ -42,16 +63,19 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
 
   const agent = async (role?: keyof typeof DEMO_EMAILS): Promise<TestAgent> => {
     const a = request.agent(equilight.app);
-    const first = await a.get('/api/health');
-    const xsrf = /XSRF-TOKEN=([^;]+)/.exec(String(first.headers['set-cookie'] ?? ''))?.[1];
-    if (!xsrf) throw new Error('no XSRF cookie issued');
-    a.set('X-XSRF-TOKEN', decodeURIComponent(xsrf));
+    followXsrfCookie(a);
+    await a.get('/api/health');
     if (role) {
       const res = await a.post('/api/auth/login').send({ email: DEMO_EMAILS[role], password: DEMO_PASSWORD });
       if (res.status !== 200)
         throw new Error(`sign-in as ${role} failed: ${res.status} ${JSON.stringify(res.body)}`);
     }
     return a;
+  };
+
+  const shutDown = async (): Promise<void> => {
+    await equilight.close();
+    if (dataSource.isInitialized) await dataSource.destroy();
   };
 
   return {
@@ -61,9 +85,9 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
     dir,
     agent,
     async stop() {
-      await equilight.close();
-      await dataSource.destroy();
+      await shutDown();
       fs.rmSync(dir, { recursive: true, force: true });
     },
+    shutDown,
   };
 }

@@ -1,12 +1,11 @@
 import { z } from 'zod';
+import { normaliseEmail } from './email-address';
 import { ROLES } from './user.entity';
 
-const email = z
+export const emailSchema = z
   .string()
-  .trim()
-  .max(254, 'must be at most 254 characters')
-  .pipe(z.email('must be an e-mail address'))
-  .transform((value) => value.toLowerCase());
+  .transform(normaliseEmail)
+  .pipe(z.string().max(254, 'must be at most 254 characters').pipe(z.email('must be an e-mail address')));
 const displayName = z.string().trim().min(1, 'is required').max(120, 'must be at most 120 characters');
 export const passwordSchema = z
   .string()
@@ -15,7 +14,7 @@ export const passwordSchema = z
 const role = z.enum(ROLES as [string, ...string[]], { message: `must be one of ${ROLES.join(', ')}` });
 
 export const createUserSchema = z.strictObject({
-  email,
+  email: emailSchema,
   displayName,
   role,
   /** Without a password the person is invited: they set one through a one-time link. */

@@ -2,6 +2,7 @@ import crypto from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import type { DataSource, Repository } from 'typeorm';
 import { AppError } from '../common/app-error';
+import { normaliseEmail } from './email-address';
 import { type PublicUser, type Role, User, toPublicUser } from './user.entity';
 import type { CreateUserInput, UpdateUserInput } from './users.schema';
 
@@ -27,12 +28,20 @@ export interface CreatedUser {
   setPasswordToken?: string;
 }
 
+/** Ends a person's sessions (the session store); absent where no sessions exist, e.g. in scripts. */
+export interface SessionEnder {
+  destroyAllOf(userId: number, exceptSessionId?: string): Promise<number>;
+}
+
 /** People: who may sign in, with which role. */
 export class UsersService {
   private readonly users: Repository<User>;
   private readonly invitationListeners: ((user: PublicUser, token: string) => void)[] = [];
 
-  constructor(dataSource: DataSource) {
+  constructor(
+    dataSource: DataSource,
+    private readonly sessions?: SessionEnder,
+  ) {
     this.users = dataSource.getRepository(User);
   }
 
@@ -51,7 +60,7 @@ export class UsersService {
 
   /** Check an e-mail and password; answers the same vague message for every failure. */
   async verifyCredentials(email: string, password: string): Promise<User> {
-    const user = await this.users.findOneBy({ email: email.trim().toLowerCase() });
+    const user = await this.users.findOneBy({ email: normaliseEmail(email) });
     // Compare against a dummy hash when there is no user so timing does not reveal who exists.
     dummyHash ??= bcrypt.hashSync('no such person', BCRYPT_ROUNDS);
     const hash = user?.passwordHash ?? dummyHash;
@@ -63,11 +72,12 @@ export class UsersService {
   }
 
   async create(input: CreateUserInput): Promise<CreatedUser> {
-    if (await this.users.existsBy({ email: input.email })) {
-      throw AppError.conflict(`A person with e-mail ${input.email} already exists.`);
+    const email = normaliseEmail(input.email);
+    if (await this.users.existsBy({ email })) {
+      throw AppError.conflict(`A person with e-mail ${email} already exists.`);
     }
     const user = this.users.create({
-      email: input.email,
+      email,
       displayName: input.displayName,
       role: input.role as Role,
       active: true,
@@ -97,7 +107,7 @@ export class UsersService {
    * null when there is no such person (the caller must not reveal which).
    */
   async issueResetToken(email: string): Promise<{ user: PublicUser; token: string } | null> {
-    const user = await this.users.findOneBy({ email: email.trim().toLowerCase() });
+    const user = await this.users.findOneBy({ email: normaliseEmail(email) });
     if (!user || !user.active) return null;
     const token = crypto.randomBytes(24).toString('base64url');
     await this.users.update(
@@ -128,16 +138,28 @@ export class UsersService {
     return toPublicUser(user);
   }
 
-  /** Redeem a one-time invitation or reset token. */
-  async setPasswordWithToken(token: string, password: string): Promise<PublicUser> {
-    const user = await this.users.findOneBy({ setPasswordTokenHash: sha256(token) });
-    if (!user || !user.setPasswordExpiresAt || Number(user.setPasswordExpiresAt) < Date.now()) {
-      throw AppError.badRequest('This link is invalid or has expired; ask an administrator for a new one.');
-    }
-    user.passwordHash = await hashPassword(password);
-    user.setPasswordTokenHash = null;
-    user.setPasswordExpiresAt = null;
-    await this.users.save(user);
-    return toPublicUser(user);
+  /**
+   * Redeem a one-time invitation or reset token. The token is consumed by one conditional update (still
+   * pending, not expired), so of several simultaneous uses exactly one succeeds. Afterwards every session
+   * of that person ends, except `keepSessionId` (the request's own session when it is theirs).
+   */
+  async setPasswordWithToken(token: string, password: string, keepSessionId?: string): Promise<PublicUser> {
+    const invalid = (): AppError =>
+      AppError.badRequest('This link is invalid or has expired; ask an administrator for a new one.');
+    const tokenHash = sha256(token);
+    const user = await this.users.findOneBy({ setPasswordTokenHash: tokenHash });
+    if (!user) throw invalid();
+    const passwordHash = await hashPassword(password);
+    const consumed = await this.users
+      .createQueryBuilder()
+      .update(User)
+      .set({ passwordHash, setPasswordTokenHash: null, setPasswordExpiresAt: null })
+      .where('id = :id', { id: user.id })
+      .andWhere('set_password_token_hash = :tokenHash', { tokenHash })
+      .andWhere('set_password_expires_at > :now', { now: Date.now() })
+      .execute();
+    if (consumed.affected !== 1) throw invalid();
+    await this.sessions?.destroyAllOf(user.id, keepSessionId);
+    return toPublicUser({ ...user, passwordHash, setPasswordTokenHash: null, setPasswordExpiresAt: null });
   }
 }
