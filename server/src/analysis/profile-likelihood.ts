@@ -23,7 +23,7 @@ export interface ProfileOptions {
   initialStep?: number;
   /** Bisection stops when the bracket is narrower than this. Default 1e-5. */
   tolerance?: number;
-  /** Bisection steps at most, per limit. Default 60. */
+  /** Bracketing steps at most, per limit. Default 60. */
   maxBisections?: number;
 }
 
@@ -32,7 +32,8 @@ export interface ProfileOptions {
  * θ is inside the 1 − α region when S(θ) ≤ S(θ̂)·(1 + F(1, ν; 1 − α)/ν), S(θ) the residual sum of
  * squares re-minimised over the other parameters and ν = n − p; F(1, ν; 1 − α) = t(1 − α/2, ν)².
  * The one-sided 95 % bounds use the two-sided 90 % threshold, t(0.95, ν)². Each limit is found by
- * stepping outward from θ̂ with doubling steps, then bisection; a side whose profile stays below the
+ * stepping outward from θ̂ with doubling steps, then the bracket around each crossing is narrowed by the
+ * Illinois method (regula falsi with halving of the stale end); a side whose profile stays below the
  * threshold to the end of `range` is reported as unbounded (null).
  *
  * For a model linear in θ the limits equal θ̂ ± t·SE exactly (used as the check against NIST data).
@@ -102,12 +103,31 @@ export function profileInterval(
   const limit = (visited: readonly number[], threshold: number): number | null => {
     const k = visited.findIndex((theta, i) => i > 0 && s(theta) > threshold);
     if (k < 0) return null;
+    // Illinois (modified regula falsi) on S(θ) − threshold: the profile is smooth, so this needs a few
+    // evaluations where bisection needs a dozen or more; the bracket always holds the crossing.
     let a = visited[k - 1];
     let b = visited[k];
+    let fa = s(a) - threshold;
+    let fb = s(b) - threshold;
+    if (!Number.isFinite(fb)) fb = Math.max(1, Math.abs(fa)) * 1e6;
+    let side = 0;
     for (let i = 0; i < maxBisections && Math.abs(b - a) > tolerance; i++) {
-      const mid = (a + b) / 2;
-      if (s(mid) > threshold) b = mid;
-      else a = mid;
+      let c = (a * fb - b * fa) / (fb - fa);
+      if (!(c > Math.min(a, b) && c < Math.max(a, b))) c = (a + b) / 2;
+      let fc = s(c) - threshold;
+      if (!Number.isFinite(fc)) fc = Math.max(1, Math.abs(fa)) * 1e6;
+      if (fc > 0) {
+        b = c;
+        fb = fc;
+        if (side === 1) fa /= 2;
+        side = 1;
+      } else {
+        a = c;
+        fa = fc;
+        if (side === -1) fb /= 2;
+        side = -1;
+      }
+      if (fc === 0) return c;
     }
     return (a + b) / 2;
   };
