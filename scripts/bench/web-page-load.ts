@@ -1,0 +1,170 @@
+/**
+ * Page load of one batch page in Chromium: navigation → K and the plate map on screen, bytes on the wire
+ * and long tasks, with a cold cache (a fresh browser context per run) and a warm one (same context).
+ * Used by web-p4.ts (npm run bench:web).
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { DEMO_PASSWORD, REPO_ROOT } from '../../web/e2e/support/server-process';
+
+export interface LoadRun {
+  /** ms from the navigation's time origin until K and the plate map were in the DOM and a frame ran. */
+  kVisibleMs: number;
+  /** Encoded (compressed) bytes received, headers included; cached responses count 0. */
+  bytes: number;
+  /** Long tasks (> 50 ms) from navigation until one second after K showed, ms each. */
+  longTasksMs: number[];
+}
+
+export interface LoadFigures {
+  cold: LoadRun[];
+  warm: LoadRun[];
+  /** The analysis request alone from the signed-in page, ms (median of the runs). */
+  analysisFloorMs: number;
+  batchId: number;
+}
+
+const SETTLE_MS = 1000;
+
+/** Runs in the page before its own scripts: records long tasks and the moment K and the map show. */
+const PAGE_PROBE = `(() => {
+  const w = window;
+  w.__eqLong = [];
+  w.__eqK = null;
+  try {
+    new PerformanceObserver((list) => list.getEntries().forEach((e) => w.__eqLong.push(e.duration)))
+      .observe({ type: 'longtask', buffered: true });
+  } catch (e) {}
+  const check = () => {
+    if (w.__eqK !== null) return;
+    const k = document.querySelector('[data-testid="best-k-value"]');
+    const map = document.querySelector('[data-testid="plate-map"]');
+    if (k && map && k.textContent && k.textContent.trim() && map.getBoundingClientRect().height > 0) {
+      w.__eqK = -1;
+      requestAnimationFrame(() => { w.__eqK = performance.now(); });
+    }
+  };
+  new MutationObserver(check).observe(document, { childList: true, subtree: true, characterData: true });
+})();`;
+
+export const median = (xs: readonly number[]): number => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = Math.floor(s.length / 2);
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+};
+
+async function signedInContext(browser: Browser, url: string, email: string): Promise<BrowserContext> {
+  const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+  await ctx.request.get(`${url}/api/auth/me`);
+  const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
+  const res = await ctx.request.post(`${url}/api/auth/login`, {
+    data: { email, password: DEMO_PASSWORD },
+    headers: { 'X-XSRF-TOKEN': xsrf },
+  });
+  if (!res.ok()) throw new Error(`sign-in as ${email}: ${res.status()} ${await res.text()}`);
+  return ctx;
+}
+
+/** Sends the demo instrument's three 25 °C exports in as a signed-in upload and waits until all are stored. */
+async function fillDemo25(ctx: BrowserContext, url: string): Promise<number> {
+  const batches = (await (await ctx.request.get(`${url}/api/batches`)).json()) as {
+    id: number;
+    name: string;
+    runId: string;
+    profileId: number;
+    fileCount: number;
+  }[];
+  const batch = batches.find((b) => b.runId === 'CX-25');
+  if (!batch) throw new Error('The demo 25 °C batch (run CX-25) is missing: start with SEED_DEMO=true.');
+  const dir = path.join(REPO_ROOT, 'samples/demo/exports/cuvette-1');
+  for (const name of ['CX-25-part1.csv', 'CX-25-part2.csv', 'CX-25-part3.csv']) {
+    const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
+    const res = await ctx.request.post(`${url}/api/ingest`, {
+      headers: { 'X-XSRF-TOKEN': xsrf },
+      multipart: {
+        profileId: String(batch.profileId),
+        file: { name, mimeType: 'text/csv', buffer: fs.readFileSync(path.join(dir, name)) },
+      },
+    });
+    if (!res.ok()) throw new Error(`upload ${name}: ${res.status()} ${await res.text()}`);
+  }
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    const b = (await (await ctx.request.get(`${url}/api/batches/${batch.id}`)).json()) as {
+      fileCount: number;
+    };
+    if (b.fileCount >= 3) return batch.id;
+    if (Date.now() > deadline) throw new Error('The 25 °C exports were not stored within 60 s.');
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+async function measure(page: Page, url: string): Promise<LoadRun> {
+  const cdp = await page.context().newCDPSession(page);
+  await cdp.send('Network.enable');
+  await cdp.send('Network.setCacheDisabled', { cacheDisabled: false });
+  const received = new Map<string, number>();
+  cdp.on('Network.dataReceived', (e) =>
+    received.set(e.requestId, (received.get(e.requestId) ?? 0) + e.encodedDataLength),
+  );
+  cdp.on('Network.loadingFinished', (e) => received.set(e.requestId, e.encodedDataLength));
+  await page.goto(url);
+  await page.waitForFunction(
+    () => ((window as unknown as { __eqK: number | null }).__eqK ?? -1) > 0,
+    undefined,
+    {
+      timeout: 30_000,
+      polling: 20,
+    },
+  );
+  await page.waitForTimeout(SETTLE_MS);
+  const { k, long } = await page.evaluate(() => {
+    const w = window as unknown as { __eqK: number; __eqLong: number[] };
+    return { k: w.__eqK, long: [...w.__eqLong] };
+  });
+  await cdp.detach();
+  return { kVisibleMs: k, bytes: [...received.values()].reduce((a, b) => a + b, 0), longTasksMs: long };
+}
+
+/** Cold and warm page loads of the demo 25 °C batch as the demo scientist. */
+export async function measureBatchPageLoad(
+  browser: Browser,
+  url: string,
+  runs: number,
+): Promise<LoadFigures> {
+  const setup = await signedInContext(browser, url, 'scientist@equilight.test');
+  const batchId = await fillDemo25(setup, url);
+  const state = await setup.storageState();
+  await setup.close();
+  const pageUrl = `${url}/batches/${batchId}`;
+
+  const cold: LoadRun[] = [];
+  for (let i = 0; i < runs; i++) {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 }, storageState: state });
+    await ctx.addInitScript(PAGE_PROBE);
+    cold.push(await measure(await ctx.newPage(), pageUrl));
+    await ctx.close();
+  }
+
+  const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 }, storageState: state });
+  await ctx.addInitScript(PAGE_PROBE);
+  const page = await ctx.newPage();
+  await measure(page, pageUrl); // fills the cache
+  const warm: LoadRun[] = [];
+  const floors: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    await page.goto('about:blank');
+    warm.push(await measure(page, pageUrl));
+    floors.push(
+      await page.evaluate(async (id) => {
+        const started = performance.now();
+        const res = await fetch(`/api/batches/${id}/analysis`);
+        await res.json();
+        return performance.now() - started;
+      }, batchId),
+    );
+  }
+  await ctx.close();
+  return { cold, warm, analysisFloorMs: median(floors), batchId };
+}
