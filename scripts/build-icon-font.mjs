@@ -6,6 +6,7 @@
 // variation axes to what the app shows (outlined, weight 400, grade 0); optical size stays variable
 // because Chromium sets it from the font size.
 // Usage: node scripts/build-icon-font.mjs   (run by npm run build:web)
+import { Buffer } from 'node:buffer';
 import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';

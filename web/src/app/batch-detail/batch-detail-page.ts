@@ -43,13 +43,13 @@ import {
   describeEdits,
   effectiveExclusions,
   hasEdits,
-  runWhatIf,
   settingsPatch,
   wavelengthsOf,
   withExclusion,
   withoutExclusion,
 } from './what-if';
 import { type EpsilonSourceValue, type ExclusionRow, WhatIfPanel } from './what-if-panel';
+import { WhatIfRunner } from './what-if-runner';
 
 /** Quiet time after the last live event before the page asks again: a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -86,6 +86,7 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
   templateUrl: './batch-detail-page.html',
   styleUrl: './batch-detail-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  providers: [WhatIfRunner],
 })
 export class BatchDetailPage {
   private readonly service = inject(BatchDetailService);
@@ -93,6 +94,7 @@ export class BatchDetailPage {
   private readonly live = inject(LiveEventsService);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly whatIfRunner = inject(WhatIfRunner);
 
   /** Route parameter `:id` (component input binding). */
   readonly id = input.required<string>();
@@ -134,12 +136,14 @@ export class BatchDetailPage {
     { initialValue: [] as { id: number; name: string }[] },
   );
 
-  /** The what-if analysis, run in the browser once the edits settle; null when there are none. */
+  /** The what-if analysis, run in a worker once the edits settle; null when there are none. */
   protected readonly whatIf = toSignal(
     toObservable(computed(() => ({ data: this.data(), edits: this.edits() }))).pipe(
       debounceTime(WHAT_IF_DEBOUNCE_MS),
-      map(({ data, edits }) =>
-        data && hasEdits(edits) ? runWhatIf(data.readings, data.samples, data.settings, edits) : null,
+      switchMap(({ data, edits }) =>
+        data && hasEdits(edits)
+          ? this.whatIfRunner.run(data.readings, data.samples, data.settings, edits)
+          : of(null),
       ),
     ),
     { initialValue: null },

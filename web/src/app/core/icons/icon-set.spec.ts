@@ -17,8 +17,6 @@ function sourceFiles(dir: string): string[] {
   });
 }
 
-const quoted = (text: string): string[] =>
-  [...text.matchAll(/'([^']*)'|"([^"]*)"/g)].map((m) => m[1] ?? m[2]);
 /** The literal results of `{{ a ? 'x' : 'y' }}` (not the operands of a comparison). */
 const choices = (text: string): string[] =>
   [...text.matchAll(/[?:]\s*(?:'([^']*)'|"([^"]*)")/g)].map((m) => m[1] ?? m[2]);

@@ -1,0 +1,52 @@
+import fs from 'node:fs';
+import { launchChromium } from '../../web/e2e/support/browser';
+import { DEMO_PASSWORD, startServer } from '../../web/e2e/support/server-process';
+
+async function main() {
+  const server = await startServer({ SEED_DEMO: 'true', SMTP_STANDIN: 'false' });
+  const browser = await launchChromium();
+  try {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+    await ctx.request.get(`${server.url}/api/auth/me`);
+    const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
+    await ctx.request.post(`${server.url}/api/auth/login`, { data: { email: 'scientist@equilight.test', password: DEMO_PASSWORD }, headers: { 'X-XSRF-TOKEN': xsrf } });
+    const batches = (await (await ctx.request.get(`${server.url}/api/batches`)).json()) as { id: number; runId: string; profileId: number }[];
+    const b = batches.find((x) => x.runId === 'CX-25')!;
+    for (const name of ['CX-25-part1.csv', 'CX-25-part2.csv', 'CX-25-part3.csv']) {
+      await ctx.request.post(`${server.url}/api/ingest`, { headers: { 'X-XSRF-TOKEN': xsrf }, multipart: { profileId: String(b.profileId), file: { name, mimeType: 'text/csv', buffer: fs.readFileSync(`samples/demo/exports/cuvette-1/${name}`) } } });
+    }
+    await new Promise((r) => setTimeout(r, 3000));
+    const page = await ctx.newPage();
+    const cdp = await ctx.newCDPSession(page);
+    await cdp.send('Profiler.enable');
+    await cdp.send('Profiler.setSamplingInterval', { interval: 200 });
+    await cdp.send('Profiler.start');
+    await page.goto(`${server.url}/batches/${b.id}`);
+    await page.getByTestId('best-k-value').waitFor();
+    await page.waitForTimeout(1500);
+    const { profile } = await cdp.send('Profiler.stop');
+    fs.writeFileSync('/tmp/speed-prof/load.cpuprofile', JSON.stringify(profile));
+    // self time by function+url
+    const self = new Map<string, number>();
+    const byId = new Map(profile.nodes.map((n) => [n.id, n]));
+    const dt = profile.timeDeltas ?? [];
+    profile.samples!.forEach((id, i) => {
+      const n = byId.get(id)!;
+      const key = `${n.callFrame.functionName || '(anon)'} ${n.callFrame.url.split('/').pop()}:${n.callFrame.lineNumber}`;
+      self.set(key, (self.get(key) ?? 0) + (dt[i] ?? 0) / 1000);
+    });
+    const byUrl = new Map<string, number>();
+    profile.samples!.forEach((id, i) => {
+      const n = byId.get(id)!;
+      const key = n.callFrame.url.split('/').pop() || n.callFrame.functionName;
+      byUrl.set(key, (byUrl.get(key) ?? 0) + (dt[i] ?? 0) / 1000);
+    });
+    console.log([...self.entries()].sort((a, b) => b[1] - a[1]).slice(0, 30).map(([k, v]) => `${v.toFixed(0)} ms ${k}`).join('\n'));
+    console.log('--- by url');
+    console.log([...byUrl.entries()].sort((a, b) => b[1] - a[1]).slice(0, 20).map(([k, v]) => `${v.toFixed(0)} ms ${k}`).join('\n'));
+  } finally {
+    await browser.close();
+    await server.stop();
+  }
+}
+main();
