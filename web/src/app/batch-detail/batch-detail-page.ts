@@ -7,7 +7,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { MatTabsModule } from '@angular/material/tabs';
+import { MatTab, MatTabContent, MatTabGroup } from '@angular/material/tabs';
 import { RouterLink } from '@angular/router';
 import type { Exclusion } from '@equilight/analysis';
 import {
@@ -17,6 +17,7 @@ import {
   distinctUntilChanged,
   EMPTY,
   filter,
+  from,
   map,
   merge,
   of,
@@ -35,7 +36,7 @@ import { EquilibriumPanel } from './equilibrium-panel';
 import { formatNumber, kUnitOf } from './number-format';
 import { PlateMap } from './plate-map';
 import { QcPanel } from './qc-panel';
-import { ReasonDialog, type ReasonDialogData } from './reason-dialog';
+import type { ReasonDialogData } from './reason-dialog';
 import { UnknownsTable } from './unknowns-table';
 import {
   NO_EDITS,
@@ -74,7 +75,9 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
     MatCardModule,
     MatIconModule,
     MatProgressBarModule,
-    MatTabsModule,
+    MatTabGroup,
+    MatTab,
+    MatTabContent,
     BatchStateLabel,
     PlateMap,
     CalibrationPanel,
@@ -360,11 +363,20 @@ export class BatchDetailPage {
     }).subscribe((reason) => this.run(this.service.reopen(batch.id, reason), 'Reopened.'));
   }
 
+  /** The dialog (and its form fields) loads on first use, not with the page. */
   private askReason(data: ReasonDialogData) {
-    return this.dialog
-      .open<ReasonDialog, ReasonDialogData, string>(ReasonDialog, { data, width: '480px', maxWidth: '95vw' })
-      .afterClosed()
-      .pipe(filter((text): text is string => !!text));
+    return from(import('./reason-dialog')).pipe(
+      switchMap(({ ReasonDialog }) =>
+        this.dialog
+          .open<InstanceType<typeof ReasonDialog>, ReasonDialogData, string>(ReasonDialog, {
+            data,
+            width: '480px',
+            maxWidth: '95vw',
+          })
+          .afterClosed(),
+      ),
+      filter((text): text is string => !!text),
+    );
   }
 
   private run(request: ReturnType<BatchDetailService['review']>, done: string, after?: () => void): void {
