@@ -12,7 +12,8 @@
  * 3. A 384-well batch page in Debian's Chromium receiving 10 live events per second for 30 s (each a
  *    small export stored into the open batch): the count of long tasks (> 50 ms) and their total time.
  *    Floor in the same run: the same page for 30 s with no events.
- * Run: npm run build && npm run bench:web [-- --runs 3 --seconds 30 --rate 10 --skip-stream]
+ * Run: npm run build && npm run bench:web [-- --runs 3 --before <a build of the earlier code> --seconds 30
+ *      --rate 10 --skip-stream]
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -34,6 +35,11 @@ const SKIP_STREAM = process.argv.includes('--skip-stream');
 /** Writes this run's page-load figures as the "before" file (run once on the code before a change). */
 const RECORD_BEFORE = process.argv.includes('--record-before');
 const BEFORE_FILE = path.join(__dirname, 'web-p4-before.json');
+/** A build of the code before a change (its own server/dist and dist/web), measured in the same run. */
+const BEFORE_ROOT = (() => {
+  const i = process.argv.indexOf('--before');
+  return i >= 0 ? path.resolve(process.argv[i + 1]) : null;
+})();
 
 const AIM = { warmMs: 800, coldMs: 1200, coldKb: 600, longTaskMs: 50 };
 
@@ -54,10 +60,20 @@ function summarise(runs: readonly LoadRun[]): Summary {
   };
 }
 
-function printLoad(figures: LoadFigures): void {
-  const before = fs.existsSync(BEFORE_FILE)
-    ? (JSON.parse(fs.readFileSync(BEFORE_FILE, 'utf8')) as { measured: string; cold: Summary; warm: Summary })
-    : null;
+function printLoad(figures: LoadFigures, sameRun: LoadFigures | null): void {
+  const before = sameRun
+    ? {
+        measured: `same run, ${path.basename(BEFORE_ROOT ?? '')}`,
+        cold: summarise(sameRun.cold),
+        warm: summarise(sameRun.warm),
+      }
+    : fs.existsSync(BEFORE_FILE)
+      ? (JSON.parse(fs.readFileSync(BEFORE_FILE, 'utf8')) as {
+          measured: string;
+          cold: Summary;
+          warm: Summary;
+        })
+      : null;
   const ok = (pass: boolean) => (pass ? 'within aim' : 'OVER AIM');
   console.log(
     `P4c demo 25 °C batch page as the scientist, ${RUNS} runs per cache state (median); floor: the analysis request alone ${figures.analysisFloorMs.toFixed(0)} ms`,
@@ -75,7 +91,7 @@ function printLoad(figures: LoadFigures): void {
     const b = before?.[kind];
     if (b)
       console.log(
-        `          before (${before.measured}): K ${b.kMs.toFixed(0)} ms, ${b.kb.toFixed(1)} kB, ${b.longTasks} long tasks (longest ${b.maxLongTaskMs.toFixed(0)} ms) → K ${(b.kMs / now.kMs).toFixed(1)}× sooner, ${(b.kb / Math.max(now.kb, 0.1)).toFixed(1)}× fewer bytes`,
+        `          before (${before?.measured}): K ${b.kMs.toFixed(0)} ms, ${b.kb.toFixed(1)} kB, ${b.longTasks} long tasks (longest ${b.maxLongTaskMs.toFixed(0)} ms) → K ${(b.kMs / now.kMs).toFixed(1)}× sooner, ${(b.kb / Math.max(now.kb, 0.1)).toFixed(1)}× fewer bytes`,
       );
   }
   if (RECORD_BEFORE) {
@@ -154,9 +170,18 @@ async function main(): Promise<void> {
   );
 
   const server = await startServer({ SEED_DEMO: 'true', SMTP_STANDIN: 'false' });
+  const beforeServer = BEFORE_ROOT
+    ? await startServer({ SEED_DEMO: 'true', SMTP_STANDIN: 'false' }, BEFORE_ROOT)
+    : null;
   const browser = await launchChromium();
   try {
-    printLoad(await measureBatchPageLoad(browser, server.url, RUNS));
+    const [now, sameRunBefore] = await measureBatchPageLoad(
+      browser,
+      beforeServer ? [server.url, beforeServer.url] : [server.url],
+      RUNS,
+    );
+    await beforeServer?.stop();
+    printLoad(now, sameRunBefore ?? null);
     if (SKIP_STREAM) return;
     const page = await (await browser.newContext({ viewport: { width: 1280, height: 800 } })).newPage();
     await page.goto(`${server.url}/sign-in`);

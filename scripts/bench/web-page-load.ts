@@ -27,6 +27,8 @@ export interface LoadFigures {
 
 const SETTLE_MS = 1000;
 
+type StorageState = Awaited<ReturnType<BrowserContext['storageState']>>;
+
 /** Runs in the page before its own scripts: records long tasks and the moment K and the map show. */
 const PAGE_PROBE = `(() => {
   const w = window;
@@ -127,44 +129,62 @@ async function measure(page: Page, url: string): Promise<LoadRun> {
   return { kVisibleMs: k, bytes: [...received.values()].reduce((a, b) => a + b, 0), longTasksMs: long };
 }
 
-/** Cold and warm page loads of the demo 25 °C batch as the demo scientist. */
+/** Cold and warm page loads of the demo 25 °C batch as the demo scientist, on each server in turn. */
 export async function measureBatchPageLoad(
   browser: Browser,
-  url: string,
+  urls: readonly string[],
   runs: number,
-): Promise<LoadFigures> {
-  const setup = await signedInContext(browser, url, 'scientist@equilight.test');
-  const batchId = await fillDemo25(setup, url);
-  const state = await setup.storageState();
-  await setup.close();
-  const pageUrl = `${url}/batches/${batchId}`;
-
-  const cold: LoadRun[] = [];
-  for (let i = 0; i < runs; i++) {
+): Promise<LoadFigures[]> {
+  const targets: { url: string; batchId: number; state: StorageState; pageUrl: string }[] = [];
+  for (const url of urls) {
+    const setup = await signedInContext(browser, url, 'scientist@equilight.test');
+    const batchId = await fillDemo25(setup, url);
+    targets.push({ url, batchId, state: await setup.storageState(), pageUrl: `${url}/batches/${batchId}` });
+    await setup.close();
+  }
+  const figures: LoadFigures[] = targets.map((t) => ({
+    cold: [],
+    warm: [],
+    analysisFloorMs: 0,
+    batchId: t.batchId,
+  }));
+  const newContext = async (state: StorageState) => {
     const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 }, storageState: state });
     await ctx.addInitScript(PAGE_PROBE);
-    cold.push(await measure(await ctx.newPage(), pageUrl));
-    await ctx.close();
-  }
+    return ctx;
+  };
 
-  const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 }, storageState: state });
-  await ctx.addInitScript(PAGE_PROBE);
-  const page = await ctx.newPage();
-  await measure(page, pageUrl); // fills the cache
-  const warm: LoadRun[] = [];
-  const floors: number[] = [];
+  // Interleaved, so that a busy moment of the machine falls on every server alike.
   for (let i = 0; i < runs; i++) {
-    await page.goto('about:blank');
-    warm.push(await measure(page, pageUrl));
-    floors.push(
-      await page.evaluate(async (id) => {
-        const started = performance.now();
-        const res = await fetch(`/api/batches/${id}/analysis`);
-        await res.json();
-        return performance.now() - started;
-      }, batchId),
-    );
+    for (const [n, t] of targets.entries()) {
+      const ctx = await newContext(t.state);
+      figures[n].cold.push(await measure(await ctx.newPage(), t.pageUrl));
+      await ctx.close();
+    }
   }
-  await ctx.close();
-  return { cold, warm, analysisFloorMs: median(floors), batchId };
+  const warmPages: Page[] = [];
+  for (const t of targets) {
+    const page = await (await newContext(t.state)).newPage();
+    await measure(page, t.pageUrl); // fills the cache
+    warmPages.push(page);
+  }
+  const floors: number[][] = targets.map(() => []);
+  for (let i = 0; i < runs; i++) {
+    for (const [n, t] of targets.entries()) {
+      const page = warmPages[n];
+      await page.goto('about:blank');
+      figures[n].warm.push(await measure(page, t.pageUrl));
+      floors[n].push(
+        await page.evaluate(async (id) => {
+          const started = performance.now();
+          const res = await fetch(`/api/batches/${id}/analysis`);
+          await res.json();
+          return performance.now() - started;
+        }, t.batchId),
+      );
+    }
+  }
+  for (const page of warmPages) await page.context().close();
+  floors.forEach((f, n) => (figures[n].analysisFloorMs = median(f)));
+  return figures;
 }
