@@ -3,8 +3,11 @@ import path from 'node:path';
 import type { Express } from 'express';
 import expressStaticGzip from 'express-static-gzip';
 
-/** Angular's build names its output `name-HASH.ext` (8 base-32 characters); the compressed copies add .br/.gz. */
-const HASHED_FILE = /-[A-Z0-9]{8}\.[a-z0-9]+(\.br|\.gz)?$/;
+/**
+ * The build names its scripts, styles and fonts `name-HASH.ext` with 8 hash characters (base 32 from
+ * esbuild, base 64 URL-safe where chunks are merged); the compressed copies add .br/.gz.
+ */
+const HASHED_FILE = /-[A-Za-z0-9_-]{8}\.(?:js|mjs|css|woff2?|ttf)(?:\.br|\.gz)?$/;
 
 /** A hashed file never changes under its name, so it is kept a year; anything else is asked again each time. */
 export function cacheControlFor(filePath: string): string {

@@ -131,8 +131,12 @@ describe('serving the built web app', () => {
     expect(cacheControlFor('/dist/main-LRXLZWXJ.js')).toContain('immutable');
     expect(cacheControlFor('/dist/media/noto-sans-latin-400-normal-DUBPJEHV.woff2')).toContain('immutable');
     expect(cacheControlFor('/dist/chunk-EILUMGVL.js.br')).toContain('immutable');
+    expect(cacheControlFor('/dist/chunk-C0YipGyv.js')).toContain('immutable');
+    expect(cacheControlFor('/dist/chunk-Co7oOVk_.js.gz')).toContain('immutable');
+    expect(cacheControlFor('/dist/worker-DVFLHFE6.js')).toContain('immutable');
     expect(cacheControlFor('/dist/index.html')).toBe('no-cache');
     expect(cacheControlFor('/dist/favicon.svg')).toBe('no-cache');
     expect(cacheControlFor('/dist/3rdpartylicenses.txt')).toBe('no-cache');
+    expect(cacheControlFor('/dist/plate-template-download.csv')).toBe('no-cache');
   });
 });
