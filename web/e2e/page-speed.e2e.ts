@@ -154,8 +154,9 @@ describe('the batch page arrives compressed, with its icons, and analyses what-i
     expect(await page.locator('eq-equilibrium-panel').count()).toBe(0);
     await page.locator('.eq-bd__tabs').scrollIntoViewIfNeeded();
     await page.locator('eq-equilibrium-panel canvas').first().waitFor({ timeout: 20_000 });
-    await page.evaluate(() => window.scrollTo(0, 0));
-    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-25C-1280x800.png'), fullPage: true });
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-25C-1280x800-tabs.png') });
+    await page.locator('mat-sidenav-content').evaluate((el) => el.scrollTo(0, 0));
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-25C-1280x800.png') });
 
     await page.setViewportSize({ width: 390, height: 844 });
     await page.goto(`${server.url}/batches/${batchId}`);
