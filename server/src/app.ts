@@ -149,7 +149,7 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   api.use('/audit', auditRouter(audit));
   api.use('/temperatures', temperaturesRouter(new TemperaturesService(batches)));
   api.use(apiNotFound);
-  // JSON and CSV answers go out gzip'd or brotli'd when the client takes it (the analysis of a batch shrinks ~10×).
+  // JSON and CSV answers go out gzip'd or brotli'd when the client takes it (a batch's analysis, ~46 kB, goes out as ~9 kB).
   app.use('/api', compression(), api);
 
   serveWebApp(app, config.webDistDir);
