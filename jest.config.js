@@ -33,7 +33,11 @@ module.exports = {
       }),
       setupFilesAfterEnv: ['<rootDir>/web/src/setup-jest.ts'],
       testMatch: ['<rootDir>/web/src/**/*.spec.ts'],
-      moduleNameMapper: { '^@equilight/analysis$': '<rootDir>/server/src/analysis/index.ts' },
+      moduleNameMapper: {
+        '^@equilight/analysis$': '<rootDir>/server/src/analysis/index.ts',
+        // import.meta (new Worker(new URL(…))) does not load under CommonJS; jsdom has no Worker anyway.
+        '^\\./what-if-worker$': '<rootDir>/web/src/testing/no-web-worker.ts',
+      },
     },
     {
       displayName: 'browser',

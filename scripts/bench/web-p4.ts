@@ -1,19 +1,28 @@
 /**
- * P4, two figures:
+ * P4, three figures:
  * 1. Initial JavaScript of the built app (the scripts index.html loads and preloads), gzip'd, against a
  *    300 kB budget. Floor in the same run: the same chunks minified but not compressed (the ratio shows the
  *    compression), and angular.json enforces a raw-size budget on every build.
- * 2. A 384-well batch page in Debian's Chromium receiving 10 live events per second for 30 s (each a
+ * 2. Page load of the demo 25 °C batch as the demo scientist, cold cache (a fresh browser context per run)
+ *    and warm cache (the same context, after one visit), 3 runs each: navigation → K and the plate map on
+ *    screen, bytes transferred (compressed, as on the wire), and long tasks (> 50 ms) from navigation
+ *    until one second after K shows. Floor in the same run: the analysis request alone, fetched from the
+ *    signed-in page. Aims: K ≤ 800 ms warm and ≤ 1.2 s cold, ≤ 600 kB cold, no long task.
+ *    The figures before the page-speed work are in web-p4-before.json and printed beside.
+ * 3. A 384-well batch page in Debian's Chromium receiving 10 live events per second for 30 s (each a
  *    small export stored into the open batch): the count of long tasks (> 50 ms) and their total time.
  *    Floor in the same run: the same page for 30 s with no events.
- * Run: npm run build && npm run bench:web [-- --seconds 30 --rate 10]
+ * Run: npm run build && npm run bench:web [-- --runs 3 --before <a build of the earlier code> --seconds 30
+ *      --rate 10 --skip-stream]
  */
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import zlib from 'node:zlib';
 import type { Page } from 'playwright-core';
 import { launchChromium } from '../../web/e2e/support/browser';
 import { DEMO_PASSWORD, REPO_ROOT, startServer } from '../../web/e2e/support/server-process';
+import { type LoadFigures, type LoadRun, measureBatchPageLoad, median } from './web-page-load';
 
 const BUDGET_KB = 300;
 const option = (name: string, fallback: number): number => {
@@ -22,6 +31,89 @@ const option = (name: string, fallback: number): number => {
 };
 const SECONDS = option('seconds', 30);
 const RATE = option('rate', 10);
+const RUNS = option('runs', 3);
+const SKIP_STREAM = process.argv.includes('--skip-stream');
+/** Writes this run's page-load figures as the "before" file (run once on the code before a change). */
+const RECORD_BEFORE = process.argv.includes('--record-before');
+const BEFORE_FILE = path.join(__dirname, 'web-p4-before.json');
+/** A build of the code before a change (its own server/dist and dist/web), measured in the same run. */
+const BEFORE_ROOT = (() => {
+  const i = process.argv.indexOf('--before');
+  return i >= 0 ? path.resolve(process.argv[i + 1]) : null;
+})();
+
+const AIM = { warmMs: 800, coldMs: 1200, coldKb: 600, longTaskMs: 50 };
+
+interface Summary {
+  kMs: number;
+  kb: number;
+  longTasks: number;
+  maxLongTaskMs: number;
+  /** Long by CPU time (absent in figures recorded before it was measured). */
+  longCpuTasks?: number;
+  maxLongCpuTaskMs?: number;
+}
+
+function summarise(runs: readonly LoadRun[]): Summary {
+  const longs = runs.flatMap((r) => r.longTasksMs);
+  const cpu = runs.flatMap((r) => r.longTasksCpuMs);
+  return {
+    kMs: median(runs.map((r) => r.kVisibleMs)),
+    kb: median(runs.map((r) => r.bytes)) / 1024,
+    longTasks: longs.length,
+    maxLongTaskMs: longs.length ? Math.max(...longs) : 0,
+    longCpuTasks: cpu.length,
+    maxLongCpuTaskMs: cpu.length ? Math.max(...cpu) : 0,
+  };
+}
+
+function printLoad(figures: LoadFigures, sameRun: LoadFigures | null): void {
+  const before = sameRun
+    ? {
+        measured: `same run, ${path.basename(BEFORE_ROOT ?? '')}`,
+        cold: summarise(sameRun.cold),
+        warm: summarise(sameRun.warm),
+      }
+    : fs.existsSync(BEFORE_FILE)
+      ? (JSON.parse(fs.readFileSync(BEFORE_FILE, 'utf8')) as {
+          measured: string;
+          cold: Summary;
+          warm: Summary;
+        })
+      : null;
+  const ok = (pass: boolean) => (pass ? 'within aim' : 'OVER AIM');
+  console.log(
+    `P4c demo 25 °C batch page as the scientist, ${RUNS} runs per cache state (median); floor: the analysis request alone ${figures.analysisFloorMs.toFixed(0)} ms`,
+  );
+  for (const kind of ['cold', 'warm'] as const) {
+    const now = summarise(figures[kind]);
+    const aimMs = kind === 'cold' ? AIM.coldMs : AIM.warmMs;
+    const runs = figures[kind].map((r) => r.kVisibleMs.toFixed(0)).join(', ');
+    console.log(
+      `    ${kind}: navigation → K visible ${now.kMs.toFixed(0)} ms (runs ${runs}; aim ≤ ${aimMs}: ${ok(now.kMs <= aimMs)}; ${(now.kMs / figures.analysisFloorMs).toFixed(1)}× the floor)`,
+    );
+    console.log(
+      `          transferred ${now.kb.toFixed(1)} kB${kind === 'cold' ? ` (aim ≤ ${AIM.coldKb} kB: ${ok(now.kb <= AIM.coldKb)})` : ''}`,
+    );
+    console.log(
+      `          long tasks > ${AIM.longTaskMs} ms over ${RUNS} runs: ${now.longTasks} by wall time, longest ${now.maxLongTaskMs.toFixed(0)} ms (aim none: ${ok(now.longTasks === 0)}); ${now.longCpuTasks} by CPU time, longest ${now.maxLongCpuTaskMs?.toFixed(0)} ms (aim none: ${ok(now.longCpuTasks === 0)})`,
+    );
+    const b = before?.[kind];
+    if (b)
+      console.log(
+        `          before (${before?.measured}): K ${b.kMs.toFixed(0)} ms, ${b.kb.toFixed(1)} kB, ${b.longTasks} long tasks (longest ${b.maxLongTaskMs.toFixed(0)} ms)${b.longCpuTasks === undefined ? '' : `, ${b.longCpuTasks} by CPU (longest ${b.maxLongCpuTaskMs?.toFixed(0)} ms)`} → K ${(b.kMs / now.kMs).toFixed(1)}× sooner, ${(b.kb / Math.max(now.kb, 0.1)).toFixed(1)}× fewer bytes`,
+      );
+  }
+  if (RECORD_BEFORE) {
+    const record = {
+      measured: new Date().toISOString().slice(0, 10),
+      cold: summarise(figures.cold),
+      warm: summarise(figures.warm),
+    };
+    fs.writeFileSync(BEFORE_FILE, `${JSON.stringify(record, null, 2)}\n`);
+    console.log(`    recorded as the "before" figures in ${path.relative(REPO_ROOT, BEFORE_FILE)}`);
+  }
+}
 
 function initialJs(): { files: string[]; rawBytes: number; gzipBytes: number } {
   const dir = path.join(REPO_ROOT, 'dist/web/browser');
@@ -88,8 +180,22 @@ async function main(): Promise<void> {
   );
 
   const server = await startServer({ SEED_DEMO: 'true', SMTP_STANDIN: 'false' });
+  const beforeServer = BEFORE_ROOT
+    ? await startServer({ SEED_DEMO: 'true', SMTP_STANDIN: 'false' }, BEFORE_ROOT)
+    : null;
   const browser = await launchChromium();
   try {
+    const [now, sameRunBefore] = await measureBatchPageLoad(
+      browser,
+      beforeServer ? [server.url, beforeServer.url] : [server.url],
+      RUNS,
+    );
+    await beforeServer?.stop();
+    console.log(
+      `    machine load average while measuring: ${os.loadavg()[0].toFixed(1)} on ${os.cpus().length} cores`,
+    );
+    printLoad(now, sameRunBefore ?? null);
+    if (SKIP_STREAM) return;
     const page = await (await browser.newContext({ viewport: { width: 1280, height: 800 } })).newPage();
     await page.goto(`${server.url}/sign-in`);
     await page.getByLabel('E-mail').fill('admin@equilight.test');

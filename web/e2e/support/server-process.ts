@@ -27,17 +27,23 @@ async function freePort(): Promise<number> {
   });
 }
 
-/** Start the built server (server/dist, dist/web) as a real process on a temporary database. */
-export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
-  const main = path.join(REPO_ROOT, 'server/dist/main.js');
-  if (!fs.existsSync(main) || !fs.existsSync(path.join(REPO_ROOT, 'dist/web/browser/index.html'))) {
+/**
+ * Start the built server (server/dist, dist/web) as a real process on a temporary database; `root` is
+ * another checkout's build (a benchmark compares against the code before a change).
+ */
+export async function startServer(
+  env: Record<string, string> = {},
+  root = REPO_ROOT,
+): Promise<RunningServer> {
+  const main = path.join(root, 'server/dist/main.js');
+  if (!fs.existsSync(main) || !fs.existsSync(path.join(root, 'dist/web/browser/index.html'))) {
     throw new Error('Build first: npm run build (the browser tests run against the built app).');
   }
   const port = await freePort();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-e2e-'));
   let log = '';
   const child = spawn(process.execPath, [main], {
-    cwd: REPO_ROOT,
+    cwd: root,
     env: { ...process.env, NODE_ENV: 'test', PORT: String(port), DATA_DIR: dataDir, DEMO_PASSWORD, ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });

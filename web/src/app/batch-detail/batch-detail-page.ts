@@ -7,7 +7,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { MatTabsModule } from '@angular/material/tabs';
+import { MatTab, MatTabContent, MatTabGroup } from '@angular/material/tabs';
 import { RouterLink } from '@angular/router';
 import type { Exclusion } from '@equilight/analysis';
 import {
@@ -17,6 +17,7 @@ import {
   distinctUntilChanged,
   EMPTY,
   filter,
+  from,
   map,
   merge,
   of,
@@ -35,7 +36,7 @@ import { EquilibriumPanel } from './equilibrium-panel';
 import { formatNumber, kUnitOf } from './number-format';
 import { PlateMap } from './plate-map';
 import { QcPanel } from './qc-panel';
-import { ReasonDialog, type ReasonDialogData } from './reason-dialog';
+import type { ReasonDialogData } from './reason-dialog';
 import { UnknownsTable } from './unknowns-table';
 import {
   NO_EDITS,
@@ -43,13 +44,13 @@ import {
   describeEdits,
   effectiveExclusions,
   hasEdits,
-  runWhatIf,
   settingsPatch,
   wavelengthsOf,
   withExclusion,
   withoutExclusion,
 } from './what-if';
 import { type EpsilonSourceValue, type ExclusionRow, WhatIfPanel } from './what-if-panel';
+import { WhatIfRunner } from './what-if-runner';
 
 /** Quiet time after the last live event before the page asks again: a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -74,7 +75,9 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
     MatCardModule,
     MatIconModule,
     MatProgressBarModule,
-    MatTabsModule,
+    MatTabGroup,
+    MatTab,
+    MatTabContent,
     BatchStateLabel,
     PlateMap,
     CalibrationPanel,
@@ -86,6 +89,7 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
   templateUrl: './batch-detail-page.html',
   styleUrl: './batch-detail-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  providers: [WhatIfRunner],
 })
 export class BatchDetailPage {
   private readonly service = inject(BatchDetailService);
@@ -93,6 +97,7 @@ export class BatchDetailPage {
   private readonly live = inject(LiveEventsService);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly whatIfRunner = inject(WhatIfRunner);
 
   /** Route parameter `:id` (component input binding). */
   readonly id = input.required<string>();
@@ -134,12 +139,14 @@ export class BatchDetailPage {
     { initialValue: [] as { id: number; name: string }[] },
   );
 
-  /** The what-if analysis, run in the browser once the edits settle; null when there are none. */
+  /** The what-if analysis, run in a worker once the edits settle; null when there are none. */
   protected readonly whatIf = toSignal(
     toObservable(computed(() => ({ data: this.data(), edits: this.edits() }))).pipe(
       debounceTime(WHAT_IF_DEBOUNCE_MS),
-      map(({ data, edits }) =>
-        data && hasEdits(edits) ? runWhatIf(data.readings, data.samples, data.settings, edits) : null,
+      switchMap(({ data, edits }) =>
+        data && hasEdits(edits)
+          ? this.whatIfRunner.run(data.readings, data.samples, data.settings, edits)
+          : of(null),
       ),
     ),
     { initialValue: null },
@@ -356,11 +363,20 @@ export class BatchDetailPage {
     }).subscribe((reason) => this.run(this.service.reopen(batch.id, reason), 'Reopened.'));
   }
 
+  /** The dialog (and its form fields) loads on first use, not with the page. */
   private askReason(data: ReasonDialogData) {
-    return this.dialog
-      .open<ReasonDialog, ReasonDialogData, string>(ReasonDialog, { data, width: '480px', maxWidth: '95vw' })
-      .afterClosed()
-      .pipe(filter((text): text is string => !!text));
+    return from(import('./reason-dialog')).pipe(
+      switchMap(({ ReasonDialog }) =>
+        this.dialog
+          .open<InstanceType<typeof ReasonDialog>, ReasonDialogData, string>(ReasonDialog, {
+            data,
+            width: '480px',
+            maxWidth: '95vw',
+          })
+          .afterClosed(),
+      ),
+      filter((text): text is string => !!text),
+    );
   }
 
   private run(request: ReturnType<BatchDetailService['review']>, done: string, after?: () => void): void {

@@ -1,11 +1,4 @@
-import {
-  type AnalysisSettings,
-  type BatchResult,
-  type Exclusion,
-  type Reading,
-  type SampleDefinition,
-  analyzeBatch,
-} from '@equilight/analysis';
+import type { AnalysisSettings, BatchResult, Exclusion, Reading } from '@equilight/analysis';
 import type { BatchSettings } from '../batches/batch';
 
 /** Where ε of the complex comes from in a what-if: this batch's standards, or another batch's calibration. */
@@ -92,23 +85,6 @@ export interface WhatIfOutcome {
   error: string | null;
   /** Time the analysis took in the browser, ms. */
   elapsedMs: number;
-}
-
-/** Runs the shared analysis module on the batch's own readings and manifest with the edited settings. */
-export function runWhatIf(
-  readings: readonly Reading[],
-  samples: readonly SampleDefinition[],
-  saved: AnalysisSettings,
-  e: WhatIfEdits,
-): WhatIfOutcome {
-  const started = performance.now();
-  try {
-    const result = analyzeBatch(readings, samples, whatIfSettings(saved, e));
-    return { result, error: null, elapsedMs: performance.now() - started };
-  } catch (err) {
-    const message = err instanceof Error ? err.message : String(err);
-    return { result: null, error: message, elapsedMs: performance.now() - started };
-  }
 }
 
 /** The body of PUT /api/batches/:id/settings: only what the edits change. */

@@ -1,0 +1,227 @@
+/**
+ * Page load of one batch page in Chromium: navigation → K and the plate map on screen, bytes on the wire
+ * and long tasks, with a cold cache (a fresh browser context per run) and a warm one (same context).
+ * Used by web-p4.ts (npm run bench:web).
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { DEMO_PASSWORD, REPO_ROOT } from '../../web/e2e/support/server-process';
+
+export interface LoadRun {
+  /** ms from the navigation's time origin until K and the plate map were in the DOM and a frame ran. */
+  kVisibleMs: number;
+  /** Encoded (compressed) bytes received, headers included; cached responses count 0. */
+  bytes: number;
+  /** Long tasks (> 50 ms) from navigation until one second after K showed, ms each. */
+  longTasksMs: number[];
+  /**
+   * The page's main-thread tasks over 50 ms of CPU time (Chromium trace, thread time), in the same
+   * window: on a machine shared with other work a task's wall time also counts the time it waited for a
+   * core; its CPU time does not.
+   */
+  longTasksCpuMs: number[];
+}
+
+interface TraceEvent {
+  name: string;
+  ph: string;
+  pid: number;
+  tid: number;
+  dur?: number;
+  tdur?: number;
+  args?: { name?: string };
+}
+
+/** Main-thread tasks of renderer processes whose CPU time exceeds 50 ms, ms each. */
+function longCpuTasks(trace: Buffer): number[] {
+  const events = (JSON.parse(trace.toString('utf8')) as { traceEvents: TraceEvent[] }).traceEvents;
+  const mainThreads = new Set(
+    events
+      .filter((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain')
+      .map((e) => `${e.pid}:${e.tid}`),
+  );
+  return events
+    .filter((e) => e.ph === 'X' && e.name === 'RunTask' && mainThreads.has(`${e.pid}:${e.tid}`))
+    .map((e) => (e.tdur ?? 0) / 1000)
+    .filter((ms) => ms > 50);
+}
+
+export interface LoadFigures {
+  cold: LoadRun[];
+  warm: LoadRun[];
+  /** The analysis request alone from the signed-in page, ms (median of the runs). */
+  analysisFloorMs: number;
+  batchId: number;
+}
+
+const SETTLE_MS = 1000;
+
+type StorageState = Awaited<ReturnType<BrowserContext['storageState']>>;
+
+/** Runs in the page before its own scripts: records long tasks and the moment K and the map show. */
+const PAGE_PROBE = `(() => {
+  const w = window;
+  w.__eqLong = [];
+  w.__eqK = null;
+  try {
+    new PerformanceObserver((list) => list.getEntries().forEach((e) => w.__eqLong.push(e.duration)))
+      .observe({ type: 'longtask', buffered: true });
+  } catch (e) {}
+  const check = () => {
+    if (w.__eqK !== null) return;
+    const k = document.querySelector('[data-testid="best-k-value"]');
+    const map = document.querySelector('[data-testid="plate-map"]');
+    if (k && map && k.textContent && k.textContent.trim() && map.getBoundingClientRect().height > 0) {
+      w.__eqK = -1;
+      requestAnimationFrame(() => { w.__eqK = performance.now(); });
+    }
+  };
+  new MutationObserver(check).observe(document, { childList: true, subtree: true, characterData: true });
+})();`;
+
+export const median = (xs: readonly number[]): number => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = Math.floor(s.length / 2);
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+};
+
+async function signedInContext(browser: Browser, url: string, email: string): Promise<BrowserContext> {
+  const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+  await ctx.request.get(`${url}/api/auth/me`);
+  const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
+  const res = await ctx.request.post(`${url}/api/auth/login`, {
+    data: { email, password: DEMO_PASSWORD },
+    headers: { 'X-XSRF-TOKEN': xsrf },
+  });
+  if (!res.ok()) throw new Error(`sign-in as ${email}: ${res.status()} ${await res.text()}`);
+  return ctx;
+}
+
+/** Sends the demo instrument's three 25 °C exports in as a signed-in upload and waits until all are stored. */
+async function fillDemo25(ctx: BrowserContext, url: string): Promise<number> {
+  const batches = (await (await ctx.request.get(`${url}/api/batches`)).json()) as {
+    id: number;
+    name: string;
+    runId: string;
+    profileId: number;
+    fileCount: number;
+  }[];
+  const batch = batches.find((b) => b.runId === 'CX-25');
+  if (!batch) throw new Error('The demo 25 °C batch (run CX-25) is missing: start with SEED_DEMO=true.');
+  const dir = path.join(REPO_ROOT, 'samples/demo/exports/cuvette-1');
+  for (const name of ['CX-25-part1.csv', 'CX-25-part2.csv', 'CX-25-part3.csv']) {
+    const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
+    const res = await ctx.request.post(`${url}/api/ingest`, {
+      headers: { 'X-XSRF-TOKEN': xsrf },
+      multipart: {
+        profileId: String(batch.profileId),
+        file: { name, mimeType: 'text/csv', buffer: fs.readFileSync(path.join(dir, name)) },
+      },
+    });
+    if (!res.ok()) throw new Error(`upload ${name}: ${res.status()} ${await res.text()}`);
+  }
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    const b = (await (await ctx.request.get(`${url}/api/batches/${batch.id}`)).json()) as {
+      fileCount: number;
+    };
+    if (b.fileCount >= 3) return batch.id;
+    if (Date.now() > deadline) throw new Error('The 25 °C exports were not stored within 60 s.');
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+async function measure(browser: Browser, page: Page, url: string): Promise<LoadRun> {
+  const cdp = await page.context().newCDPSession(page);
+  await cdp.send('Network.enable');
+  await cdp.send('Network.setCacheDisabled', { cacheDisabled: false });
+  const received = new Map<string, number>();
+  cdp.on('Network.dataReceived', (e) =>
+    received.set(e.requestId, (received.get(e.requestId) ?? 0) + e.encodedDataLength),
+  );
+  cdp.on('Network.loadingFinished', (e) => received.set(e.requestId, e.encodedDataLength));
+  await browser.startTracing(page, { categories: ['toplevel', 'disabled-by-default-devtools.timeline'] });
+  await page.goto(url);
+  await page.waitForFunction(
+    () => ((window as unknown as { __eqK: number | null }).__eqK ?? -1) > 0,
+    undefined,
+    {
+      timeout: 30_000,
+      polling: 20,
+    },
+  );
+  await page.waitForTimeout(SETTLE_MS);
+  const trace = await browser.stopTracing();
+  const { k, long } = await page.evaluate(() => {
+    const w = window as unknown as { __eqK: number; __eqLong: number[] };
+    return { k: w.__eqK, long: [...w.__eqLong] };
+  });
+  await cdp.detach();
+  return {
+    kVisibleMs: k,
+    bytes: [...received.values()].reduce((a, b) => a + b, 0),
+    longTasksMs: long,
+    longTasksCpuMs: longCpuTasks(trace),
+  };
+}
+
+/** Cold and warm page loads of the demo 25 °C batch as the demo scientist, on each server in turn. */
+export async function measureBatchPageLoad(
+  browser: Browser,
+  urls: readonly string[],
+  runs: number,
+): Promise<LoadFigures[]> {
+  const targets: { url: string; batchId: number; state: StorageState; pageUrl: string }[] = [];
+  for (const url of urls) {
+    const setup = await signedInContext(browser, url, 'scientist@equilight.test');
+    const batchId = await fillDemo25(setup, url);
+    targets.push({ url, batchId, state: await setup.storageState(), pageUrl: `${url}/batches/${batchId}` });
+    await setup.close();
+  }
+  const figures: LoadFigures[] = targets.map((t) => ({
+    cold: [],
+    warm: [],
+    analysisFloorMs: 0,
+    batchId: t.batchId,
+  }));
+  const newContext = async (state: StorageState) => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 }, storageState: state });
+    await ctx.addInitScript(PAGE_PROBE);
+    return ctx;
+  };
+
+  // Interleaved, so that a busy moment of the machine falls on every server alike.
+  for (let i = 0; i < runs; i++) {
+    for (const [n, t] of targets.entries()) {
+      const ctx = await newContext(t.state);
+      figures[n].cold.push(await measure(browser, await ctx.newPage(), t.pageUrl));
+      await ctx.close();
+    }
+  }
+  const warmPages: Page[] = [];
+  for (const t of targets) {
+    const page = await (await newContext(t.state)).newPage();
+    await measure(browser, page, t.pageUrl); // fills the cache
+    warmPages.push(page);
+  }
+  const floors: number[][] = targets.map(() => []);
+  for (let i = 0; i < runs; i++) {
+    for (const [n, t] of targets.entries()) {
+      const page = warmPages[n];
+      await page.goto('about:blank');
+      figures[n].warm.push(await measure(browser, page, t.pageUrl));
+      floors[n].push(
+        await page.evaluate(async (id) => {
+          const started = performance.now();
+          const res = await fetch(`/api/batches/${id}/analysis`);
+          await res.json();
+          return performance.now() - started;
+        }, t.batchId),
+      );
+    }
+  }
+  for (const page of warmPages) await page.context().close();
+  floors.forEach((f, n) => (figures[n].analysisFloorMs = median(f)));
+  return figures;
+}
