@@ -14,7 +14,10 @@ export interface MoleRatioResult {
   varied: 'A' | 'B';
   /** Varied ÷ fixed at the intersection of the rising line and the plateau; null when none meets. */
   breakRatio: number | null;
-  /** The candidate "a:b" whose ratio (b/a when B varies, a/b when A varies) is nearest the break, on a log scale. */
+  /**
+   * The candidate "a:b" whose ratio (b/a when B varies, a/b when A varies) is nearest the break on a log
+   * scale — only within 1.5-fold and inside the series' range; else null.
+   */
   nearestModel: string | null;
   absorbanceAtBreak: number | null;
   /** Measured absorbance nearest the break ÷ the lines' intersection (1 = a sharp corner). */
@@ -74,12 +77,16 @@ export function moleRatioAnalysis(
     (rising, plateau) => rising.slope > 0 && plateau.slope < 0.5 * rising.slope,
   );
   if (!best || !(best.x > 0)) return none('no rising line and plateau meet: the series shows no break');
+  // The break names a candidate only when it lies within 1.5-fold of that candidate's ratio and the
+  // series has points on both sides of it (an excess-only series shows no combining ratio).
+  const lowest = pts[0].ratio;
+  const highest = pts[n - 1].ratio;
   let nearest: string | null = null;
   let dist = Infinity;
   for (const c of candidates) {
     const ratio = varied === 'B' ? c.b / c.a : c.a / c.b;
     const d = Math.abs(Math.log(ratio / best.x));
-    if (d < dist) {
+    if (d < dist && d < Math.log(1.5) && lowest < ratio && highest > ratio) {
       dist = d;
       nearest = c.label;
     }
@@ -93,6 +100,8 @@ export function moleRatioAnalysis(
     sharpness: best.sharpness,
     rising: branchOf(best.left),
     plateau: branchOf(best.right),
-    message: `the rising line and the plateau meet at ${varied}:${varied === 'B' ? 'A' : 'B'} = ${best.x.toFixed(2)}`,
+    message:
+      `the rising line and the plateau meet at ${varied}:${varied === 'B' ? 'A' : 'B'} = ${best.x.toFixed(2)}` +
+      (nearest ? '' : ', near no candidate ratio inside the series'),
   };
 }

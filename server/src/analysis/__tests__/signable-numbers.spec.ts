@@ -133,6 +133,15 @@ describe('mole-ratio method', () => {
     expect(a.nearestModel).toBe('2:1');
   });
 
+  it('names no stoichiometry from an excess-only series (no combining ratio inside it; invented)', () => {
+    // Moderate 1:1 binding, B from 5- to 40-fold excess: a curve that bends but holds no B:A = b/a point.
+    const r = moleRatioAnalysis(
+      [5, 10, 15, 20, 30, 40].map((ratio) => ({ ratio, absorbance: (0.5 * ratio) / (ratio + 12) })),
+      'B',
+    );
+    expect(r.nearestModel).toBeNull();
+  });
+
   it('recognises a series with one reactant held', () => {
     const series = findMoleRatioSeries(
       [1, 2, 3, 4, 5, 6].map((i) => ({ a0M: 1e-4, b0M: i * 5e-5 })).concat([{ a0M: 3e-4, b0M: 1e-4 }]),
