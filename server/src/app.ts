@@ -113,6 +113,8 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
           // 'self' covers ws:/wss: to this same host (CSP level 3); no other host is reachable.
           'connect-src': ["'self'"],
           'img-src': ["'self'", 'data:', 'blob:'],
+          // Fonts ship with the app: nothing from another host.
+          'font-src': ["'self'", 'data:'],
           'upgrade-insecure-requests': config.cookieSecure ? [] : null,
         },
       },

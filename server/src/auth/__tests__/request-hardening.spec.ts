@@ -166,6 +166,7 @@ describe('requests from browsers and instruments', () => {
       const res = await request(t.app).get('/api/health');
       const csp = String(res.headers['content-security-policy']);
       expect(csp).toMatch(/connect-src 'self'(;|$)/);
+      expect(csp).toMatch(/font-src 'self' data:(;|$)/);
       expect(csp).not.toMatch(/\bwss?:/);
     });
 
