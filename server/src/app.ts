@@ -74,6 +74,9 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
   const passport = createPassport(users);
   const events = new EventBus();
+  // Sign-out, deactivation and role changes end live connections (events/live-events.ts).
+  store.on('ended', (sessionId: string) => events.publishAccessChange({ kind: 'session-ended', sessionId }));
+  users.onAccessChange((userId) => events.publishAccessChange({ kind: 'person-changed', userId }));
   const audit = new AuditService(dataSource);
   const instruments = new InstrumentsService(dataSource, audit);
   const queue = new SqliteJobQueue<IngestJobData>('ingest', dataSource);
