@@ -36,6 +36,7 @@ import { temperaturesRouter } from './temperatures/temperatures.router';
 import { TemperaturesService } from './temperatures/temperatures.service';
 import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
+import { closeWorkers, configureWorkers } from './workers';
 
 export const SESSION_COOKIE = 'equilight.sid';
 
@@ -70,6 +71,7 @@ export interface EquilightApp {
 
 /** Build the Express app without listening: tests drive it with supertest. */
 export function createApp({ config, dataSource, log = console.error }: AppContext): EquilightApp {
+  configureWorkers(config.workers);
   const users = new UsersService(dataSource);
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
   const passport = createPassport(users);
@@ -170,6 +172,7 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
     },
     async close() {
       await worker.close();
+      await closeWorkers();
       await queue.close();
       await mail.close();
       store.close();

@@ -35,6 +35,8 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default('Equilight <equilight@localhost>'),
   SMTP_STANDIN: booleanText.optional(),
   SMTP_STANDIN_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+  WORKER_THREADS: z.coerce.number().int().min(1).max(16).default(2),
+  WORKERS_IN_THREAD_FOR_TESTS: booleanText.default(false),
 });
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
@@ -56,6 +58,8 @@ export interface AppConfig {
   webDistDir: string;
   publicUrl: string;
   mail: MailConfig;
+  /** Worker threads for parsing and analysis (server/src/workers). */
+  workers: { threads: number; inThreadForTests: boolean };
 }
 
 export interface MailConfig {
@@ -88,6 +92,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
           e.DATABASE_URL?.slice('sqlite:'.length) || path.join(dataDir, 'equilight.sqlite'),
         ),
       };
+  if (e.WORKERS_IN_THREAD_FOR_TESTS && e.NODE_ENV !== 'test') {
+    throw new ConfigError('Invalid configuration:\n  WORKERS_IN_THREAD_FOR_TESTS: only with NODE_ENV=test');
+  }
   if (e.NODE_ENV === 'production' && !e.SESSION_SECRET) {
     throw new ConfigError('Invalid configuration:\n  SESSION_SECRET: required when NODE_ENV=production');
   }
@@ -113,5 +120,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       standIn: e.SMTP_STANDIN ?? e.NODE_ENV !== 'production',
       standInPort: e.SMTP_STANDIN_PORT ?? (e.NODE_ENV === 'test' ? 0 : 2525),
     },
+    workers: { threads: e.WORKER_THREADS, inThreadForTests: e.WORKERS_IN_THREAD_FOR_TESTS },
   };
 }

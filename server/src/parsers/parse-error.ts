@@ -60,10 +60,13 @@ export class ParseError extends Error {
   readonly line?: number;
   readonly column?: string | number;
   readonly expected?: string;
+  /** What the error was made from: enough to make the same error again on another thread. */
+  readonly details: ParseErrorDetails;
 
   constructor(details: ParseErrorDetails) {
     super(formatMessage(details));
     this.name = 'ParseError';
+    this.details = { ...details };
     this.file = details.file;
     this.line = details.line;
     this.column = details.column;
