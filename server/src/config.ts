@@ -35,7 +35,7 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default('Equilight <equilight@localhost>'),
   SMTP_STANDIN: booleanText.optional(),
   SMTP_STANDIN_PORT: z.coerce.number().int().min(0).max(65535).optional(),
-  WORKER_THREADS: z.coerce.number().int().min(1).max(16).default(2),
+  WORKER_THREADS: z.coerce.number().int().min(2).max(16).default(2),
   WORKERS_IN_THREAD_FOR_TESTS: booleanText.default(false),
 });
 

@@ -8,7 +8,7 @@ import { AppError } from '../common/app-error';
 import { ParseError } from '../parsers/parse-error';
 import type { ParseRulesInput } from '../parsers/parse-rules';
 import { MAX_MONTE_CARLO_DRAWS, MAX_QUEUED_TASKS, WORKER_STORE_MIN_READINGS } from './limits';
-import { handleTask, type ParseOutcome, type StoreTarget, type WorkerTask } from './tasks';
+import { closeConnections, handleTask, type ParseOutcome, type StoreTarget, type WorkerTask } from './tasks';
 
 export type { ReadingColumns } from './reading-columns';
 export { fromColumns, READING_COLUMNS, rowValues } from './reading-columns';
@@ -17,19 +17,25 @@ export type { StoreTarget } from './tasks';
 export { MAX_MONTE_CARLO_DRAWS, MAX_QUEUED_TASKS, WORKER_STORE_MIN_READINGS } from './limits';
 
 /**
- * Parsing and analysis off the main thread: a small pool of worker threads (piscina), so that one big
- * file or one heavy analysis never holds up other requests (or the health check). Limits: limits.ts.
+ * Parsing and analysis off the main thread, so that one big file or one heavy analysis never holds up
+ * other requests (or the health check). Two small piscina pools: one thread for incoming files (so a
+ * queue of analyses never delays a file), the other threads for analyses, at a lower CPU priority.
+ * Limits: limits.ts.
  */
 
 export interface WorkerOptions {
-  /** Worker threads at most; the lab server is small (2 cores): the default is 2. */
+  /** Worker threads in all (at least 2): one for files, the rest for analyses. Default 2 (a 2-core server). */
   threads: number;
   /** Run tasks on the calling thread instead. Only for tests that ask for it (WORKERS_IN_THREAD_FOR_TESTS). */
   inThreadForTests: boolean;
 }
 
 let options: WorkerOptions = { threads: 2, inThreadForTests: false };
-let pool: Piscina | undefined;
+/** Nice value of analysis threads (see tasks.ts): the main thread comes first. */
+const ANALYSIS_NICE = 10;
+
+type PoolName = 'files' | 'analyses';
+const pools = new Map<PoolName, Piscina>();
 
 /** Set at start (createApp); a pool already running keeps its size until closed. */
 export function configureWorkers(next: WorkerOptions): void {
@@ -38,9 +44,10 @@ export function configureWorkers(next: WorkerOptions): void {
 
 /** Stop the worker threads (server shutdown). The next task starts a new pool. */
 export async function closeWorkers(): Promise<void> {
-  const closing = pool;
-  pool = undefined;
-  await closing?.destroy();
+  const closing = [...pools.values()];
+  pools.clear();
+  await Promise.all(closing.map((p) => p.destroy()));
+  closeConnections(); // in-thread tasks' database connections
 }
 
 /**
@@ -59,26 +66,29 @@ function workerFile(): { filename: string; execArgv: string[] } {
   };
 }
 
-function thePool(): Piscina {
-  if (!pool) {
+function pool(name: PoolName): Piscina {
+  let found = pools.get(name);
+  if (!found) {
     const { filename, execArgv } = workerFile();
-    pool = new Piscina({
+    found = new Piscina({
       filename,
       name: 'handleTask',
       execArgv,
       minThreads: 0,
-      maxThreads: options.threads,
+      maxThreads: name === 'files' ? 1 : Math.max(1, options.threads - 1),
       idleTimeout: 60_000,
       maxQueue: MAX_QUEUED_TASKS,
+      workerData: { nice: name === 'analyses' ? ANALYSIS_NICE : 0 },
     });
+    pools.set(name, found);
   }
-  return pool;
+  return found;
 }
 
 async function run<T>(task: WorkerTask): Promise<T> {
   if (options.inThreadForTests) return (await handleTask(task)) as T;
   try {
-    return (await thePool().run(task)) as T;
+    return (await pool(task.kind === 'parse' ? 'files' : 'analyses').run(task)) as T;
   } catch (err) {
     if (/queue is at limit/i.test((err as Error).message)) {
       throw new AppError('busy', 503, 'The server is busy with other analyses; try again in a moment.');

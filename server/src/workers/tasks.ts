@@ -1,3 +1,6 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import { isMainThread, workerData } from 'node:worker_threads';
 import Database from 'better-sqlite3';
 import { analyzeBatch } from '../analysis/batch';
 import type { BatchResult } from '../analysis/batch-types';
@@ -13,6 +16,23 @@ import { READING_COLUMNS, type ReadingColumns, rowValues, toColumns } from './re
  * The work done off the main thread. Only pure modules (analysis, parsers) and better-sqlite3 are
  * imported here: no Express, no TypeORM. The same functions run in-thread when configured for tests.
  */
+
+/**
+ * Analysis threads run at a lower CPU priority (`workerData.nice`), so that busy analyses leave the main
+ * thread the CPU it needs to answer at once (Linux: a thread's own id takes a per-thread nice value;
+ * elsewhere, or without permission, nothing changes). Never the file thread: it holds SQLite's write
+ * lock while storing, and a starved lock holder would make the main thread wait.
+ */
+function lowerThreadPriority(nice: unknown): void {
+  if (isMainThread || typeof nice !== 'number' || nice <= 0 || process.platform !== 'linux') return;
+  try {
+    const threadId = Number(fs.readlinkSync('/proc/thread-self').split('/').pop());
+    if (Number.isInteger(threadId) && threadId > 0) os.setPriority(threadId, nice);
+  } catch {
+    // not allowed or not available: run at the normal priority
+  }
+}
+lowerThreadPriority((workerData as { nice?: unknown } | undefined)?.nice);
 
 /** Where a large file's readings go straight from the worker: the server's own SQLite file. */
 export interface StoreTarget {
@@ -52,8 +72,14 @@ export type ParseOutcome =
     }
   | { ok: false; parseError: ParseErrorDetails };
 
-/** Rows per storing transaction in the worker: each holds SQLite's write lock for a few tens of ms. */
-export const STORE_CHUNK_ROWS = 10_000;
+/** Rows per storing transaction in the worker: each holds SQLite's write lock for a few ms only. */
+export const STORE_CHUNK_ROWS = 1000;
+/**
+ * Pause between two chunks. SQLite's lock is not fair: a writer that takes it again at once starves the
+ * main thread, whose own writes (a session touched on every request) then wait in its busy handler,
+ * blocking every request. The pause leaves the lock free most of the time.
+ */
+export const STORE_PAUSE_MS = 10;
 
 const connections = new Map<string, Database.Database>();
 
@@ -69,12 +95,12 @@ function connection(file: string): Database.Database {
 }
 
 /**
- * A large file's readings, written by the worker in chunks of STORE_CHUNK_ROWS, after deleting any the
- * file had (a re-run after a crash). The rows stay invisible (analysis reads only files whose status
- * is final) until the main thread sets the status in its own transaction; a job that fails for good
- * deletes them again. Chunks keep the main thread's own writes waiting a few ms at most, never seconds.
+ * A large file's readings, written by the worker in chunks of STORE_CHUNK_ROWS with a pause between,
+ * after deleting any the file had (a re-run after a crash). The rows stay invisible (analysis reads only
+ * files whose status is final) until the main thread sets the status in its own transaction; a job that
+ * fails for good deletes them again. The main thread's own writes wait a few ms at most, never seconds.
  */
-export function storeReadings(target: StoreTarget, readings: ReadingColumns): void {
+export async function storeReadings(target: StoreTarget, readings: ReadingColumns): Promise<void> {
   const db = connection(target.sqliteFile);
   db.prepare('DELETE FROM readings WHERE intake_file_id = ?').run(target.intakeFileId);
   const insert = db.prepare(
@@ -84,6 +110,7 @@ export function storeReadings(target: StoreTarget, readings: ReadingColumns): vo
     for (let i = from; i < to; i++) insert.run(target.intakeFileId, ...rowValues(readings, i));
   });
   for (let from = 0; from < readings.count; from += STORE_CHUNK_ROWS) {
+    if (from > 0) await new Promise((resolve) => setTimeout(resolve, STORE_PAUSE_MS));
     chunk(from, Math.min(readings.count, from + STORE_CHUNK_ROWS));
   }
 }
@@ -99,7 +126,7 @@ async function parse(task: ParseTask): Promise<ParseOutcome> {
   }
   const columns = toColumns(run.readings);
   const store = task.store !== undefined && columns.count >= task.store.minReadings ? task.store : undefined;
-  if (store) storeReadings(store, columns);
+  if (store) await storeReadings(store, columns);
   return {
     ok: true,
     format: run.format,
