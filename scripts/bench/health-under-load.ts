@@ -146,14 +146,21 @@ async function json<T>(res: Promise<Response>): Promise<T> {
   return JSON.parse(text) as T;
 }
 
+let failedProbes = 0;
+
 /** Probe /api/health every PROBE_EVERY_MS until `stop()` says so; latencies in ms. */
 async function probeHealth(base: string, stop: () => boolean): Promise<number[]> {
   const latencies: number[] = [];
   while (!stop()) {
     const started = performance.now();
-    const res = await fetch(`${base}/api/health`);
-    await res.arrayBuffer();
-    if (!res.ok) throw new Error(`health answered ${res.status}`);
+    try {
+      const res = await fetch(`${base}/api/health`);
+      await res.arrayBuffer();
+      if (!res.ok) throw new Error(`health answered ${res.status}`);
+    } catch {
+      // A stalled server may drop the connection: the probe failed, after this long.
+      failedProbes++;
+    }
     const elapsed = performance.now() - started;
     latencies.push(elapsed);
     await sleep(Math.max(0, PROBE_EVERY_MS - elapsed));
@@ -227,6 +234,7 @@ async function main(): Promise<void> {
     );
     const uploadedMs = performance.now() - started;
     let analyses = 0;
+    const failures: string[] = [];
     let fileDone = false;
     const analysing = (async () => {
       // Keep four analyses in flight until the file has landed (at least one round).
@@ -235,6 +243,8 @@ async function main(): Promise<void> {
           Array.from({ length: ANALYSES_AT_ONCE }, (_, i) =>
             json(manager.request('GET', `/api/batches/${heavy[i % heavy.length]!.id}/analysis`)).then(
               () => analyses++,
+              // Counted and shown, not fatal: a stalled server may drop connections.
+              (err: unknown) => failures.push(String((err as Error).cause ?? err)),
             ),
           ),
         );
@@ -266,6 +276,11 @@ async function main(): Promise<void> {
       `  analyses: ${analyses} of demo batch(es) ${heavy.map((b) => b.id).join(', ')} with ` +
         `${MONTE_CARLO_DRAWS} Monte Carlo draws, ${ANALYSES_AT_ONCE} at a time; load over after ${(loadMs / 1000).toFixed(1)} s`,
     );
+    if (failedProbes > 0)
+      console.log(`  failed health probes (counted at the time they failed): ${failedProbes}`);
+    if (failures.length > 0) {
+      console.log(`  failed analysis requests: ${failures.length} (first: ${failures[0]!.slice(0, 120)})`);
+    }
     console.log(line('floor (no load)', floor));
     console.log(line('under load', load));
     const p99 = percentile(load, 99);
