@@ -15,6 +15,7 @@ import { RawFileArchive } from '../../server/src/ingest/archive';
 import { type IngestJobData, IngestService } from '../../server/src/ingest/ingest.service';
 import { InstrumentsService } from '../../server/src/instruments/instruments.service';
 import { SqliteJobQueue } from '../../server/src/queue/sqlite-queue';
+import { closeWorkers } from '../../server/src/workers';
 
 const REPEATS = 20;
 /** Untimed runs first, so both sides are measured with warm JIT code. */
@@ -146,6 +147,7 @@ async function main(): Promise<void> {
   console.log(`  floor (csv-parse + raw better-sqlite3 transaction)  ${f.toFixed(2)} ms`);
   console.log(`  ratio ${(e / f).toFixed(2)}x (aim <= 1.5x)`);
   floorDb.close();
+  await closeWorkers();
   await dataSource.destroy();
   fs.rmSync(dir, { recursive: true, force: true });
 }

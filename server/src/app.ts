@@ -38,6 +38,7 @@ import { TemperaturesService } from './temperatures/temperatures.service';
 import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
 import { serveWebApp } from './web-app/serve-web-app';
+import { closeWorkers, configureWorkers } from './workers';
 
 export const SESSION_COOKIE = 'equilight.sid';
 
@@ -74,10 +75,14 @@ export interface EquilightApp {
 
 /** Build the Express app without listening: tests drive it with supertest. */
 export function createApp({ config, dataSource, log = console.error }: AppContext): EquilightApp {
+  configureWorkers(config.workers);
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
   const users = new UsersService(dataSource, store);
   const passport = createPassport(users);
   const events = new EventBus();
+  // Sign-out, deactivation and role changes end live connections (events/live-events.ts).
+  store.on('ended', (sessionId: string) => events.publishAccessChange({ kind: 'session-ended', sessionId }));
+  users.onAccessChange((userId) => events.publishAccessChange({ kind: 'person-changed', userId }));
   const audit = new AuditService(dataSource);
   const instruments = new InstrumentsService(dataSource, audit);
   const queue = new SqliteJobQueue<IngestJobData>('ingest', dataSource);
@@ -189,6 +194,7 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
     },
     async close() {
       await worker.close();
+      await closeWorkers();
       await queue.close();
       await mail.close();
       store.close();

@@ -67,6 +67,8 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default('Equilight <equilight@localhost>'),
   SMTP_STANDIN: booleanText.optional(),
   SMTP_STANDIN_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+  WORKER_THREADS: z.coerce.number().int().min(2).max(16).default(2),
+  WORKERS_IN_THREAD_FOR_TESTS: booleanText.default(false),
 });
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
@@ -90,6 +92,8 @@ export interface AppConfig {
   /** Express `trust proxy`: false (the default) ignores X-Forwarded-For; otherwise the named proxies. */
   trustProxy: false | number | string;
   mail: MailConfig;
+  /** Worker threads for parsing and analysis (server/src/workers). */
+  workers: { threads: number; inThreadForTests: boolean };
 }
 
 export interface MailConfig {
@@ -122,6 +126,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
           e.DATABASE_URL?.slice('sqlite:'.length) || path.join(dataDir, 'equilight.sqlite'),
         ),
       };
+  if (e.WORKERS_IN_THREAD_FOR_TESTS && e.NODE_ENV !== 'test') {
+    throw new ConfigError('Invalid configuration:\n  WORKERS_IN_THREAD_FOR_TESTS: only with NODE_ENV=test');
+  }
   if (e.NODE_ENV === 'production' && !e.SESSION_SECRET) {
     throw new ConfigError('Invalid configuration:\n  SESSION_SECRET: required when NODE_ENV=production');
   }
@@ -148,5 +155,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       standIn: e.SMTP_STANDIN ?? e.NODE_ENV !== 'production',
       standInPort: e.SMTP_STANDIN_PORT ?? (e.NODE_ENV === 'test' ? 0 : 2525),
     },
+    workers: { threads: e.WORKER_THREADS, inThreadForTests: e.WORKERS_IN_THREAD_FOR_TESTS },
   };
 }

@@ -55,7 +55,7 @@ export async function placeWithoutOverwrite(
   name: string,
   { keepSource = false }: { keepSource?: boolean } = {},
 ): Promise<string> {
-  await fsp.mkdir(targetDir, { recursive: true });
+  await ensureRealDir(targetDir);
   for (let n = 0; n < 10_000; n++) {
     const target = path.join(targetDir, suffixedName(name, n));
     try {
@@ -73,6 +73,52 @@ export async function placeWithoutOverwrite(
     }
   }
   throw new Error(`no free name for ${name} in ${targetDir}`);
+}
+
+/**
+ * Move a symbolic link itself (never what it points at) into `targetDir`, under its own name or with a
+ * numeric suffix; never overwrites. The link is recreated with the same target text, then the old one is
+ * removed: nothing is read through it. Returns the path written.
+ */
+export async function moveLinkWithoutOverwrite(
+  link: string,
+  targetDir: string,
+  name: string,
+): Promise<string> {
+  const stat = await fsp.lstat(link);
+  if (!stat.isSymbolicLink()) throw new Error(`${link} is not a link`);
+  const pointsTo = await fsp.readlink(link);
+  const type = process.platform === 'win32' ? await linkType(link) : undefined;
+  await ensureRealDir(targetDir);
+  for (let n = 0; n < 10_000; n++) {
+    const target = path.join(targetDir, suffixedName(name, n));
+    try {
+      await fsp.symlink(pointsTo, target, type);
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code === 'EEXIST') continue;
+      throw err;
+    }
+    await fsp.unlink(link);
+    await fsyncDir(targetDir);
+    return target;
+  }
+  throw new Error(`no free name for ${name} in ${targetDir}`);
+}
+
+async function linkType(link: string): Promise<'dir' | 'file'> {
+  const target = await fsp.stat(link).catch(() => undefined);
+  return target?.isDirectory() ? 'dir' : 'file';
+}
+
+/** Create a folder the watcher writes into, refusing one that is a link (writing through it could land anywhere). */
+async function ensureRealDir(dir: string): Promise<void> {
+  await fsp.mkdir(dir, { recursive: true });
+  const stat = await fsp.lstat(dir);
+  if (!stat.isDirectory()) {
+    throw new Error(
+      `${dir} is ${stat.isSymbolicLink() ? 'a link' : 'not a folder'}; nothing is written through it`,
+    );
+  }
 }
 
 async function claimByLinkOrCopy(source: string, target: string): Promise<void> {

@@ -51,8 +51,9 @@ export class SettleTracker {
     let size: number;
     let mtimeMs: number;
     try {
-      const stat = await fsp.stat(file);
-      if (!stat.isFile()) throw new Error('not a file');
+      // lstat: a link settles as itself (and is refused later); it is never followed.
+      const stat = await fsp.lstat(file);
+      if (!stat.isFile() && !stat.isSymbolicLink()) throw new Error('not a file');
       ({ size, mtimeMs } = stat);
     } catch {
       // Deleted or renamed before it settled: nothing to send.

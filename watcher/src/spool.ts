@@ -119,7 +119,10 @@ export class Spool {
     return path.join(this.dir, `${entry.id}.bin`);
   }
 
-  /** Copy a file into the spool folder under a temporary name, hashing it on the way, and flush it. */
+  /**
+   * Copy a file into the spool folder under a temporary name, hashing it on the way, and flush it.
+   * The source is opened without following a link (where the platform allows it).
+   */
   async stage(source: string): Promise<StagedFile> {
     const tmpPath = path.join(this.dir, `${crypto.randomUUID()}.bin.tmp`);
     const hash = crypto.createHash('sha256');
@@ -132,7 +135,8 @@ export class Spool {
       },
     });
     try {
-      await pipeline(fs.createReadStream(source), tap, fs.createWriteStream(tmpPath, { flags: 'wx' }));
+      const input = await fsp.open(source, fs.constants.O_RDONLY | (fs.constants.O_NOFOLLOW ?? 0));
+      await pipeline(input.createReadStream(), tap, fs.createWriteStream(tmpPath, { flags: 'wx' }));
       const handle = await fsp.open(tmpPath, 'r+');
       try {
         await handle.sync();

@@ -5,7 +5,7 @@ import { type FSWatcher, watch } from 'chokidar';
 import { backoffDelayMs } from './backoff';
 import type { WatcherConfig } from './config';
 import { classifyDropPath } from './drop-paths';
-import { hashFile, placeWithoutOverwrite, writeFileAtomic } from './file-moves';
+import { hashFile, moveLinkWithoutOverwrite, placeWithoutOverwrite, writeFileAtomic } from './file-moves';
 import { consoleLogger, type WatcherLogger } from './logger';
 import { SettleTracker } from './settle';
 import { Spool, type SpoolEntry } from './spool';
@@ -27,6 +27,8 @@ export interface WatcherEvents {
   ];
   /** An upload will be tried again after `delayMs`. */
   retry: [entry: SpoolEntry, info: { delayMs: number; reason: string; httpStatus?: number }];
+  /** A link (or a file reached through one) was refused without being read; the link is in rejected/. */
+  refused: [info: { file: string; reason: string; movedTo: string | null }];
   /** Something went wrong locally (disk, permissions); nothing was lost and it is tried again. */
   problem: [info: { message: string }];
 }
@@ -81,6 +83,8 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
   private readonly background = new Set<Promise<void>>();
   private readonly timers = new Set<NodeJS.Timeout>();
   private readonly warned = new Set<string>();
+  /** The drop folder with every link in its own path resolved: files must really lie below it. */
+  private dropRealPath = '';
 
   constructor(
     private readonly config: WatcherConfig,
@@ -112,7 +116,14 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
         await fsp.mkdir(path.join(dropDir, folder), { recursive: true }).catch((err: Error) => {
           throw new Error(`cannot open the drop folder ${path.join(dropDir, folder)}: ${err.message}`);
         });
+        if ((await fsp.lstat(path.join(dropDir, folder))).isSymbolicLink()) {
+          this.warnOnce(
+            `link-folder:${folder}`,
+            `the instrument folder ${path.join(dropDir, folder)} is a link; links are never followed, so nothing in it is sent`,
+          );
+        }
       }
+      this.dropRealPath = await fsp.realpath(dropDir);
       const { entries, problems } = await this.spool.open();
       for (const problem of problems) this.report(problem);
       if (entries.length > 0) this.log.info(`resuming ${entries.length} file(s) from the spool`);
@@ -157,6 +168,8 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
     });
     this.fsw.on('add', (file) => this.settle.touch(file));
     this.fsw.on('change', (file) => this.settle.touch(file));
+    // A folder link is never entered (followSymlinks: false); it is refused like a file link.
+    this.fsw.on('addDir', (dir) => this.onFolderFound(dir));
     this.fsw.on('error', (err) => this.report(`watching the drop folder: ${(err as Error).message}`));
     await new Promise<void>((resolve) => this.fsw!.once('ready', () => resolve()));
     if (this.state === 'running') {
@@ -195,6 +208,18 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
 
   // ── drop folder → spool ────────────────────────────────────────────────────────────────────────
 
+  private onFolderFound(dir: string): void {
+    const where = classifyDropPath(this.config.dropDir, dir, new Set(this.tokens.keys()));
+    if (where.kind !== 'candidate' || this.state !== 'running') return;
+    const { folder, relativePath } = where;
+    this.runInBackground(
+      this.withPathLock(`${folder}/${relativePath}`, async () => {
+        const stat = await fsp.lstat(dir).catch(() => undefined);
+        if (stat?.isSymbolicLink()) await this.refuseLink(dir, folder, relativePath);
+      }),
+    );
+  }
+
   private onSettled(file: string, firstSeenAt: Date): void {
     const where = classifyDropPath(this.config.dropDir, file, new Set(this.tokens.keys()));
     if (where.kind !== 'candidate' || this.state !== 'running') return;
@@ -215,10 +240,22 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
     if (this.state !== 'running') return;
     const label = `${folder}/${relativePath}`;
     try {
-      const before = await fsp.stat(file).catch(() => undefined);
+      // Never through a link: lstat, a real path below the drop folder, and no other hard links.
+      const before = await fsp.lstat(file).catch(() => undefined);
+      if (before?.isSymbolicLink()) return await this.refuseLink(file, folder, relativePath);
       if (!before?.isFile()) return;
+      const real = await fsp.realpath(file).catch(() => undefined);
+      if (!real || !real.startsWith(this.dropRealPath + path.sep)) {
+        this.warnOnce(
+          `outside:${label}`,
+          `refused ${label}: it lies outside the drop folder when links are resolved; it is not read or sent`,
+        );
+        this.emit('refused', { file: label, reason: 'outside the drop folder', movedTo: null });
+        return;
+      }
+      if (before.nlink > 1) return await this.refuseLink(file, folder, relativePath, 'hard');
       const staged = await this.spool.stage(file);
-      const after = await fsp.stat(file).catch(() => undefined);
+      const after = await fsp.lstat(file).catch(() => undefined);
       if (!after) {
         await this.spool.discard(staged);
         return;
@@ -244,6 +281,44 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
       );
       this.later(LOCAL_RETRY_MS, () => this.settle.touch(file));
     }
+  }
+
+  /**
+   * Move a link (the link itself, never its target) to rejected/ with a reason. A file with other hard
+   * links is moved by name the same way (its other names are left alone). Nothing is read through it.
+   */
+  private async refuseLink(
+    file: string,
+    folder: string,
+    relativePath: string,
+    kind: 'symbolic' | 'hard' = 'symbolic',
+  ): Promise<void> {
+    const label = `${folder}/${relativePath}`;
+    const folderDir = path.join(this.config.dropDir, folder);
+    const rejectedDir = path.join(folderDir, 'rejected');
+    const name = path.posix.basename(relativePath);
+    const movedTo =
+      kind === 'symbolic'
+        ? await moveLinkWithoutOverwrite(file, rejectedDir, name)
+        : await placeWithoutOverwrite(file, rejectedDir, name);
+    const why =
+      kind === 'symbolic'
+        ? 'it is a link, and the watcher never follows links: a link can point at any file on this computer'
+        : 'it has other hard links, so it may be a file from elsewhere on this computer';
+    const reason =
+      `Not sent: ${why}. Nothing was read from it or sent to the server.
+` +
+      `Put the export itself into the drop folder.
+
+file: ${label}
+at: ${new Date().toISOString()}
+`;
+    await writeFileAtomic(`${movedTo}.reason.txt`, reason);
+    this.log.error(
+      `refused ${label} (${kind === 'symbolic' ? 'a link' : 'a hard-linked file'}, never read) → ` +
+        path.relative(folderDir, movedTo).split(path.sep).join('/'),
+    );
+    this.emit('refused', { file: label, reason: why, movedTo });
   }
 
   // ── spool → server ─────────────────────────────────────────────────────────────────────────────
@@ -439,7 +514,7 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
   /** Is the drop-folder file still the one that was spooled? */
   private async originalState(file: string, entry: SpoolEntry): Promise<'same' | 'changed' | 'missing'> {
     try {
-      const stat = await fsp.stat(file);
+      const stat = await fsp.lstat(file);
       if (!stat.isFile()) return 'missing';
       if (stat.size !== entry.size) return 'changed';
       return (await hashFile(file)).sha256 === entry.sha256 ? 'same' : 'changed';

@@ -54,10 +54,14 @@ export class TypeOrmSessionStore extends session.Store {
       .catch((err) => callback?.(err));
   }
 
+  /** Ends a session (sign-out); emits `ended` so that live connections of the session close too. */
   override destroy(sid: string, callback?: Callback): void {
     this.repository
       .delete({ sid })
-      .then(() => callback?.())
+      .then(() => {
+        this.emit('ended', sid);
+        callback?.();
+      })
       .catch((err) => callback?.(err));
   }
 

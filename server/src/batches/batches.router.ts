@@ -2,9 +2,12 @@ import { Router } from 'express';
 import { requireRole } from '../auth/roles';
 import { idParam, validateBody } from '../common/validate';
 import { approveSchema, createBatchSchema, reasonSchema, updateSettingsSchema } from './batches.schema';
+import type { Role } from '../users/user.entity';
 import type { BatchesService } from './batches.service';
 
-const EVERYONE = requireRole('admin', 'lab_manager', 'scientist');
+/** Who reads batches (also their live events). */
+export const BATCH_READER_ROLES: readonly Role[] = ['admin', 'lab_manager', 'scientist'];
+const EVERYONE = requireRole(...BATCH_READER_ROLES);
 const MANAGERS = requireRole('admin', 'lab_manager');
 
 /**

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { MAX_MONTE_CARLO_DRAWS } from '../workers/limits';
 
 const position = z
   .string()
@@ -24,7 +25,7 @@ export const batchSettingsSchema = z.strictObject({
   replicateCvMax: z.number().positive().max(1).default(0.05),
   kCvMax: z.number().positive().max(10).default(0.15),
   epsilonLPerMolCm: z.number().positive().nullable().default(null),
-  monteCarloDraws: z.number().int().min(0).max(20000).default(0),
+  monteCarloDraws: z.number().int().min(0).max(MAX_MONTE_CARLO_DRAWS).default(0),
   exclusions: z
     .array(z.strictObject({ position, reason: z.string().trim().min(3, 'give a reason').max(500) }))
     .max(384)

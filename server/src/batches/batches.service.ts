@@ -5,7 +5,6 @@ import {
   type KStatus,
   type Reading,
   type SampleDefinition,
-  analyzeBatch,
 } from '../analysis';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
@@ -18,6 +17,7 @@ import type { LayoutsService } from '../layouts/layouts.service';
 import { Manifest } from '../manifests/manifest.entity';
 import type { ManifestsService } from '../manifests/manifests.service';
 import { User } from '../users/user.entity';
+import { runAnalysis } from '../workers';
 import { Batch, type BatchState } from './batch.entity';
 import { type BatchSettings, type CreateBatchInput, batchSettingsSchema } from './batches.schema';
 
@@ -463,7 +463,7 @@ export class BatchesService {
     const manifest = await this.manifests.get(batch.manifestId, batch.manifestVersion);
     const layout = await this.layouts.get(batch.layoutId, batch.layoutVersion);
     const settings = toAnalysisSettings(batch.settings, overrides);
-    const result = analyzeBatch(readings, manifest.samples, settings);
+    const result = await runAnalysis(readings, manifest.samples, settings);
     if (files.length && Object.keys(overrides).length === 0) batch.summary = summarize(result);
     return {
       batch,

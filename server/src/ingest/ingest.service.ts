@@ -5,8 +5,9 @@ import { SerialRunner } from '../common/serial';
 import { bulkInsert } from '../database/bulk-insert';
 import type { EventBus } from '../events/event-bus';
 import { parseRulesOf, runIdFromFileName } from '../instruments/instruments.service';
-import { ParseError, parseInstrumentFile } from '../parsers';
+import { ParseError } from '../parsers';
 import type { Job, JobQueue } from '../queue/job-queue';
+import { parseFile, READING_COLUMNS, rowValues, type StoreTarget } from '../workers';
 import { InstrumentProfile } from '../instruments/instrument-profile.entity';
 import { RawFileArchive, sha256Hex } from './archive';
 import { IntakeFile, type IntakeSource, type IntakeStatus } from './intake-file.entity';
@@ -187,7 +188,8 @@ export class IngestService {
     let parsed;
     try {
       const content = await this.archive.read(file.sha256);
-      parsed = await parseInstrumentFile(content, file.originalName, parseRulesOf(profile));
+      // On a worker thread; a very large file's readings are written there too (see workers/tasks.ts).
+      parsed = await parseFile(content, file.originalName, parseRulesOf(profile), this.storeTarget(file.id));
     } catch (err) {
       if (err instanceof ParseError) return this.quarantine(file, err.message);
       throw err; // an I/O fault: the queue retries
@@ -195,32 +197,13 @@ export class IngestService {
     const runId =
       runIdFromFileName(profile.fileNamePattern, file.originalName) ?? parsed.metadata.runId ?? null;
 
+    const readings = parsed.readings;
     const batchId = await this.dataSource.transaction(async (manager) => {
-      await manager.delete(ReadingRow, { intakeFileId: file.id });
-      await bulkInsert(
-        manager,
-        'readings',
-        [
-          'intake_file_id',
-          'position',
-          'wavelength_nm',
-          'absorbance',
-          'flag',
-          'read_time',
-          'temperature_c',
-          'replicate',
-        ],
-        parsed.readings.map((r) => [
-          file.id,
-          r.position,
-          r.wavelengthNm,
-          r.absorbance,
-          r.flag ?? null,
-          r.readTime ?? null,
-          r.temperatureC ?? null,
-          r.replicate ?? null,
-        ]),
-      );
+      if (readings) {
+        await manager.delete(ReadingRow, { intakeFileId: file.id });
+        const rows = Array.from({ length: readings.count }, (_, i) => [file.id, ...rowValues(readings, i)]);
+        await bulkInsert(manager, 'readings', ['intake_file_id', ...READING_COLUMNS], rows);
+      }
       const batch = await this.matchBatch(manager, profile.id, runId);
       await manager.update(
         IntakeFile,
@@ -228,7 +211,7 @@ export class IngestService {
         {
           status: batch ? 'stored' : 'unassigned',
           batchId: batch,
-          readingCount: parsed.readings.length,
+          readingCount: parsed.readingCount,
           runId: runId ? runId.slice(0, 120) : null,
           warnings: parsed.warnings.length ? JSON.stringify(parsed.warnings) : null,
           error: null,
@@ -240,7 +223,7 @@ export class IngestService {
     this.events.publish('file.stored', {
       id: file.id,
       profileId: profile.id,
-      readingCount: parsed.readings.length,
+      readingCount: parsed.readingCount,
       runId,
       batchId,
       status: batchId ? 'stored' : 'unassigned',
@@ -253,10 +236,20 @@ export class IngestService {
   async markFailed(job: Job<IngestJobData>, error: Error): Promise<void> {
     const file = await this.files.findOneBy({ id: job.data.intakeFileId });
     if (!file || FINAL.includes(file.status)) return;
+    // Readings a worker wrote before the failure are not kept (they were never visible).
+    await this.dataSource.manager.delete(ReadingRow, { intakeFileId: file.id });
     await this.quarantine(
       file,
       `Storing failed after ${job.attemptsMade} tries (${error.message}); no reading of it was kept. Re-queue it once the cause is fixed.`,
     );
+  }
+
+  /** SQLite: where a worker may write a large file's readings itself. PostgreSQL: none (stored here). */
+  private storeTarget(intakeFileId: number): Omit<StoreTarget, 'minReadings'> | undefined {
+    const options = this.dataSource.options;
+    if (options.type !== 'better-sqlite3' || typeof options.database !== 'string') return undefined;
+    if (options.database === ':memory:') return undefined;
+    return { sqliteFile: options.database, intakeFileId };
   }
 
   private async quarantine(file: IntakeFile, message: string): Promise<IntakeStatus> {

@@ -4,13 +4,17 @@ import { AppError } from '../common/app-error';
 import { describeIssues, idParam, validateBody } from '../common/validate';
 import { assignSchema } from '../batches/batches.schema';
 import type { BatchesService } from '../batches/batches.service';
+import type { Role } from '../users/user.entity';
 import type { IngestService } from './ingest.service';
 import { intakeQuerySchema } from './intake.schema';
+
+/** Who sees received files, their states and quarantine messages (also over live events). */
+export const INTAKE_ROLES: readonly Role[] = ['admin', 'lab_manager'];
 
 /** The Intake list: received files and their states. Lab managers and admins. */
 export function intakeRouter(ingest: IngestService, batches: BatchesService): Router {
   const router = Router();
-  router.use(requireRole('admin', 'lab_manager'));
+  router.use(requireRole(...INTAKE_ROLES));
 
   router.get('/', async (req, res) => {
     const query = intakeQuerySchema.safeParse(req.query);

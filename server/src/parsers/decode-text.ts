@@ -1,4 +1,4 @@
-import { ParseError } from './parse-error';
+import { ParseError, showCell } from './parse-error';
 import type { ParseRules } from './parse-rules';
 
 /** Larger files are refused before any decoding. */
@@ -93,7 +93,7 @@ export function decodeText(content: Buffer, file: string, encoding: ParseRules['
     const mojibake = UTF8_READ_AS_LATIN1.exec(text);
     const warnings = mojibake
       ? [
-          `line ${lineOfIndex(text, mojibake.index)} reads "${mojibake[0]}": the file may be UTF-8 although the profile says latin1`,
+          `line ${lineOfIndex(text, mojibake.index)} reads ${showCell(mojibake[0])}: the file may be UTF-8 although the profile says latin1`,
         ]
       : [];
     return { text, warnings };

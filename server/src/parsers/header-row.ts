@@ -34,8 +34,9 @@ export function indexHeader(header: CsvRow, file: string): Map<string, number> {
   return index;
 }
 
+/** The header row as a short excerpt (it may be the first line of any file). */
 export function describeHeader(header: CsvRow): string {
-  return header.cells.map((c) => showCell(c)).join(', ');
+  return showCell(header.cells.join(', '));
 }
 
 /**

@@ -2,7 +2,7 @@ import type { Reading } from '../analysis/types';
 import { CellReader } from './cell-values';
 import type { CsvRow } from './csv-rows';
 import { checkRowWidth, delimiterHint, describeHeader, indexHeader } from './header-row';
-import { ParseError } from './parse-error';
+import { excerpt, ParseError } from './parse-error';
 import type { Delimiter, ParseRules } from './parse-rules';
 import { ReadingSet, sharedValue, type ParsedRun } from './reading-set';
 
@@ -40,7 +40,7 @@ export function parseLongTable(
   };
   const used = new Set(Object.values(at).filter((i): i is number => i !== undefined));
   const ignored = header.cells.filter((c, i) => c !== '' && !used.has(i));
-  const warnings = ignored.length > 0 ? [`ignored column(s): ${ignored.join(', ')}`] : [];
+  const warnings = ignored.length > 0 ? [`ignored column(s): ${excerpt(ignored.join(', '))}`] : [];
 
   if (data.length === 0) {
     throw new ParseError({

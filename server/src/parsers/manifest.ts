@@ -2,7 +2,7 @@ import { SAMPLE_ROLES, type SampleDefinition, type SampleRole } from '../analysi
 import { isFormulaLike, parseDecimal } from './cell-values';
 import { detectDelimiter, readCsvRows, type CsvRow } from './csv-rows';
 import { decodeText } from './decode-text';
-import { ParseError, showCell } from './parse-error';
+import { excerpt, ParseError, showCell } from './parse-error';
 import { isValidPosition, normalisePosition } from './position';
 
 /** One thing wrong with a manifest; `row` is the 1-based line in the file (the header's line for column problems). */
@@ -82,11 +82,15 @@ export async function parseManifestCsv(content: Buffer, fileName: string): Promi
     if (name === undefined) {
       problems.push({
         row: header.line,
-        column: cell,
+        column: excerpt(cell),
         message: `unknown column: expected only ${ALL_COLUMNS.join(', ')}`,
       });
     } else if (columnAt.has(name)) {
-      problems.push({ row: header.line, column: cell, message: 'the header names this column twice' });
+      problems.push({
+        row: header.line,
+        column: excerpt(cell),
+        message: 'the header names this column twice',
+      });
     } else {
       columnAt.set(name, i);
     }

@@ -8,29 +8,41 @@ export interface ParseErrorDetails {
   column?: string | number;
   /** What the parser expected, e.g. "a number". */
   expected?: string;
-  /** What it found instead (shown quoted and shortened). */
+  /** What it found instead: file content, shown only as a short excerpt (see `excerpt`). */
   found?: string;
-  /** Free text used instead of "expected …, found …". */
+  /** Free text used instead of "expected …, found …". File content only through `showCell`/`excerpt`. */
   detail?: string;
 }
 
-const MAX_SHOWN_CHARS = 40;
+/** The most characters of file content any message quotes: enough to find the cell, too few to leak a file. */
+export const MAX_EXCERPT_CHARS = 40;
 
-/** Quotes a cell for a message: control characters escaped, long text shortened. */
+// Control characters (C0, DEL, C1), line and paragraph separators, and bidirectional overrides:
+// none is printable, and some change how the rest of a message looks.
+// eslint-disable-next-line no-control-regex
+const UNPRINTABLE = /[\u0000-\u001f\u007f-\u009f\u2028\u2029\u200e\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g;
+
+/**
+ * The one place where file content enters a message (parse errors, warnings): unprintable characters
+ * removed, at most MAX_EXCERPT_CHARS characters, then "…".
+ */
+export function excerpt(text: string): string {
+  const printable = Array.from(text.replace(UNPRINTABLE, ''));
+  return printable.length > MAX_EXCERPT_CHARS
+    ? `${printable.slice(0, MAX_EXCERPT_CHARS).join('')}…`
+    : printable.join('');
+}
+
+/** Quotes file content for a message, as a short excerpt. */
 export function showCell(text: string): string {
-  const escaped = Array.from(text, (c) => {
-    const code = c.charCodeAt(0);
-    return code < 0x20 || code === 0x7f ? `\\x${code.toString(16).padStart(2, '0')}` : c;
-  }).join('');
-  const shown = escaped.length > MAX_SHOWN_CHARS ? `${escaped.slice(0, MAX_SHOWN_CHARS)}…` : escaped;
-  return `"${shown}"`;
+  return `"${excerpt(text)}"`;
 }
 
 function formatMessage(d: ParseErrorDetails): string {
   let where = d.file;
   if (d.line !== undefined) where += ` line ${d.line}`;
   if (d.column !== undefined) {
-    where += `${d.line !== undefined ? ',' : ''} column ${typeof d.column === 'string' ? `"${d.column}"` : d.column}`;
+    where += `${d.line !== undefined ? ',' : ''} column ${typeof d.column === 'string' ? showCell(d.column) : d.column}`;
   }
   let what = d.detail ?? '';
   if (d.expected !== undefined) {
@@ -48,10 +60,13 @@ export class ParseError extends Error {
   readonly line?: number;
   readonly column?: string | number;
   readonly expected?: string;
+  /** What the error was made from: enough to make the same error again on another thread. */
+  readonly details: ParseErrorDetails;
 
   constructor(details: ParseErrorDetails) {
     super(formatMessage(details));
     this.name = 'ParseError';
+    this.details = { ...details };
     this.file = details.file;
     this.line = details.line;
     this.column = details.column;

@@ -1,7 +1,7 @@
 import { CellReader } from './cell-values';
 import type { CsvRow } from './csv-rows';
 import { checkRowWidth, delimiterHint, describeHeader, indexHeader } from './header-row';
-import { ParseError } from './parse-error';
+import { ParseError, showCell } from './parse-error';
 import type { Delimiter, ParseRules } from './parse-rules';
 import { ReadingSet, type ParsedRun } from './reading-set';
 
@@ -47,7 +47,7 @@ export function parseSpectrum(
         text,
         'each position once in the header',
         text,
-        `same position as "${twin}"`,
+        `same position as ${showCell(twin)}`,
       );
     }
     seen.set(position, text);

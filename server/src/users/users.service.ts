@@ -37,6 +37,7 @@ export interface SessionEnder {
 export class UsersService {
   private readonly users: Repository<User>;
   private readonly invitationListeners: ((user: PublicUser, token: string) => void)[] = [];
+  private readonly accessListeners: ((userId: number) => void)[] = [];
 
   constructor(
     dataSource: DataSource,
@@ -102,6 +103,11 @@ export class UsersService {
     this.invitationListeners.push(listener);
   }
 
+  /** Called after a person's role changes or they are deactivated (open live connections end). */
+  onAccessChange(listener: (userId: number) => void): void {
+    this.accessListeners.push(listener);
+  }
+
   /**
    * A one-time password-reset token for the active person with this e-mail, replacing any pending one;
    * null when there is no such person (the caller must not reveal which).
@@ -131,10 +137,13 @@ export class UsersService {
       if (id === actingUserId && input.active === false)
         throw AppError.conflict('You cannot deactivate your own account.');
     }
+    const before = { role: user.role, active: user.active };
     if (input.displayName !== undefined) user.displayName = input.displayName;
     if (input.role !== undefined) user.role = input.role as Role;
     if (input.active !== undefined) user.active = input.active;
     await this.users.save(user);
+    if (user.role !== before.role || user.active !== before.active)
+      for (const listener of this.accessListeners) listener(user.id);
     return toPublicUser(user);
   }
 

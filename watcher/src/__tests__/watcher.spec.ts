@@ -413,4 +413,38 @@ describe('drop-folder watcher against a real HTTP server', () => {
     const second = createWatcher(box.config(), { logger: log });
     await expect(second.start()).rejects.toThrow(/already in use/);
   });
+
+  it('when a link points at an export inside the drop folder then it is still refused, and the export sent once', async () => {
+    const w = await startWatcher();
+    const refused: Array<{ file: string; movedTo: string | null }> = [];
+    w.on('refused', (info) => refused.push(info));
+    let finished = 0;
+    w.on('done', () => finished++);
+    fs.mkdirSync(path.join(box.folder(), 'exports'), { recursive: true });
+    fs.writeFileSync(path.join(box.folder(), 'exports', 'run-40.csv'), longTable(40));
+    fs.symlinkSync(
+      path.join(box.folder(), 'exports', 'run-40.csv'),
+      path.join(box.folder(), 'run-40-link.csv'),
+    );
+
+    await waitFor('the link refused and the export sent', () => refused.length === 1 && finished === 1);
+    expect(refused[0]!.file).toBe('reader-1/run-40-link.csv');
+    expect(fs.lstatSync(refused[0]!.movedTo!).isSymbolicLink()).toBe(true);
+    expect(fs.readFileSync(`${refused[0]!.movedTo!}.reason.txt`, 'utf8')).toMatch(/never follows links/);
+    expect(server.uploads.map((u) => u.sourcePath)).toEqual(['reader-1/exports/run-40.csv']);
+  });
+
+  it('when a file has another hard link then it is moved to rejected/ unread and never uploaded', async () => {
+    const outside = path.join(box.root, 'elsewhere.csv');
+    fs.writeFileSync(outside, longTable(41));
+    const w = await startWatcher();
+    const refused = new Promise<{ movedTo: string | null }>((resolve) => w.on('refused', resolve));
+    fs.linkSync(outside, path.join(box.folder(), 'run-41.csv'));
+
+    const { movedTo } = await refused;
+    expect(movedTo).toBe(path.join(box.folder(), 'rejected', 'run-41.csv'));
+    expect(fs.readFileSync(outside, 'utf8')).toBe(longTable(41));
+    await sleep(400);
+    expect(server.uploads).toEqual([]);
+  });
 });

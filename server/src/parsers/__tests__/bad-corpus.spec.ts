@@ -74,3 +74,39 @@ describe('generated large inputs (written to a temporary folder, never committed
     expect(error.message).toMatch(/^big\.csv: the file is 20\.0 MB; the limit is 20 MB$/);
   });
 });
+
+describe('file content in messages (a file may be anything, e.g. a page of credentials)', () => {
+  // One long line of a secret-like value, with control characters (ESC, BEL, a bidi override) in it.
+  const LONG = `k${'q'.repeat(120)}\u001b[31m\u0007\u202e${'z'.repeat(30)}`;
+  /** A run of the secret longer than 40 characters, or a quoted excerpt longer than 40 (+ "…"). */
+  const hasLongRun = (m: string) =>
+    /q{41}/.test(m) || (m.match(/"[^"]*"/g) ?? []).some((q) => Array.from(q).length > 40 + 3);
+  // eslint-disable-next-line no-control-regex
+  const UNPRINTABLE = /[\u0000-\u001f\u007f-\u009f\u202a-\u202e]/;
+
+  it.each([
+    ['a header line that is not a header', `${LONG},${LONG}\n1,2\n`, {}],
+    [
+      'a header naming a column twice',
+      `position,wavelength_nm,absorbance,${LONG},${LONG}\nA1,450,0.1,,\n`,
+      {},
+    ],
+    ['a bad cell', `position,wavelength_nm,absorbance\nA1,450,${LONG}\n`, {}],
+    ['a spectrum header', `wavelength_nm,${LONG}\n450,0.1\n`, { format: 'spectrum' as const }],
+  ])('quotes at most 40 printable characters of %s', async (_what, text, rules) => {
+    const error = await parseError(Buffer.from(text), 'secret.csv', rules);
+    expect(error.message).toMatch(/q+…/);
+    expect(hasLongRun(error.message)).toBe(false);
+    expect(error.message).not.toMatch(UNPRINTABLE);
+  });
+
+  it('keeps warnings about ignored columns to a short excerpt too', async () => {
+    const run = await parseInstrumentFile(
+      Buffer.from(`position,wavelength_nm,absorbance,${LONG}\nA1,450,0.1,x\n`),
+      'w.csv',
+      {},
+    );
+    expect(run.warnings.join(' ')).toMatch(/^ignored column\(s\): kq+…$/);
+    expect(hasLongRun(run.warnings.join(' '))).toBe(false);
+  });
+});
