@@ -155,11 +155,11 @@ describe('live events end with access and follow the roles of the REST routes', 
       body: JSON.stringify({ email, password }),
     });
     expect(login.status).toBe(200);
-    const session = login.headers
-      .getSetCookie()
-      .map((c) => c.split(';')[0])
-      .find((c) => c.startsWith('equilight.sid='))!;
-    return { cookie: `${xsrfCookie}; ${session}`, xsrf };
+    const cookies = login.headers.getSetCookie().map((c) => c.split(';')[0]);
+    const session = cookies.find((c) => c.startsWith('equilight.sid='))!;
+    // Sign-in issues a new XSRF token bound to the new session, as a browser would take it up.
+    const sessionXsrf = cookies.find((c) => c.startsWith('XSRF-TOKEN=')) ?? xsrfCookie;
+    return { cookie: `${sessionXsrf}; ${session}`, xsrf: decodeURIComponent(sessionXsrf.split('=')[1]) };
   }
 
   /** A real ws client that records every message and how the socket closed. */
