@@ -35,6 +35,7 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default('Equilight <equilight@localhost>'),
   SMTP_STANDIN: booleanText.optional(),
   SMTP_STANDIN_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+  FOUR_EYES_APPROVAL: booleanText.default(true),
 });
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
@@ -56,6 +57,8 @@ export interface AppConfig {
   webDistDir: string;
   publicUrl: string;
   mail: MailConfig;
+  /** Lab policy: whoever approves a batch did not create it nor mark it reviewed. */
+  fourEyesApproval: boolean;
 }
 
 export interface MailConfig {
@@ -113,5 +116,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       standIn: e.SMTP_STANDIN ?? e.NODE_ENV !== 'production',
       standInPort: e.SMTP_STANDIN_PORT ?? (e.NODE_ENV === 'test' ? 0 : 2525),
     },
+    fourEyesApproval: e.FOUR_EYES_APPROVAL,
   };
 }

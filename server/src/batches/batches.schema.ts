@@ -24,6 +24,19 @@ export const batchSettingsSchema = z.strictObject({
   replicateCvMax: z.number().positive().max(1).default(0.05),
   kCvMax: z.number().positive().max(10).default(0.15),
   epsilonLPerMolCm: z.number().positive().nullable().default(null),
+  /** Where epsilonLPerMolCm came from when it was taken from another batch's calibration (set by the server). */
+  epsilonSource: z
+    .strictObject({
+      batchId: z.number().int().positive(),
+      batchName: z.string(),
+      /** The signed record it was read from; null when that batch was not approved (its analysis at `takenAt`). */
+      recordId: z.number().int().positive().nullable(),
+      wavelengthNm: z.number().nullable(),
+      epsilonLPerMolCm: z.number().positive(),
+      takenAt: z.string(),
+    })
+    .nullable()
+    .default(null),
   monteCarloDraws: z.number().int().min(0).max(20000).default(0),
   exclusions: z
     .array(z.strictObject({ position, reason: z.string().trim().min(3, 'give a reason').max(500) }))
@@ -31,6 +44,10 @@ export const batchSettingsSchema = z.strictObject({
     .default([]),
 });
 export type BatchSettings = z.infer<typeof batchSettingsSchema>;
+export type EpsilonSource = NonNullable<BatchSettings['epsilonSource']>;
+
+/** Settings a person may send: everything but the ε source, which the server fills in itself. */
+const settingsInputSchema = batchSettingsSchema.omit({ epsilonSource: true }).partial();
 
 export const createBatchSchema = z.strictObject({
   name: z.string().trim().min(1, 'is required').max(120),
@@ -43,15 +60,26 @@ export const createBatchSchema = z.strictObject({
   expectedFiles: z.number().int().min(1).max(1000).default(1),
   systemName: z.string().trim().max(120).nullable().optional(),
   temperatureC: z.number().min(-80).max(200).nullable().optional(),
-  settings: batchSettingsSchema.partial().default({}),
+  settings: settingsInputSchema.default({}),
 });
 export type CreateBatchInput = z.infer<typeof createBatchSchema>;
 
+export const settingsChangeSchema = settingsInputSchema.extend({
+  /** Take ε of the complex from this batch's calibration (same system, wavelength within ±1 nm). */
+  epsilonFromBatchId: z.number().int().positive().optional(),
+});
+export type SettingsChange = z.infer<typeof settingsChangeSchema>;
+
 export const updateSettingsSchema = z.strictObject({
-  settings: batchSettingsSchema.partial(),
+  settings: settingsChangeSchema,
   reason: z.string().trim().min(3, 'give a reason').max(500),
 });
 
 export const approveSchema = z.strictObject({ comment: z.string().trim().min(3, 'is required').max(2000) });
 export const reasonSchema = z.strictObject({ reason: z.string().trim().min(3, 'is required').max(2000) });
 export const assignSchema = z.strictObject({ batchId: z.number().int().positive() });
+
+export const analysisQuerySchema = z.strictObject({
+  /** For an approved batch: also analyse with today's engine and say whether the headline differs. */
+  engineCheck: z.enum(['true', 'false']).optional(),
+});

@@ -2,6 +2,7 @@ import { Initial1764600000000 } from './1764600000000-initial';
 import { Ingestion1764610000000 } from './1764610000000-ingestion';
 import { Batches1764620000000 } from './1764620000000-batches';
 import { Mail1764630000000 } from './1764630000000-mail';
+import { FrozenResults1764648000000 } from './1764648000000-frozen-results';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -9,4 +10,5 @@ export const migrations = [
   Ingestion1764610000000,
   Batches1764620000000,
   Mail1764630000000,
+  FrozenResults1764648000000,
 ];
