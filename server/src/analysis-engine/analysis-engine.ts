@@ -9,7 +9,7 @@ import { type EngineVersion, readEngineVersion } from './engine-version';
 
 /**
  * The analysis as the server runs it, with the version of the code that runs it. The server takes one
- * at start; a test hands in another to see what a later engine would do to a signed result.
+ * at start; a test hands in another to see what a later engine would do to an approved result.
  */
 export interface AnalysisEngine {
   readonly version: EngineVersion;

@@ -1,10 +1,10 @@
 import { Column, Entity, PrimaryGeneratedColumn } from 'typeorm';
 
-/** The shape of the JSON in a signed record; raise it when that shape changes so old records stay readable. */
+/** The shape of the JSON in an approval record; raise it when that shape changes so old records stay readable. */
 export const BATCH_RESULT_SCHEMA_VERSION = 1;
 
 /**
- * A signed record: what one approval froze. The batch shows, exports and reports this, never a
+ * An approval record: what one approval froze. The batch shows, exports and reports this, never a
  * recomputation. Reopening marks it superseded and keeps it; the next approval adds a new one.
  */
 @Entity('batch_results')

@@ -47,7 +47,7 @@ export function batchesRouter(batches: BatchesService): Router {
     res.json(
       await batches.result(
         idParam(req.params['id'], 'Batch'),
-        idParam(req.params['recordId'], 'Signed record'),
+        idParam(req.params['recordId'], 'Approval record'),
       ),
     );
   });

@@ -29,7 +29,7 @@ export const batchSettingsSchema = z.strictObject({
     .strictObject({
       batchId: z.number().int().positive(),
       batchName: z.string(),
-      /** The signed record it was read from; null when that batch was not approved (its analysis at `takenAt`). */
+      /** The approval record it was read from; null when that batch was not approved (its analysis at `takenAt`). */
       recordId: z.number().int().positive().nullable(),
       wavelengthNm: z.number().nullable(),
       epsilonLPerMolCm: z.number().positive(),

@@ -59,11 +59,11 @@ export interface BatchDto {
   approvedAt: string | null;
   approvalComment: string | null;
   createdBy: string | null;
-  /** Null until a file has arrived. For an approved batch: the headline of its signed record. */
+  /** Null until a file has arrived. For an approved batch: the headline of its approval record. */
   summary: BatchResultSummary | null;
 }
 
-/** One input file as a signed record names it. */
+/** One input file as an approval record names it. */
 export interface RecordedFile {
   id: number;
   originalName: string;
@@ -73,7 +73,7 @@ export interface RecordedFile {
 }
 
 /** What one approval froze, without the result itself (GET /api/batches/:id/results lists these). */
-export interface SignedRecordDto {
+export interface ApprovalRecordDto {
   id: number;
   batchId: number;
   schemaVersion: number;
@@ -91,13 +91,13 @@ export interface SignedRecordDto {
   supersededReason: string | null;
 }
 
-/** One signed record in full: also the settings as the analysis module took them, and the result. */
-export interface SignedRecordFullDto extends SignedRecordDto {
+/** One approval record in full: also the settings as the analysis module took them, and the result. */
+export interface ApprovalRecordFullDto extends ApprovalRecordDto {
   analysisSettings: AnalysisSettings;
   result: BatchResult;
 }
 
-/** Today's engine on an approved batch's inputs, compared with the signed record's headline. */
+/** Today's engine on an approved batch's inputs, compared with the approval record's headline. */
 export interface EngineCheckDto {
   /** The engine this server runs. */
   engineVersion: string;
@@ -115,7 +115,7 @@ export interface EpsilonCandidateDto {
   batchName: string;
   state: BatchState;
   temperatureC: number | null;
-  /** The signed record the value comes from (approved batches); null: the batch's analysis now. */
+  /** The approval record the value comes from (approved batches); null: the batch's analysis now. */
   recordId: number | null;
   wavelengthNm: number;
   epsilonLPerMolCm: number;
@@ -138,8 +138,8 @@ export interface BatchAnalysisDto {
   }[];
   settings: AnalysisSettings;
   result: BatchResult;
-  /** Approved batches: the signed record `result` comes from (null if approved before records were kept). */
-  record: SignedRecordDto | null;
+  /** Approved batches: the approval record `result` comes from (null if approved before records were kept). */
+  record: ApprovalRecordDto | null;
   /** Only when asked for, on an approved batch with a record. */
   engineCheck?: EngineCheckDto;
 }
@@ -157,7 +157,7 @@ export function summarize(result: BatchResult): BatchResultSummary {
   };
 }
 
-/** What a signed result says at a glance: best model, K, its interval and, where the fit gives it, its status. */
+/** What an approved result says at a glance: best model, K, its interval and, where the fit gives it, its status. */
 export function headlineOf(result: BatchResult): Record<string, unknown> {
   const s = summarize(result);
   const best = result.stoichiometry?.candidates.find((c) => c.model === result.stoichiometry?.best);
@@ -222,7 +222,7 @@ interface BatchInputs {
 
 /**
  * Batches: creation, files attached by run id, settings, review and approval — all audited. Approval
- * freezes the result in a signed record; an approved batch is shown from that record only.
+ * freezes the result in an approval record; an approved batch is shown from that record only.
  */
 export class BatchesService {
   private readonly batches: Repository<Batch>;
@@ -475,7 +475,7 @@ export class BatchesService {
           approvedAt: null,
           approvalComment: null,
         });
-        // The signed record stays; it is only marked as no longer the batch's current one.
+        // The approval record stays; it is only marked as no longer the batch's current one.
         await manager.update(
           BatchResultRecord,
           { batchId: id, supersededAt: IsNull() },
@@ -619,7 +619,7 @@ export class BatchesService {
     };
   }
 
-  /** The analysis headline: of the signed record when approved, else computed once per change. */
+  /** The analysis headline: of the approval record when approved, else computed once per change. */
   private async summary(b: Batch, key: string): Promise<BatchResultSummary | null> {
     const cached = this.summaries.get(b.id);
     if (cached?.key === key) return cached.summary;
@@ -678,7 +678,7 @@ export class BatchesService {
   }
 
   /**
-   * The batch's inputs and its analysis. An approved batch answers with its signed record's result and
+   * The batch's inputs and its analysis. An approved batch answers with its approval record's result and
    * settings, never a recomputation; `engineCheck` adds what today's engine would say, beside it.
    */
   async analysis(
@@ -710,7 +710,7 @@ export class BatchesService {
   }
 
   /** Today's engine on the record's inputs and settings, compared with the record's headline. */
-  private engineCheck(record: SignedRecordFullDto, inputs: BatchInputs): EngineCheckDto {
+  private engineCheck(record: ApprovalRecordFullDto, inputs: BatchInputs): EngineCheckDto {
     const engineVersion = this.engine.version.label;
     const sameEngine =
       record.engine.sourceSha256 === this.engine.version.sourceSha256 &&
@@ -742,7 +742,7 @@ export class BatchesService {
     });
   }
 
-  private async toRecordFull(row: BatchResultRecord): Promise<SignedRecordFullDto> {
+  private async toRecordFull(row: BatchResultRecord): Promise<ApprovalRecordFullDto> {
     const names = await this.userNames([row.approvedById, row.supersededById]);
     const result = JSON.parse(row.resultJson) as BatchResult;
     return {
@@ -768,28 +768,28 @@ export class BatchesService {
     };
   }
 
-  private withoutResult(full: SignedRecordFullDto): SignedRecordDto {
+  private withoutResult(full: ApprovalRecordFullDto): ApprovalRecordDto {
     const { analysisSettings: _settings, result: _result, ...record } = full;
     return record;
   }
 
-  /** Every signed record of a batch, newest first: the current one and those a reopening superseded. */
-  async results(batchId: number): Promise<SignedRecordDto[]> {
+  /** Every approval record of a batch, newest first: the current one and those a reopening superseded. */
+  async results(batchId: number): Promise<ApprovalRecordDto[]> {
     await this.getBatch(batchId);
     const rows = await this.records.find({ where: { batchId }, order: { id: 'DESC' } });
     return Promise.all(rows.map(async (r) => this.withoutResult(await this.toRecordFull(r))));
   }
 
-  /** One signed record with its full result. */
-  async result(batchId: number, recordId: number): Promise<SignedRecordFullDto> {
+  /** One approval record with its full result. */
+  async result(batchId: number, recordId: number): Promise<ApprovalRecordFullDto> {
     const row = await this.records.findOneBy({ id: recordId, batchId });
-    if (!row) throw AppError.notFound(`Batch ${batchId} has no signed record ${recordId}.`);
+    if (!row) throw AppError.notFound(`Batch ${batchId} has no approval record ${recordId}.`);
     return this.toRecordFull(row);
   }
 
   /**
    * Batches whose calibration can lend ε of the complex to this one: the same chemical system, analysed
-   * at the same wavelength within ±1 nm, with a calibration. Approved batches lend their signed value.
+   * at the same wavelength within ±1 nm, with a calibration. Approved batches lend the value of their approval record.
    */
   async epsilonSources(id: number): Promise<EpsilonCandidateDto[]> {
     const batch = await this.getBatch(id);
@@ -809,7 +809,7 @@ export class BatchesService {
     return out;
   }
 
-  /** The calibration another batch offers: from its signed record when approved, else its analysis now. */
+  /** The calibration another batch offers: from its approval record when approved, else its analysis now. */
   private async calibrationOf(other: Batch): Promise<EpsilonCandidateDto | null> {
     let result: BatchResult;
     let recordId: number | null = null;

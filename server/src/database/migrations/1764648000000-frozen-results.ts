@@ -1,7 +1,7 @@
 import { type MigrationInterface, type QueryRunner, Table, TableIndex } from 'typeorm';
 
 /**
- * Signed records: what an approval froze (the full result, the settings, the engine version and the
+ * Approval records: what an approval froze (the full result, the settings, the engine version and the
  * SHA-256 of every input file), one row per approval, kept when the batch is reopened.
  */
 export class FrozenResults1764648000000 implements MigrationInterface {
