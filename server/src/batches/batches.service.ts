@@ -142,6 +142,8 @@ export interface BatchAnalysisDto {
   record: ApprovalRecordDto | null;
   /** Only when asked for, on an approved batch with a record. */
   engineCheck?: EngineCheckDto;
+  /** Every approval record of the batch, newest first (superseded ones included). */
+  approvals: ApprovalRecordDto[];
 }
 
 /** The headline of an analysis result. */
@@ -701,12 +703,13 @@ export class BatchesService {
         result: full.result,
         record: this.withoutResult(full),
         ...(options.engineCheck ? { engineCheck: this.engineCheck(full, inputs) } : {}),
+        approvals: await this.recordsOf(id),
       };
     }
     const settings = toAnalysisSettings(batch.settings, overrides);
     const result = this.engine.analyze(inputs.readings, inputs.samples, settings);
     if (inputs.files.length && !hasOverrides) batch.summary = summarize(result);
-    return { batch, ...inputs, settings, result, record: null };
+    return { batch, ...inputs, settings, result, record: null, approvals: await this.recordsOf(id) };
   }
 
   /** Today's engine on the record's inputs and settings, compared with the record's headline. */
@@ -776,6 +779,10 @@ export class BatchesService {
   /** Every approval record of a batch, newest first: the current one and those a reopening superseded. */
   async results(batchId: number): Promise<ApprovalRecordDto[]> {
     await this.getBatch(batchId);
+    return this.recordsOf(batchId);
+  }
+
+  private async recordsOf(batchId: number): Promise<ApprovalRecordDto[]> {
     const rows = await this.records.find({ where: { batchId }, order: { id: 'DESC' } });
     return Promise.all(rows.map(async (r) => this.withoutResult(await this.toRecordFull(r))));
   }
