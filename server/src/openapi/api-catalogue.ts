@@ -347,7 +347,10 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       "Inputs and results of the analysis of a batch; an approved batch answers from its approval record (engineCheck=true adds what today's engine gives)",
     access: ALL,
     query: analysisQuerySchema,
-    success: [200, 'Readings, samples, settings, the analysis result and, when approved, its approval record'],
+    success: [
+      200,
+      'Readings, samples, settings, the analysis result and, when approved, its approval record',
+    ],
   },
   {
     method: 'get',
