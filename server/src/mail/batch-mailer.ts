@@ -1,10 +1,24 @@
 import type { DataSource } from 'typeorm';
+import type { BatchResult } from '../analysis';
 import type { BatchesService } from '../batches/batches.service';
 import type { EventBus, LiveEvent } from '../events/event-bus';
 import { BatchNotice } from './mail.entity';
 import { type BatchSummary, batchApprovedMail, batchCompleteMail, qcFailureMail } from './mail-templates';
 import type { MailService } from './mail.service';
 import type { NotificationsService } from './notifications.service';
+
+/** The best stoichiometry of a result and its K, as the mails state it. */
+function bestOf(result: BatchResult): BatchSummary['best'] {
+  const best = result.stoichiometry?.candidates.find((c) => c.model === result.stoichiometry?.best) ?? null;
+  return best
+    ? {
+        model: best.model,
+        k: best.fit?.k ?? best.kMean,
+        ciLow: best.fit?.kCi95?.[0] ?? null,
+        ciHigh: best.fit?.kCi95?.[1] ?? null,
+      }
+    : null;
+}
 
 /**
  * Turns batch events into mail: "batch complete" and "QC errors" once per batch when all its expected
@@ -83,8 +97,6 @@ export class BatchMailer {
     if (!(await this.claim(batchId, 'complete'))) return;
     const analysis = await this.batches.analysis(batchId);
     const result = analysis.result;
-    const bestName = result.stoichiometry?.best ?? null;
-    const best = result.stoichiometry?.candidates.find((c) => c.model === bestName) ?? null;
     const errors = result.qc.filter((f) => f.severity === 'error');
     const summary: BatchSummary = {
       id: batch.id,
@@ -92,14 +104,7 @@ export class BatchMailer {
       instrument: batch.profileName,
       fileCount: batch.fileCount,
       url: this.batchUrl(batch.id),
-      best: best
-        ? {
-            model: best.model,
-            k: best.fit?.k ?? best.kMean,
-            ciLow: best.fit?.kCi95?.[0] ?? null,
-            ciHigh: best.fit?.kCi95?.[1] ?? null,
-          }
-        : null,
+      best: bestOf(result),
       verdict: result.stoichiometry?.verdict ?? null,
       errorFlags: errors.length,
     };
@@ -117,8 +122,17 @@ export class BatchMailer {
 
   private async approved(batchId: number): Promise<void> {
     const entity = await this.batches.getBatch(batchId);
-    const batch = await this.batches.get(batchId);
+    // An approved batch's analysis is its approval record: the mail states what was signed.
+    const analysis = await this.batches.analysis(batchId);
+    const batch = analysis.batch;
     if (batch.state !== 'approved') return;
+    const record = analysis.record
+      ? {
+          id: analysis.record.id,
+          engineVersion: analysis.record.engine.version,
+          best: bestOf(analysis.result),
+        }
+      : undefined;
     const people = await this.notifications.recipients(
       'batchApproved',
       ['scientist', 'lab_manager'],
@@ -133,6 +147,7 @@ export class BatchMailer {
           approver: batch.approvedBy ?? 'A lab manager',
           comment: batch.approvalComment ?? '',
           approvedAt: batch.approvedAt,
+          record,
         }),
       );
   }
