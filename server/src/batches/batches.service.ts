@@ -169,6 +169,17 @@ export function headlineOf(result: BatchResult): Record<string, unknown> {
   return { best: s.best, k: s.k, kCi95: s.kCi95, ...extra };
 }
 
+/**
+ * Whether two results say something different at a glance. Best model, K and its interval always count;
+ * a field only one engine reports (a fit status an older engine did not have) does not by itself.
+ */
+export function headlinesDiffer(a: BatchResult, b: BatchResult): boolean {
+  const ha = headlineOf(a);
+  const hb = headlineOf(b);
+  const keys = Object.keys(ha).filter((k) => ['best', 'k', 'kCi95'].includes(k) || (k in ha && k in hb));
+  return keys.some((k) => !sameValue(ha[k], hb[k]));
+}
+
 /** Equal to 6 significant figures (numbers), element by element (arrays), or exactly (anything else). */
 export function sameValue(a: unknown, b: unknown): boolean {
   if (typeof a === 'number' && typeof b === 'number') {
@@ -723,7 +734,7 @@ export class BatchesService {
       return {
         engineVersion,
         sameEngine,
-        differs: !sameValue(headlineOf(now), headlineOf(record.result)),
+        differs: headlinesDiffer(now, record.result),
         current: summarize(now),
         error: null,
       };
