@@ -334,6 +334,44 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     expect(await axeSeriousViolations(page)).toEqual([]);
   });
 
+  it("shows a later engine's different answer as a note beside the record (display check, with a doctored engineCheck)", async () => {
+    // The server side of this (a real later engine on the same database) is tested in approval-record.spec.ts;
+    // here only the page's rendering of that answer is looked at, so the answer is rewritten in flight.
+    await page.route('**/api/batches/*/analysis?engineCheck=true', async (route) => {
+      const response = await route.fetch();
+      const body = (await response.json()) as {
+        record: { summary: Record<string, unknown> };
+        engineCheck: Record<string, unknown>;
+      };
+      body.engineCheck = {
+        engineVersion: '0.2.0+5e1ec7ed0000',
+        sameEngine: false,
+        differs: true,
+        current: { ...body.record.summary, k: 912.3, kCi95: [871.4, 955.0] },
+        error: null,
+      };
+      await route.fulfill({ response, json: body });
+    });
+    try {
+      await page.reload();
+      await page.getByTestId('engine-note').waitFor({ timeout: 10_000 });
+      await expect(page.getByTestId('engine-note').innerText()).resolves.toContain(
+        'Re-analysis with the current engine (0.2.0+5e1ec7ed0000) gives K (1:1) = 912.3',
+      );
+      // The record itself is what stays on show.
+      await expect(page.getByTestId('best-k-value').innerText()).resolves.not.toContain('912');
+      await page.getByTestId('approval-record').scrollIntoViewIfNeeded();
+      await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved-note-1280x800.png') });
+      await page.setViewportSize({ width: 390, height: 844 });
+      await page.getByTestId('engine-note').scrollIntoViewIfNeeded();
+      await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved-note-390x844.png') });
+      await page.setViewportSize({ width: 1280, height: 800 });
+      expect(await axeSeriousViolations(page)).toEqual([]);
+    } finally {
+      await page.unroute('**/api/batches/*/analysis?engineCheck=true');
+    }
+  });
+
   it('the approval mail arrives in the SMTP stand-in (Outbox)', async () => {
     const admin = await apiAs(browser, server.url, 'admin@equilight.test');
     try {

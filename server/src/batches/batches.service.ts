@@ -525,7 +525,14 @@ export class BatchesService {
     const settings = batchSettingsSchema.parse(JSON.parse(batch.settingsJson));
     const inputs = await this.loadInputs(batch, manager);
     const analysisSettings = toAnalysisSettings(settings);
-    const result = this.engine.analyze(inputs.readings, inputs.samples, analysisSettings);
+    let result: BatchResult;
+    try {
+      result = this.engine.analyze(inputs.readings, inputs.samples, analysisSettings);
+    } catch (err) {
+      throw AppError.conflict(
+        `Batch "${batch.name}" cannot be approved: its analysis fails (${err instanceof Error ? err.message : String(err)}). Fix the settings or the data first.`,
+      );
+    }
     const files: RecordedFile[] = inputs.files.map((f) => ({
       id: f.id,
       originalName: f.originalName,
