@@ -104,6 +104,8 @@ export interface EngineCheckDto {
   sameEngine: boolean;
   /** True when best model, K, its interval or its status differ from the record. */
   differs: boolean;
+  /** False when the files stored now are not those the record names (by SHA-256): then the difference is not the engine's. */
+  inputsMatch: boolean;
   current: BatchResultSummary | null;
   /** Why today's engine gave no result, when it failed. */
   error: string | null;
@@ -736,12 +738,19 @@ export class BatchesService {
     const sameEngine =
       record.engine.sourceSha256 === this.engine.version.sourceSha256 &&
       record.engine.packageVersion === this.engine.version.packageVersion;
+    const hashes = (files: { sha256: string }[]) =>
+      files
+        .map((f) => f.sha256)
+        .sort()
+        .join(',');
+    const inputsMatch = hashes(record.files) === hashes(inputs.files);
     try {
       const now = this.engine.analyze(inputs.readings, inputs.samples, toAnalysisSettings(record.settings));
       return {
         engineVersion,
         sameEngine,
         differs: headlinesDiffer(now, record.result),
+        inputsMatch,
         current: summarize(now),
         error: null,
       };
@@ -750,6 +759,7 @@ export class BatchesService {
         engineVersion,
         sameEngine,
         differs: true,
+        inputsMatch,
         current: null,
         error: err instanceof Error ? err.message : String(err),
       };

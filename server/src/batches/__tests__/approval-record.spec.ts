@@ -112,6 +112,7 @@ describe('approved means frozen: the approval record', () => {
     expect(check.engineVersion).toBe('9.9.9+ffffffffffff');
     expect(check.sameEngine).toBe(false);
     expect(check.error).toBeNull();
+    expect(check.inputsMatch).toBe(true);
     // The simulated engine really does compute another K: otherwise this test could not fail.
     expect(check.differs).toBe(true);
     expect(check.current.k).not.toBeCloseTo(signed.record.summary.k, 6);

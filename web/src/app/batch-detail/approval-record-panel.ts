@@ -38,14 +38,18 @@ export class ApprovalRecordPanel {
   protected readonly note = computed(() => {
     const check = this.engineCheck();
     if (!check || !this.record()) return null;
+    if (check.inputsMatch === false)
+      return 'The files stored for this batch now are not the ones this record names (SHA-256 differs); ask an administrator to look into it.';
+    const keep =
+      ' The approved record above stays as it is; to adopt the new result, a lab manager reopens the batch and approves it again.';
     if (check.error)
-      return `Re-analysis with the current engine (${check.engineVersion}) fails: ${check.error}`;
+      return `Re-analysis with the current engine (${check.engineVersion}) fails: ${check.error}.${keep}`;
     if (!check.differs) return null;
-    return `Re-analysis with the current engine (${check.engineVersion}) gives ${describeHeadline(check.current)}.`;
+    return `Re-analysis with the current engine (${check.engineVersion}) gives ${describeHeadline(check.current)}.${keep}`;
   });
   protected readonly sameAsToday = computed(() => {
     const check = this.engineCheck();
-    return !!check && !check.differs && !check.error;
+    return !!check && !check.differs && !check.error && check.inputsMatch !== false;
   });
   protected readonly headline = describeHeadline;
 }

@@ -53,6 +53,8 @@ export interface EngineCheck {
   engineVersion: string;
   sameEngine: boolean;
   differs: boolean;
+  /** False when the files stored now are not those the record names. */
+  inputsMatch?: boolean;
   current: BatchResultSummary | null;
   error: string | null;
 }
