@@ -127,6 +127,12 @@ describe('ε from another batch', () => {
       expect(res.status).toBe(400);
       expect(res.body.error.message).toMatch(message);
     }
+    const both = await scientist.put(`/api/batches/${target.batchId}/settings`).send({
+      settings: { epsilonFromBatchId: approved.batchId, epsilonLPerMolCm: 1000 },
+      reason: 'Both at once',
+    });
+    expect(both.status).toBe(400);
+    expect(both.body.error.message).toMatch(/not both/);
     // The source is for the server to fill in; a client cannot write one.
     const forged = await scientist.put(`/api/batches/${target.batchId}/settings`).send({
       settings: {

@@ -35,6 +35,8 @@ export async function createAnalysedBatch(
     systemName?: string;
     /** Who creates the batch (layout and manifest are always the lab manager's). */
     creator?: 'admin' | 'lab_manager';
+    /** Changes to the cuvette instrument profile the batch reads from. */
+    profile?: Record<string, unknown>;
   } = {},
 ): Promise<AnalysedBatch> {
   const seq = ++counter;
@@ -49,6 +51,7 @@ export async function createAnalysedBatch(
     dropSubfolder: `cuvette-bench-${seq}`,
     fileNamePattern: '^(?<run>CX-\\d+)',
     pathLengthCm: 1,
+    ...options.profile,
   });
   const manifestCsv = fs.readFileSync(path.join(SAMPLES_DIR, 'manifest.csv'));
   const rows = parse(manifestCsv, { columns: true }) as {
