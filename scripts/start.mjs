@@ -49,7 +49,10 @@ async function waitForServer() {
   return false;
 }
 
-run('server', ['server/dist/main.js']);
+// The demo has one lab manager, who creates and approves: four-eyes approval is off here unless asked for.
+run('server', ['server/dist/main.js'], {
+  FOUR_EYES_APPROVAL: process.env.FOUR_EYES_APPROVAL ?? 'false',
+});
 if (await waitForServer()) {
   const watcherConfig = path.join(dataDir, 'watcher.demo.json');
   if (!fs.existsSync(watcherConfig))

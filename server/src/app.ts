@@ -5,6 +5,7 @@ import express, { type Express, type RequestHandler } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
 import type { DataSource } from 'typeorm';
+import type { AnalysisEngine } from './analysis-engine/analysis-engine';
 import { auditRouter } from './audit/audit.router';
 import { AuditService } from './audit/audit.service';
 import { authRouter } from './auth/auth.router';
@@ -46,6 +47,8 @@ export interface AppContext {
   config: AppConfig;
   dataSource: DataSource;
   log?: (message: string, err?: unknown) => void;
+  /** The analysis and its version; this build's module unless a test simulates another. */
+  engine?: AnalysisEngine;
 }
 
 export interface EquilightApp {
@@ -74,7 +77,7 @@ export interface EquilightApp {
 }
 
 /** Build the Express app without listening: tests drive it with supertest. */
-export function createApp({ config, dataSource, log = console.error }: AppContext): EquilightApp {
+export function createApp({ config, dataSource, log = console.error, engine }: AppContext): EquilightApp {
   configureWorkers(config.workers);
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
   const users = new UsersService(dataSource, store);
@@ -95,7 +98,10 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   const health = new HealthService(dataSource, path.join(config.dataDir, 'archive'));
   const layouts = new LayoutsService(dataSource, audit);
   const manifests = new ManifestsService(dataSource, layouts, audit);
-  const batches = new BatchesService(dataSource, layouts, manifests, audit, events);
+  const batches = new BatchesService(dataSource, layouts, manifests, audit, events, {
+    engine,
+    fourEyesApproval: config.fourEyesApproval,
+  });
   const mail = createMailModule({ config, dataSource, users, batches, events, log });
   const reports = new ReportsService(batches, audit);
   ingest.useBatchMatcher((manager, profileId, runId) => batches.attachStoredFile(manager, profileId, runId));

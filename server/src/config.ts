@@ -69,6 +69,7 @@ const envSchema = z.object({
   SMTP_STANDIN_PORT: z.coerce.number().int().min(0).max(65535).optional(),
   WORKER_THREADS: z.coerce.number().int().min(2).max(16).default(2),
   WORKERS_IN_THREAD_FOR_TESTS: booleanText.default(false),
+  FOUR_EYES_APPROVAL: booleanText.default(true),
 });
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
@@ -94,6 +95,8 @@ export interface AppConfig {
   mail: MailConfig;
   /** Worker threads for parsing and analysis (server/src/workers). */
   workers: { threads: number; inThreadForTests: boolean };
+  /** Lab policy: whoever approves a batch did not create it nor mark it reviewed. */
+  fourEyesApproval: boolean;
 }
 
 export interface MailConfig {
@@ -156,5 +159,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       standInPort: e.SMTP_STANDIN_PORT ?? (e.NODE_ENV === 'test' ? 0 : 2525),
     },
     workers: { threads: e.WORKER_THREADS, inThreadForTests: e.WORKERS_IN_THREAD_FOR_TESTS },
+    fourEyesApproval: e.FOUR_EYES_APPROVAL,
   };
 }

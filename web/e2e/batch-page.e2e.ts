@@ -144,7 +144,9 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
       rows,
       acceptMismatches: true,
     });
-    const batch = await manager.call('POST', '/api/batches', {
+    // The admin opens the batch, so the lab manager may approve it under the four-eyes rule (on by default).
+    const admin2 = await apiAs(browser, server.url, 'admin@equilight.test');
+    const batch = await admin2.call('POST', '/api/batches', {
       name: BATCH_NAME,
       profileId: profile.id,
       layoutId: layout['id'],
@@ -154,6 +156,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
       temperatureC: 25,
     });
     batchId = batch['id'] as number;
+    await admin2.ctx.close();
     await manager.ctx.close();
 
     // bypassCSP lets the test inject axe-core; the app's own pages run under the server's CSP.
@@ -280,11 +283,93 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     await manager.getByTestId('reason-confirm').click();
     await manager.getByTestId('batch-state').getByText('Approved').waitFor();
     await manager.getByTestId('what-if-locked').waitFor();
+    await manager.getByTestId('approval-record').waitFor();
     await manager.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved.png'), fullPage: true });
     await managerContext.close();
 
     await page.getByTestId('batch-state').getByText('Approved').waitFor({ timeout: 10_000 });
     await page.getByTestId('what-if-locked').waitFor();
+  });
+
+  it('the approved batch shows its approval record (engine, input SHA-256) and the PDF names it', async () => {
+    await page.getByTestId('approval-record').waitFor({ timeout: 10_000 });
+    const records = (await page.evaluate(
+      async (id) => (await fetch(`/api/batches/${id}/results`)).json(),
+      batchId,
+    )) as { id: number; engine: { version: string }; files: { sha256: string }[] }[];
+    expect(records).toHaveLength(1);
+    const record = records[0];
+    await expect(page.getByTestId('approval-record').locator('h2').innerText()).resolves.toBe(
+      `Approval record ${record.id}`,
+    );
+    await expect(page.getByTestId('record-engine').innerText()).resolves.toBe(record.engine.version);
+    await expect(page.getByTestId('record-files').innerText()).resolves.toContain(record.files[0].sha256);
+    // Today's engine is the one that approved: no note, a quiet "same result" line instead.
+    await page.getByTestId('engine-same').waitFor();
+    await expect(page.getByTestId('engine-note').count()).resolves.toBe(0);
+    await expect(
+      (await page.getByTestId('approve').count()) + (await page.getByTestId('mark-reviewed').count()),
+    ).toBe(0);
+
+    const res = await page.request.get(`${server.url}/api/batches/${batchId}/report.pdf`);
+    const text = extractPdfText(await res.body()).replace(/\s+/g, ' ');
+    expect(text).toContain(`record ${record.id}, approved by`);
+    expect(text).toContain(record.engine.version);
+
+    await page.setViewportSize({ width: 1280, height: 800 });
+    await page.getByTestId('approval-record').scrollIntoViewIfNeeded();
+    await page.screenshot({
+      path: path.join(SCREENSHOT_DIR, 'batch-page-approved-1280x800.png'),
+      fullPage: true,
+    });
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved-record-1280x800.png') });
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.getByTestId('approval-record').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved-record-390x844.png') });
+    await page.screenshot({
+      path: path.join(SCREENSHOT_DIR, 'batch-page-approved-390x844.png'),
+      fullPage: true,
+    });
+    await page.setViewportSize({ width: 1280, height: 800 });
+    expect(await axeSeriousViolations(page)).toEqual([]);
+  });
+
+  it("shows a later engine's different answer as a note beside the record (display check, with a doctored engineCheck)", async () => {
+    // The server side of this (a real later engine on the same database) is tested in approval-record.spec.ts;
+    // here only the page's rendering of that answer is looked at, so the answer is rewritten in flight.
+    await page.route('**/api/batches/*/analysis?engineCheck=true', async (route) => {
+      const response = await route.fetch();
+      const body = (await response.json()) as {
+        record: { summary: Record<string, unknown> };
+        engineCheck: Record<string, unknown>;
+      };
+      body.engineCheck = {
+        engineVersion: '0.2.0+5e1ec7ed0000',
+        sameEngine: false,
+        differs: true,
+        current: { ...body.record.summary, k: 912.3, kCi95: [871.4, 955.0] },
+        error: null,
+      };
+      await route.fulfill({ response, json: body });
+    });
+    try {
+      await page.reload();
+      await page.getByTestId('engine-note').waitFor({ timeout: 10_000 });
+      await expect(page.getByTestId('engine-note').innerText()).resolves.toContain(
+        'Re-analysis with the current engine (0.2.0+5e1ec7ed0000) gives K (1:1) = 912.3',
+      );
+      // The record itself is what stays on show.
+      await expect(page.getByTestId('best-k-value').innerText()).resolves.not.toContain('912');
+      await page.getByTestId('approval-record').scrollIntoViewIfNeeded();
+      await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved-note-1280x800.png') });
+      await page.setViewportSize({ width: 390, height: 844 });
+      await page.getByTestId('engine-note').scrollIntoViewIfNeeded();
+      await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved-note-390x844.png') });
+      await page.setViewportSize({ width: 1280, height: 800 });
+      expect(await axeSeriousViolations(page)).toEqual([]);
+    } finally {
+      await page.unroute('**/api/batches/*/analysis?engineCheck=true');
+    }
   });
 
   it('the approval mail arrives in the SMTP stand-in (Outbox)', async () => {

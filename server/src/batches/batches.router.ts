@@ -1,7 +1,14 @@
 import { Router } from 'express';
 import { requireRole } from '../auth/roles';
-import { idParam, validateBody } from '../common/validate';
-import { approveSchema, createBatchSchema, reasonSchema, updateSettingsSchema } from './batches.schema';
+import { AppError } from '../common/app-error';
+import { describeIssues, idParam, validateBody } from '../common/validate';
+import {
+  analysisQuerySchema,
+  approveSchema,
+  createBatchSchema,
+  reasonSchema,
+  updateSettingsSchema,
+} from './batches.schema';
 import type { Role } from '../users/user.entity';
 import type { BatchesService } from './batches.service';
 
@@ -26,7 +33,29 @@ export function batchesRouter(batches: BatchesService): Router {
     res.json(await batches.get(idParam(req.params['id'], 'Batch')));
   });
   router.get('/:id/analysis', EVERYONE, async (req, res) => {
-    res.json(await batches.analysis(idParam(req.params['id'], 'Batch')));
+    const query = analysisQuerySchema.safeParse(req.query);
+    if (!query.success) throw AppError.badRequest(`Invalid query: ${describeIssues(query.error.issues)}`);
+    res.json(
+      await batches.analysis(
+        idParam(req.params['id'], 'Batch'),
+        {},
+        { engineCheck: query.data.engineCheck === 'true' },
+      ),
+    );
+  });
+  router.get('/:id/results', EVERYONE, async (req, res) => {
+    res.json(await batches.results(idParam(req.params['id'], 'Batch')));
+  });
+  router.get('/:id/results/:recordId', EVERYONE, async (req, res) => {
+    res.json(
+      await batches.result(
+        idParam(req.params['id'], 'Batch'),
+        idParam(req.params['recordId'], 'Approval record'),
+      ),
+    );
+  });
+  router.get('/:id/epsilon-sources', EVERYONE, async (req, res) => {
+    res.json(await batches.epsilonSources(idParam(req.params['id'], 'Batch')));
   });
   router.put(
     '/:id/settings',

@@ -1,11 +1,6 @@
-import { type DataSource, type EntityManager, In, type Repository } from 'typeorm';
-import {
-  type AnalysisSettings,
-  type BatchResult,
-  type KStatus,
-  type Reading,
-  type SampleDefinition,
-} from '../analysis';
+import { type DataSource, type EntityManager, In, IsNull, type Repository } from 'typeorm';
+import type { AnalysisSettings, BatchResult, KStatus, Reading, SampleDefinition } from '../analysis';
+import { type AnalysisEngine, analyzeWith, currentAnalysisEngine } from '../analysis-engine/analysis-engine';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
 import type { EventBus } from '../events/event-bus';
@@ -17,9 +12,15 @@ import type { LayoutsService } from '../layouts/layouts.service';
 import { Manifest } from '../manifests/manifest.entity';
 import type { ManifestsService } from '../manifests/manifests.service';
 import { User } from '../users/user.entity';
-import { runAnalysis } from '../workers';
 import { Batch, type BatchState } from './batch.entity';
-import { type BatchSettings, type CreateBatchInput, batchSettingsSchema } from './batches.schema';
+import { BATCH_RESULT_SCHEMA_VERSION, BatchResultRecord } from './batch-result.entity';
+import {
+  type BatchSettings,
+  type CreateBatchInput,
+  type EpsilonSource,
+  type SettingsChange,
+  batchSettingsSchema,
+} from './batches.schema';
 
 /** The headline of a batch's analysis, for lists: QC flags, the best stoichiometry and its K. */
 export interface BatchResultSummary {
@@ -64,8 +65,70 @@ export interface BatchDto {
   approvedBy: string | null;
   approvedAt: string | null;
   approvalComment: string | null;
-  /** Null until a file has arrived. */
+  createdBy: string | null;
+  /** Null until a file has arrived. For an approved batch: the headline of its approval record. */
   summary: BatchResultSummary | null;
+}
+
+/** One input file as an approval record names it. */
+export interface RecordedFile {
+  id: number;
+  originalName: string;
+  sha256: string;
+  readingCount: number;
+  receivedAt: string;
+}
+
+/** What one approval froze, without the result itself (GET /api/batches/:id/results lists these). */
+export interface ApprovalRecordDto {
+  id: number;
+  batchId: number;
+  schemaVersion: number;
+  engine: { version: string; packageVersion: string; sourceSha256: string };
+  approvedBy: string | null;
+  approvedAt: string;
+  approvalComment: string;
+  settings: BatchSettings;
+  files: RecordedFile[];
+  /** The headline of the stored result. */
+  summary: BatchResultSummary;
+  /** Set when the batch was reopened after this approval; the record stays as it was. */
+  supersededAt: string | null;
+  supersededBy: string | null;
+  supersededReason: string | null;
+}
+
+/** One approval record in full: also the settings as the analysis module took them, and the result. */
+export interface ApprovalRecordFullDto extends ApprovalRecordDto {
+  analysisSettings: AnalysisSettings;
+  result: BatchResult;
+}
+
+/** Today's engine on an approved batch's inputs, compared with the approval record's headline. */
+export interface EngineCheckDto {
+  /** The engine this server runs. */
+  engineVersion: string;
+  sameEngine: boolean;
+  /** True when best model, K, its interval or its status differ from the record. */
+  differs: boolean;
+  /** False when the files stored now are not those the record names (by SHA-256): then the difference is not the engine's. */
+  inputsMatch: boolean;
+  current: BatchResultSummary | null;
+  /** Why today's engine gave no result, when it failed. */
+  error: string | null;
+}
+
+/** A batch whose calibration may give ε of the complex to another batch. */
+export interface EpsilonCandidateDto {
+  batchId: number;
+  batchName: string;
+  state: BatchState;
+  temperatureC: number | null;
+  /** The approval record the value comes from (approved batches); null: the batch's analysis now. */
+  recordId: number | null;
+  wavelengthNm: number;
+  epsilonLPerMolCm: number;
+  epsilonSe: number;
 }
 
 /** Everything the analysis needs, so the browser can recompute what-if edits with the same module. */
@@ -84,6 +147,12 @@ export interface BatchAnalysisDto {
   }[];
   settings: AnalysisSettings;
   result: BatchResult;
+  /** Approved batches: the approval record `result` comes from (null if approved before records were kept). */
+  record: ApprovalRecordDto | null;
+  /** Only when asked for, on an approved batch with a record. */
+  engineCheck?: EngineCheckDto;
+  /** Every approval record of the batch, newest first (superseded ones included). */
+  approvals: ApprovalRecordDto[];
 }
 
 /** The headline of an analysis result. */
@@ -103,6 +172,49 @@ export function summarize(result: BatchResult): BatchResultSummary {
     kUnit: h?.kUnit ?? null,
     kText: h?.text ?? null,
   };
+}
+
+/** What an approved result says at a glance: best model, K, its interval, and what is known of K. */
+export function headlineOf(result: BatchResult): Record<string, unknown> {
+  const s = summarize(result);
+  return {
+    best: s.best,
+    k: s.k,
+    kCi95: s.kCi95,
+    kStatus: s.kStatus,
+    kLowerBound95: s.kLowerBound95,
+    kUpperBound95: s.kUpperBound95,
+  };
+}
+
+/**
+ * Whether two results say something different at a glance. Best model, K and its interval always count;
+ * a field only one engine reports (a K status an older engine did not have) does not by itself.
+ */
+export function headlinesDiffer(a: BatchResult, b: BatchResult): boolean {
+  const ha = headlineOf(a);
+  const hb = headlineOf(b);
+  const keys = Object.keys(ha).filter(
+    (k) => ['best', 'k', 'kCi95'].includes(k) || (ha[k] !== null && hb[k] !== null),
+  );
+  return keys.some((k) => !sameValue(ha[k], hb[k]));
+}
+
+/** Equal to 6 significant figures (numbers), element by element (arrays), or exactly (anything else). */
+export function sameValue(a: unknown, b: unknown): boolean {
+  if (typeof a === 'number' && typeof b === 'number') {
+    if (!Number.isFinite(a) || !Number.isFinite(b)) return Object.is(a, b);
+    return Math.abs(a - b) <= 1e-6 * Math.max(Math.abs(a), Math.abs(b));
+  }
+  if (Array.isArray(a) && Array.isArray(b))
+    return a.length === b.length && a.every((x, i) => sameValue(x, b[i]));
+  if (a && b && typeof a === 'object' && typeof b === 'object') {
+    const keys = new Set([...Object.keys(a), ...Object.keys(b)]);
+    return [...keys].every((k) =>
+      sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]),
+    );
+  }
+  return a === b || (a == null && b == null);
 }
 
 /** Batch settings as the analysis module takes them. */
@@ -126,9 +238,30 @@ export function toAnalysisSettings(
   };
 }
 
-/** Batches: creation, files attached by run id, settings, review and approval — all audited. */
+export interface BatchesOptions {
+  /** The analysis and its version; the module of this build unless a test simulates another. */
+  engine?: AnalysisEngine;
+  /** Lab policy: the approver neither created the batch nor marked it reviewed. */
+  fourEyesApproval?: boolean;
+}
+
+/** The inputs of a batch's analysis, read in one go. */
+interface BatchInputs {
+  readings: (Reading & { intakeFileId: number })[];
+  samples: SampleDefinition[];
+  layoutPositions: { position: string; role: string; replicateGroup?: string }[];
+  files: BatchAnalysisDto['files'];
+}
+
+/**
+ * Batches: creation, files attached by run id, settings, review and approval — all audited. Approval
+ * freezes the result in an approval record; an approved batch is shown from that record only.
+ */
 export class BatchesService {
   private readonly batches: Repository<Batch>;
+  private readonly records: Repository<BatchResultRecord>;
+  private readonly engine: AnalysisEngine;
+  private readonly fourEyesApproval: boolean;
   /** Summaries by batch, valid while the batch row and its files are unchanged. */
   private readonly summaries = new Map<number, { key: string; summary: BatchResultSummary }>();
 
@@ -138,8 +271,17 @@ export class BatchesService {
     private readonly manifests: ManifestsService,
     private readonly audit: AuditService,
     private readonly events: EventBus,
+    options: BatchesOptions = {},
   ) {
     this.batches = dataSource.getRepository(Batch);
+    this.records = dataSource.getRepository(BatchResultRecord);
+    this.engine = options.engine ?? currentAnalysisEngine();
+    this.fourEyesApproval = options.fourEyesApproval ?? false;
+  }
+
+  /** The version of the analysis this server runs. */
+  get engineVersion(): string {
+    return this.engine.version.label;
   }
 
   async getBatch(id: number): Promise<Batch> {
@@ -271,16 +413,28 @@ export class BatchesService {
     this.events.publish('batch.updated', { id: batchId });
   }
 
-  async updateSettings(
-    id: number,
-    changes: Partial<BatchSettings>,
-    reason: string,
-    actor: Actor,
-  ): Promise<BatchDto> {
+  async updateSettings(id: number, change: SettingsChange, reason: string, actor: Actor): Promise<BatchDto> {
     const batch = await this.getBatch(id);
     this.assertEditable(batch);
     const before = batchSettingsSchema.parse(JSON.parse(batch.settingsJson));
-    const after = batchSettingsSchema.parse({ ...before, ...changes });
+    const { epsilonFromBatchId, ...changes } = change;
+    let epsilonSource: EpsilonSource | null = before.epsilonSource;
+    if (epsilonFromBatchId !== undefined) {
+      const candidate = await this.epsilonCandidate(batch, epsilonFromBatchId);
+      changes.epsilonLPerMolCm = candidate.epsilonLPerMolCm;
+      epsilonSource = {
+        batchId: candidate.batchId,
+        batchName: candidate.batchName,
+        recordId: candidate.recordId,
+        wavelengthNm: candidate.wavelengthNm,
+        epsilonLPerMolCm: candidate.epsilonLPerMolCm,
+        takenAt: new Date().toISOString(),
+      };
+    } else if (changes.epsilonLPerMolCm !== undefined) {
+      // A typed value, or back to this batch's own standards.
+      epsilonSource = null;
+    }
+    const after = batchSettingsSchema.parse({ ...before, ...changes, epsilonSource });
     await this.dataSource.transaction(async (manager) => {
       await manager.update(Batch, { id }, { settingsJson: JSON.stringify(after) });
       const excluded = after.exclusions.filter(
@@ -292,7 +446,7 @@ export class BatchesService {
           action: excluded.length ? 'exclude' : 'settings',
           entity: 'batch',
           entityId: id,
-          summary: `Changed analysis settings of batch "${batch.name}"${excluded.length ? `; excluded ${excluded.map((e) => e.position).join(', ')}` : ''}`,
+          summary: `Changed analysis settings of batch "${batch.name}"${excluded.length ? `; excluded ${excluded.map((e) => e.position).join(', ')}` : ''}${epsilonFromBatchId !== undefined ? `; ε from batch "${epsilonSource?.batchName}"${epsilonSource?.recordId ? `, record ${epsilonSource.recordId}` : ''}` : ''}`,
           before,
           after,
           reason,
@@ -304,6 +458,23 @@ export class BatchesService {
     return this.get(id);
   }
 
+  /** The four-eyes rule, when the lab keeps it: the approver neither created nor reviewed the batch. */
+  private assertFourEyes(batch: Batch, actor: Actor): void {
+    if (!this.fourEyesApproval) return;
+    const did =
+      batch.createdById === actor.id
+        ? 'created it'
+        : batch.reviewedById === actor.id
+          ? 'marked it reviewed'
+          : null;
+    if (did)
+      throw new AppError(
+        'four_eyes',
+        403,
+        `Four-eyes approval: batch "${batch.name}" must be approved by someone other than whoever created it or marked it reviewed, and you ${did}. Ask another lab manager to approve it.`,
+      );
+  }
+
   private async transition(
     id: number,
     from: BatchState[],
@@ -312,26 +483,38 @@ export class BatchesService {
     action: string,
     text: string | null,
   ): Promise<BatchDto> {
-    const batch = await this.getBatch(id);
-    if (!from.includes(batch.state)) {
-      throw AppError.conflict(
-        `Batch "${batch.name}" is ${batch.state}; it must be ${from.join(' or ')} to be ${to === 'open' ? 'reopened' : to}.`,
-      );
-    }
-    const now = new Date().toISOString();
-    const changes: Partial<Batch> = { state: to };
-    if (to === 'reviewed') Object.assign(changes, { reviewedById: actor.id, reviewedAt: now });
-    if (to === 'approved')
-      Object.assign(changes, { approvedById: actor.id, approvedAt: now, approvalComment: text });
-    if (to === 'open')
-      Object.assign(changes, {
-        reviewedById: null,
-        reviewedAt: null,
-        approvedById: null,
-        approvedAt: null,
-        approvalComment: null,
-      });
     await this.dataSource.transaction(async (manager) => {
+      // Read again inside the transaction: the state checked is the state changed.
+      const batch = await manager.findOneBy(Batch, { id });
+      if (!batch) throw AppError.notFound(`No batch with id ${id}.`);
+      if (!from.includes(batch.state)) {
+        throw AppError.conflict(
+          `Batch "${batch.name}" is ${batch.state}; it must be ${from.join(' or ')} to be ${to === 'open' ? 'reopened' : to}.`,
+        );
+      }
+      if (to === 'approved') this.assertFourEyes(batch, actor);
+      const now = new Date().toISOString();
+      const changes: Partial<Batch> = { state: to };
+      if (to === 'reviewed') Object.assign(changes, { reviewedById: actor.id, reviewedAt: now });
+      if (to === 'approved') {
+        Object.assign(changes, { approvedById: actor.id, approvedAt: now, approvalComment: text });
+        await this.storeRecord(manager, batch, actor, now, text ?? '');
+      }
+      if (to === 'open') {
+        Object.assign(changes, {
+          reviewedById: null,
+          reviewedAt: null,
+          approvedById: null,
+          approvedAt: null,
+          approvalComment: null,
+        });
+        // The approval record stays; it is only marked as no longer the batch's current one.
+        await manager.update(
+          BatchResultRecord,
+          { batchId: id, supersededAt: IsNull() },
+          { supersededAt: now, supersededById: actor.id, supersededReason: text },
+        );
+      }
       await manager.update(Batch, { id }, changes);
       await this.audit.record(
         {
@@ -349,6 +532,51 @@ export class BatchesService {
     });
     this.events.publish('batch.updated', { id, state: to });
     return this.get(id);
+  }
+
+  /** Analyse the batch as it stands and keep everything needed to show and check it later. */
+  private async storeRecord(
+    manager: EntityManager,
+    batch: Batch,
+    actor: Actor,
+    approvedAt: string,
+    comment: string,
+  ): Promise<void> {
+    const settings = batchSettingsSchema.parse(JSON.parse(batch.settingsJson));
+    const inputs = await this.loadInputs(batch, manager);
+    const analysisSettings = toAnalysisSettings(settings);
+    let result: BatchResult;
+    try {
+      result = this.engine.analyze(inputs.readings, inputs.samples, analysisSettings);
+    } catch (err) {
+      throw AppError.conflict(
+        `Batch "${batch.name}" cannot be approved: its analysis fails (${err instanceof Error ? err.message : String(err)}). Fix the settings or the data first.`,
+      );
+    }
+    const files: RecordedFile[] = inputs.files.map((f) => ({
+      id: f.id,
+      originalName: f.originalName,
+      sha256: f.sha256,
+      readingCount: f.readingCount,
+      receivedAt: f.receivedAt,
+    }));
+    await manager.insert(BatchResultRecord, {
+      batchId: batch.id,
+      schemaVersion: BATCH_RESULT_SCHEMA_VERSION,
+      engineVersion: this.engine.version.label,
+      enginePackageVersion: this.engine.version.packageVersion,
+      engineSourceSha256: this.engine.version.sourceSha256,
+      settingsJson: JSON.stringify(settings),
+      analysisSettingsJson: JSON.stringify(analysisSettings),
+      resultJson: JSON.stringify(result),
+      filesJson: JSON.stringify(files),
+      approvedById: actor.id,
+      approvedAt,
+      approvalComment: comment,
+      supersededAt: null,
+      supersededById: null,
+      supersededReason: null,
+    });
   }
 
   review(id: number, actor: Actor): Promise<BatchDto> {
@@ -372,9 +600,16 @@ export class BatchesService {
     return this.toDto(await this.getBatch(id));
   }
 
+  private async userNames(ids: (number | null)[]): Promise<Map<number, string>> {
+    const wanted = [...new Set(ids.filter((x): x is number => x !== null))];
+    if (!wanted.length) return new Map();
+    const users = await this.dataSource.manager.find(User, { where: { id: In(wanted) } });
+    return new Map(users.map((u) => [u.id, u.displayName]));
+  }
+
   private async toDto(b: Batch, withSummary = true): Promise<BatchDto> {
     const m = this.dataSource.manager;
-    const [profile, layout, manifest, files, reviewer, approver] = await Promise.all([
+    const [profile, layout, manifest, files, names] = await Promise.all([
       m.findOneBy(InstrumentProfile, { id: b.profileId }),
       m.findOneBy(Layout, { id: b.layoutId }),
       m.findOneBy(Manifest, { id: b.manifestId }),
@@ -382,8 +617,7 @@ export class BatchesService {
         where: { batchId: b.id, status: 'stored' },
         select: { id: true, finishedAt: true },
       }),
-      b.reviewedById ? m.findOneBy(User, { id: b.reviewedById }) : null,
-      b.approvedById ? m.findOneBy(User, { id: b.approvedById }) : null,
+      this.userNames([b.createdById, b.reviewedById, b.approvedById]),
     ]);
     const updatedAt = new Date(b.updatedAt).toISOString();
     const lastFile =
@@ -412,40 +646,46 @@ export class BatchesService {
       createdAt: new Date(b.createdAt).toISOString(),
       updatedAt,
       lastActivityAt: lastFile > updatedAt ? lastFile : updatedAt,
-      reviewedBy: reviewer?.displayName ?? null,
+      reviewedBy: b.reviewedById ? (names.get(b.reviewedById) ?? null) : null,
       reviewedAt: b.reviewedAt,
-      approvedBy: approver?.displayName ?? null,
+      approvedBy: b.approvedById ? (names.get(b.approvedById) ?? null) : null,
       approvedAt: b.approvedAt,
       approvalComment: b.approvalComment,
+      createdBy: b.createdById ? (names.get(b.createdById) ?? null) : null,
       summary:
         withSummary && files.length
-          ? await this.summary(b.id, `${updatedAt}|${files.length}|${lastFile}`)
+          ? await this.summary(b, `${updatedAt}|${files.length}|${lastFile}`)
           : null,
     };
   }
 
-  /** The analysis headline, computed once per change of the batch or its files. */
-  private async summary(id: number, key: string): Promise<BatchResultSummary | null> {
-    const cached = this.summaries.get(id);
+  /** The analysis headline: of the approval record when approved, else computed once per change. */
+  private async summary(b: Batch, key: string): Promise<BatchResultSummary | null> {
+    const cached = this.summaries.get(b.id);
     if (cached?.key === key) return cached.summary;
     try {
-      const summary = summarize((await this.analysis(id)).result);
-      this.summaries.set(id, { key, summary });
+      const record = b.state === 'approved' ? await this.currentRecordRow(b.id) : null;
+      const summary = summarize(
+        record ? (JSON.parse(record.resultJson) as BatchResult) : (await this.analysis(b.id)).result,
+      );
+      this.summaries.set(b.id, { key, summary });
       return summary;
     } catch {
       return null;
     }
   }
 
-  /** The batch's inputs and its analysis, computed with the shared module. */
-  async analysis(id: number, overrides: Partial<AnalysisSettings> = {}): Promise<BatchAnalysisDto> {
-    const batch = await this.toDto(await this.getBatch(id), false);
-    const files = await this.dataSource.manager.find(IntakeFile, {
-      where: { batchId: id, status: 'stored' },
+  /** The readings, samples, layout and files of a batch, read through `manager` (a transaction's, or the default). */
+  private async loadInputs(
+    batch: Pick<Batch, 'id' | 'manifestId' | 'manifestVersion' | 'layoutId' | 'layoutVersion'>,
+    manager: EntityManager = this.dataSource.manager,
+  ): Promise<BatchInputs> {
+    const files = await manager.find(IntakeFile, {
+      where: { batchId: batch.id, status: 'stored' },
       order: { id: 'ASC' },
     });
     const rows = files.length
-      ? await this.dataSource.manager.find(ReadingRow, {
+      ? await manager.find(ReadingRow, {
           where: { intakeFileId: In(files.map((f) => f.id)) },
           order: { id: 'ASC' },
         })
@@ -462,11 +702,7 @@ export class BatchesService {
     }));
     const manifest = await this.manifests.get(batch.manifestId, batch.manifestVersion);
     const layout = await this.layouts.get(batch.layoutId, batch.layoutVersion);
-    const settings = toAnalysisSettings(batch.settings, overrides);
-    const result = await runAnalysis(readings, manifest.samples, settings);
-    if (files.length && Object.keys(overrides).length === 0) batch.summary = summarize(result);
     return {
-      batch,
       readings,
       samples: manifest.samples,
       layoutPositions: layout.positions,
@@ -478,8 +714,204 @@ export class BatchesService {
         readingCount: f.readingCount,
         receivedAt: f.receivedAt,
       })),
-      settings,
+    };
+  }
+
+  /**
+   * The batch's inputs and its analysis. An approved batch answers with its approval record's result and
+   * settings, never a recomputation; `engineCheck` adds what today's engine would say, beside it.
+   */
+  async analysis(
+    id: number,
+    overrides: Partial<AnalysisSettings> = {},
+    options: { engineCheck?: boolean } = {},
+  ): Promise<BatchAnalysisDto> {
+    const entity = await this.getBatch(id);
+    const batch = await this.toDto(entity, false);
+    const inputs = await this.loadInputs(entity);
+    const hasOverrides = Object.keys(overrides).length > 0;
+    const row = entity.state === 'approved' && !hasOverrides ? await this.currentRecordRow(id) : null;
+    if (row) {
+      const full = await this.toRecordFull(row);
+      batch.summary = full.summary;
+      return {
+        batch,
+        ...inputs,
+        settings: full.analysisSettings,
+        result: full.result,
+        record: this.withoutResult(full),
+        ...(options.engineCheck ? { engineCheck: await this.engineCheck(full, inputs) } : {}),
+        approvals: await this.recordsOf(id),
+      };
+    }
+    const settings = toAnalysisSettings(batch.settings, overrides);
+    const result = await analyzeWith(this.engine, inputs.readings, inputs.samples, settings);
+    if (inputs.files.length && !hasOverrides) batch.summary = summarize(result);
+    return { batch, ...inputs, settings, result, record: null, approvals: await this.recordsOf(id) };
+  }
+
+  /** Today's engine on the record's inputs and settings, compared with the record's headline. */
+  private async engineCheck(record: ApprovalRecordFullDto, inputs: BatchInputs): Promise<EngineCheckDto> {
+    const engineVersion = this.engine.version.label;
+    const sameEngine =
+      record.engine.sourceSha256 === this.engine.version.sourceSha256 &&
+      record.engine.packageVersion === this.engine.version.packageVersion;
+    const hashes = (files: { sha256: string }[]) =>
+      files
+        .map((f) => f.sha256)
+        .sort()
+        .join(',');
+    const inputsMatch = hashes(record.files) === hashes(inputs.files);
+    try {
+      const now = await analyzeWith(
+        this.engine,
+        inputs.readings,
+        inputs.samples,
+        toAnalysisSettings(record.settings),
+      );
+      return {
+        engineVersion,
+        sameEngine,
+        differs: headlinesDiffer(now, record.result),
+        inputsMatch,
+        current: summarize(now),
+        error: null,
+      };
+    } catch (err) {
+      return {
+        engineVersion,
+        sameEngine,
+        differs: true,
+        inputsMatch,
+        current: null,
+        error: err instanceof Error ? err.message : String(err),
+      };
+    }
+  }
+
+  private currentRecordRow(batchId: number): Promise<BatchResultRecord | null> {
+    return this.records.findOne({
+      where: { batchId, supersededAt: IsNull() },
+      order: { id: 'DESC' },
+    });
+  }
+
+  private async toRecordFull(row: BatchResultRecord): Promise<ApprovalRecordFullDto> {
+    const names = await this.userNames([row.approvedById, row.supersededById]);
+    const result = JSON.parse(row.resultJson) as BatchResult;
+    return {
+      id: row.id,
+      batchId: row.batchId,
+      schemaVersion: row.schemaVersion,
+      engine: {
+        version: row.engineVersion,
+        packageVersion: row.enginePackageVersion,
+        sourceSha256: row.engineSourceSha256,
+      },
+      approvedBy: row.approvedById ? (names.get(row.approvedById) ?? null) : null,
+      approvedAt: row.approvedAt,
+      approvalComment: row.approvalComment,
+      settings: batchSettingsSchema.parse(JSON.parse(row.settingsJson)),
+      files: JSON.parse(row.filesJson) as RecordedFile[],
+      summary: summarize(result),
+      supersededAt: row.supersededAt,
+      supersededBy: row.supersededById ? (names.get(row.supersededById) ?? null) : null,
+      supersededReason: row.supersededReason,
+      analysisSettings: JSON.parse(row.analysisSettingsJson) as AnalysisSettings,
       result,
     };
+  }
+
+  private withoutResult(full: ApprovalRecordFullDto): ApprovalRecordDto {
+    const { analysisSettings: _settings, result: _result, ...record } = full;
+    return record;
+  }
+
+  /** Every approval record of a batch, newest first: the current one and those a reopening superseded. */
+  async results(batchId: number): Promise<ApprovalRecordDto[]> {
+    await this.getBatch(batchId);
+    return this.recordsOf(batchId);
+  }
+
+  private async recordsOf(batchId: number): Promise<ApprovalRecordDto[]> {
+    const rows = await this.records.find({ where: { batchId }, order: { id: 'DESC' } });
+    return Promise.all(rows.map(async (r) => this.withoutResult(await this.toRecordFull(r))));
+  }
+
+  /** One approval record with its full result. */
+  async result(batchId: number, recordId: number): Promise<ApprovalRecordFullDto> {
+    const row = await this.records.findOneBy({ id: recordId, batchId });
+    if (!row) throw AppError.notFound(`Batch ${batchId} has no approval record ${recordId}.`);
+    return this.toRecordFull(row);
+  }
+
+  /**
+   * Batches whose calibration can lend ε of the complex to this one: the same chemical system, analysed
+   * at the same wavelength within ±1 nm, with a calibration. Approved batches lend the value of their approval record.
+   */
+  async epsilonSources(id: number): Promise<EpsilonCandidateDto[]> {
+    const batch = await this.getBatch(id);
+    if (!batch.systemName) return [];
+    const wavelengthNm = (await this.analysis(id)).result.wavelengthNm;
+    if (wavelengthNm === null) return [];
+    const others = await this.batches.find({
+      where: { systemName: batch.systemName },
+      order: { id: 'DESC' },
+    });
+    const out: EpsilonCandidateDto[] = [];
+    for (const other of others) {
+      if (other.id === id) continue;
+      const found = await this.calibrationOf(other);
+      if (found && Math.abs(found.wavelengthNm - wavelengthNm) <= 1) out.push(found);
+    }
+    return out;
+  }
+
+  /** The calibration another batch offers: from its approval record when approved, else its analysis now. */
+  private async calibrationOf(other: Batch): Promise<EpsilonCandidateDto | null> {
+    let result: BatchResult;
+    let recordId: number | null = null;
+    const row = other.state === 'approved' ? await this.currentRecordRow(other.id) : null;
+    if (row) {
+      result = JSON.parse(row.resultJson) as BatchResult;
+      recordId = row.id;
+    } else {
+      try {
+        result = (await this.analysis(other.id)).result;
+      } catch {
+        return null;
+      }
+    }
+    const cal = result.calibration;
+    if (!cal || result.wavelengthNm === null || !(cal.epsilonLPerMolCm > 0)) return null;
+    return {
+      batchId: other.id,
+      batchName: other.name,
+      state: other.state,
+      temperatureC: other.temperatureC,
+      recordId,
+      wavelengthNm: result.wavelengthNm,
+      epsilonLPerMolCm: cal.epsilonLPerMolCm,
+      epsilonSe: cal.epsilonSe,
+    };
+  }
+
+  /** The one candidate a settings change names, or a 400 that says why it cannot lend ε. */
+  private async epsilonCandidate(batch: Batch, sourceId: number): Promise<EpsilonCandidateDto> {
+    if (sourceId === batch.id)
+      throw AppError.badRequest(
+        "ε from another batch: choose another batch, not this one (use this batch's standards instead).",
+      );
+    const other = await this.batches.findOneBy({ id: sourceId });
+    if (!other) throw AppError.badRequest(`ε from another batch: there is no batch with id ${sourceId}.`);
+    const found = (await this.epsilonSources(batch.id)).find((c) => c.batchId === sourceId);
+    if (found) return found;
+    if (!batch.systemName || other.systemName !== batch.systemName)
+      throw AppError.badRequest(
+        `ε from another batch: "${other.name}" is not a calibration of the same chemical system (${other.systemName ?? 'none given'} vs ${batch.systemName ?? 'none given'}).`,
+      );
+    throw AppError.badRequest(
+      `ε from another batch: "${other.name}" has no calibration at this batch's wavelength (±1 nm).`,
+    );
   }
 }

@@ -6,6 +6,7 @@ import type { AppConfig } from '../config';
 import { AuditEntry } from '../audit/audit-entry.entity';
 import { SessionRow } from '../auth/session.entity';
 import { Batch } from '../batches/batch.entity';
+import { BatchResultRecord } from '../batches/batch-result.entity';
 import { BatchNotice, NotificationSettingsRow, OutboxMessage } from '../mail/mail.entity';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { ReadingRow } from '../ingest/reading.entity';
@@ -30,6 +31,7 @@ export const entities = [
   Manifest,
   ManifestVersion,
   Batch,
+  BatchResultRecord,
   OutboxMessage,
   NotificationSettingsRow,
   BatchNotice,

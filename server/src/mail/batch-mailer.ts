@@ -1,10 +1,17 @@
 import type { DataSource } from 'typeorm';
+import type { BatchResult } from '../analysis';
 import type { BatchesService } from '../batches/batches.service';
 import type { EventBus, LiveEvent } from '../events/event-bus';
 import { BatchNotice } from './mail.entity';
 import { type BatchSummary, batchApprovedMail, batchCompleteMail, qcFailureMail } from './mail-templates';
 import type { MailService } from './mail.service';
 import type { NotificationsService } from './notifications.service';
+
+/** The best stoichiometry of a result and its K, as the mails state it. */
+/** The batch's one K as the page and the PDF state it (a bound or a failed fit reads as such). */
+function bestOf(result: BatchResult): BatchSummary['best'] {
+  return result.headline ? { model: result.headline.model, kText: result.headline.text } : null;
+}
 
 /**
  * Turns batch events into mail: "batch complete" and "QC errors" once per batch when all its expected
@@ -90,7 +97,7 @@ export class BatchMailer {
       instrument: batch.profileName,
       fileCount: batch.fileCount,
       url: this.batchUrl(batch.id),
-      best: result.headline ? { model: result.headline.model, kText: result.headline.text } : null,
+      best: bestOf(result),
       verdict: result.stoichiometry?.verdict ?? null,
       errorFlags: errors.length,
     };
@@ -108,8 +115,17 @@ export class BatchMailer {
 
   private async approved(batchId: number): Promise<void> {
     const entity = await this.batches.getBatch(batchId);
-    const batch = await this.batches.get(batchId);
+    // An approved batch's analysis is its approval record: the mail states what was signed.
+    const analysis = await this.batches.analysis(batchId);
+    const batch = analysis.batch;
     if (batch.state !== 'approved') return;
+    const record = analysis.record
+      ? {
+          id: analysis.record.id,
+          engineVersion: analysis.record.engine.version,
+          best: bestOf(analysis.result),
+        }
+      : undefined;
     const people = await this.notifications.recipients(
       'batchApproved',
       ['scientist', 'lab_manager'],
@@ -124,6 +140,7 @@ export class BatchMailer {
           approver: batch.approvedBy ?? 'A lab manager',
           comment: batch.approvalComment ?? '',
           approvedAt: batch.approvedAt,
+          record,
         }),
       );
   }

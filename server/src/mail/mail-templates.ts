@@ -72,14 +72,15 @@ export interface BatchSummary {
   errorFlags: number;
 }
 
+/** The best stoichiometry and its K, one line each; one place for every mail that states K. */
+function kLines(best: BatchSummary['best']): string[] {
+  if (!best) return ['No equilibrium constant was computed for this batch.'];
+  return [`Best stoichiometry: ${best.model}`, `K = ${best.kText}`];
+}
+
 export function batchCompleteMail(name: string, s: BatchSummary): MailContent {
   const lines: string[] = [`Instrument: ${s.instrument ?? 'unknown'}`, `Files stored: ${s.fileCount}`];
-  if (s.best) {
-    lines.push(`Best stoichiometry: ${s.best.model}`);
-    lines.push(`K = ${s.best.kText}`);
-  } else {
-    lines.push('No equilibrium constant was computed for this batch.');
-  }
+  lines.push(...kLines(s.best));
   if (s.errorFlags) lines.push(`QC errors: ${s.errorFlags} (a separate mail lists them)`);
   const blocks: Block[] = [
     {
@@ -113,16 +114,33 @@ export function qcFailureMail(
 
 export function batchApprovedMail(
   name: string,
-  batch: { name: string; url: string; approver: string; comment: string; approvedAt: string | null },
+  batch: {
+    name: string;
+    url: string;
+    approver: string;
+    comment: string;
+    approvedAt: string | null;
+    /** The approved result, from the approval record (absent when there is none). */
+    record?: { id: number; engineVersion: string; best: BatchSummary['best'] };
+  },
 ): MailContent {
-  return compose(`Batch approved: ${batch.name}`, `Hello ${name},`, [
+  const blocks: Block[] = [
     {
       kind: 'p',
       text: `${batch.approver} approved batch "${batch.name}"${batch.approvedAt ? ` on ${batch.approvedAt.slice(0, 16).replace('T', ' ')} UTC` : ''}. The batch is now locked.`,
     },
     { kind: 'p', text: `Comment: ${batch.comment}` },
-    { kind: 'link', label: 'Open the batch', url: batch.url },
-  ]);
+  ];
+  if (batch.record)
+    blocks.push({
+      kind: 'list',
+      items: [
+        ...kLines(batch.record.best),
+        `Approval record ${batch.record.id}, analysis engine ${batch.record.engineVersion}`,
+      ],
+    });
+  blocks.push({ kind: 'link', label: 'Open the batch', url: batch.url });
+  return compose(`Batch approved: ${batch.name}`, `Hello ${name},`, blocks);
 }
 
 export function invitationMail(name: string, link: string, validHours: number): MailContent {

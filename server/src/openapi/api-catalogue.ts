@@ -2,6 +2,7 @@ import type { z } from 'zod';
 import { auditQuerySchema } from '../audit/audit.schema';
 import { loginSchema, setPasswordSchema } from '../auth/auth.schema';
 import {
+  analysisQuerySchema,
   approveSchema,
   assignSchema,
   createBatchSchema,
@@ -343,9 +344,39 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     method: 'get',
     path: '/api/batches/{id}/analysis',
     tag: 'batches',
-    summary: 'Inputs and results of the analysis of a batch',
+    summary:
+      "Inputs and results of the analysis of a batch; an approved batch answers from its approval record (engineCheck=true adds what today's engine gives)",
     access: ALL,
-    success: [200, 'Readings, samples, settings and the analysis result'],
+    query: analysisQuerySchema,
+    success: [
+      200,
+      'Readings, samples, settings, the analysis result and, when approved, its approval record',
+    ],
+  },
+  {
+    method: 'get',
+    path: '/api/batches/{id}/results',
+    tag: 'batches',
+    summary: 'Approval records of a batch, newest first (one per approval; a reopening keeps the old one)',
+    access: ALL,
+    success: [200, 'Approval records without their full results'],
+  },
+  {
+    method: 'get',
+    path: '/api/batches/{id}/results/{recordId}',
+    tag: 'batches',
+    summary: 'One approval record: engine version, settings, input file hashes and the full stored result',
+    access: ALL,
+    success: [200, 'The approval record'],
+  },
+  {
+    method: 'get',
+    path: '/api/batches/{id}/epsilon-sources',
+    tag: 'batches',
+    summary:
+      'Batches that can lend ε of the complex: same chemical system, wavelength within ±1 nm, with a calibration',
+    access: ALL,
+    success: [200, 'Candidate batches with their ε and the record it comes from'],
   },
   {
     method: 'put',
@@ -368,7 +399,8 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     method: 'post',
     path: '/api/batches/{id}/approve',
     tag: 'batches',
-    summary: 'Approve a reviewed batch (comment required)',
+    summary:
+      'Approve a reviewed batch (comment required): stores its approval record; with four-eyes approval the approver did not create or review it (403 four_eyes)',
     access: ['lab_manager'],
     body: approveSchema,
     success: [200, 'The batch'],

@@ -539,7 +539,9 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
   }
 
   w.heading('Batch');
-  const s = b.settings;
+  // An approved batch reports the settings its approval record froze.
+  const s = a.record?.settings ?? b.settings;
+  const rec = a.record;
   w.keyValues([
     ['Name', b.name],
     ['Instrument', b.profileName ?? `profile ${b.profileId}`],
@@ -559,15 +561,26 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
     ],
     [
       'ε from',
-      r.epsilonSource.kind === 'none'
-        ? 'none (fitted with K)'
-        : `${formatQuantity(r.epsilonSource.epsilonLPerMolCm, EPSILON_UNIT)} — ${r.epsilonSource.kind === 'given' ? 'given' : "this batch's standards"}`,
+      s.epsilonSource && s.epsilonLPerMolCm !== null
+        ? `${formatQuantity(s.epsilonLPerMolCm, EPSILON_UNIT)}, from batch "${s.epsilonSource.batchName}" (id ${s.epsilonSource.batchId}), ${s.epsilonSource.recordId !== null ? `approval record ${s.epsilonSource.recordId}` : `its analysis of ${s.epsilonSource.takenAt.slice(0, 16).replace('T', ' ')} UTC (not approved then)`}`
+        : r.epsilonSource.kind === 'none'
+          ? 'none (fitted with K)'
+          : `${formatQuantity(r.epsilonSource.epsilonLPerMolCm, EPSILON_UNIT)} — ${r.epsilonSource.kind === 'given' ? 'given' : "this batch's standards"}`,
     ],
     ['Monte Carlo draws', String(s.monteCarloDraws)],
     [
       'Exclusions',
       s.exclusions.length ? s.exclusions.map((e) => `${e.position} (${e.reason})`).join('; ') : 'none',
     ],
+    ...(rec
+      ? ([
+          [
+            'Approval record',
+            `record ${rec.id}, approved by ${rec.approvedBy ?? 'unknown'} on ${rec.approvedAt.slice(0, 16).replace('T', ' ')} UTC; this report shows the result stored then`,
+          ],
+          ['Analysis engine', `${rec.engine.version} (analysis module SHA-256 ${rec.engine.sourceSha256})`],
+        ] as [string, string][])
+      : []),
   ]);
 
   w.heading('Layout map', 120);
@@ -726,7 +739,11 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
       { header: 'Received (UTC)', width: 68 },
       { header: 'SHA-256', width: 309 },
     ],
-    a.files.map((f) => [f.originalName, f.receivedAt.slice(0, 16).replace('T', ' '), f.sha256]),
+    (rec?.files ?? a.files).map((f) => [
+      f.originalName,
+      f.receivedAt.slice(0, 16).replace('T', ' '),
+      f.sha256,
+    ]),
     'No files stored yet.',
   );
 

@@ -58,12 +58,20 @@ async function waitUntilSettled(services: EquilightApp['services'], id: number):
 export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean> {
   const { services } = equilight;
   if ((await services.layouts.list()).length > 0) return false;
-  const manager = (await services.users.list()).find((u) => u.role === 'lab_manager' && u.active);
+  const people = await services.users.list();
+  const person = (role: string): Actor | null => {
+    const u = people.find((p) => p.role === role && p.active);
+    return u ? { id: u.id, email: u.email } : null;
+  };
+  const manager = person('lab_manager');
+  // Three people for the three steps, so the approved batches keep the four-eyes rule too.
+  const creator = person('admin') ?? manager;
+  const reviewer = person('scientist') ?? manager;
   const profiles = await services.instruments.list();
   const plateReader = profiles.find((p) => p.dropSubfolder === 'plate-reader-1');
   const cuvette = profiles.find((p) => p.dropSubfolder === 'cuvette-1');
-  if (!manager || !plateReader || !cuvette) return false;
-  const actor: Actor = { id: manager.id, email: manager.email };
+  if (!manager || !creator || !reviewer || !plateReader || !cuvette) return false;
+  const actor: Actor = manager;
 
   const water = await layoutFromManifest(
     services,
@@ -86,7 +94,7 @@ export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean
         candidates: ['1:1'],
       },
     },
-    actor,
+    creator,
   );
 
   const complex = await layoutFromManifest(
@@ -110,7 +118,7 @@ export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean
         temperatureC,
         settings: { wavelengthNm: 640, pathLengthCm: 1, candidates: ['1:1', '1:2', '2:1', '1:3'] },
       },
-      actor,
+      creator,
     );
     if (temperatureC === 25) continue; // filled live by the demo instrument
     const file = `complex/CX-${temperatureC}.csv`;
@@ -121,8 +129,8 @@ export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean
       source: 'upload',
     });
     await waitUntilSettled(services, receipt.id);
-    await services.batches.review(batch.id, actor);
-    await services.batches.approve(batch.id, 'Demo: calibration and K checked.', actor);
+    await services.batches.review(batch.id, reviewer);
+    await services.batches.approve(batch.id, 'Demo: calibration and K checked.', manager);
   }
   return true;
 }

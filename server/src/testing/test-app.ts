@@ -3,6 +3,8 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
+import type { Express } from 'express';
+import type { AnalysisEngine } from '../analysis-engine/analysis-engine';
 import type { DataSource } from 'typeorm';
 import { createApp, type EquilightApp } from '../app';
 import { type AppConfig, loadConfig } from '../config';
@@ -42,36 +44,48 @@ export function followXsrfCookie(a: TestAgent): void {
   };
 }
 
-/** A real app on a real SQLite file in a temporary folder, seeded with the demo people. */
+/** A supertest agent on `app` that keeps cookies and sends the XSRF header, optionally signed in. */
+export async function signedInAgent(app: Express, role?: keyof typeof DEMO_EMAILS): Promise<TestAgent> {
+  const a = request.agent(app);
+  // Take up every XSRF cookie the server issues (a new one, bound to the session, comes with sign-in).
+  followXsrfCookie(a);
+  const first = await a.get('/api/health');
+  if (!/XSRF-TOKEN=/.test(String(first.headers['set-cookie'] ?? '')))
+    throw new Error('no XSRF cookie issued');
+  if (role) {
+    const res = await a.post('/api/auth/login').send({ email: DEMO_EMAILS[role], password: DEMO_PASSWORD });
+    if (res.status !== 200)
+      throw new Error(`sign-in as ${role} failed: ${res.status} ${JSON.stringify(res.body)}`);
+  }
+  return a;
+}
+
+/**
+ * A real app on a real SQLite file in a temporary folder, seeded with the demo people. The demo people
+ * have one lab manager, so four-eyes approval is off unless a test turns it on (FOUR_EYES_APPROVAL).
+ */
 export async function startTestApp(
   env: Record<string, string> = {},
-  /** An existing data folder to start on again (a restart); by default a new temporary one. */
-  existingDir?: string,
+  /** An existing data folder to start on again (a restart), or options with one and/or an analysis engine. */
+  options: string | { engine?: AnalysisEngine; existingDir?: string } = {},
 ): Promise<TestApp> {
-  const dir = existingDir ?? fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-test-'));
+  const opts = typeof options === 'string' ? { existingDir: options } : options;
+  const dir = opts.existingDir ?? fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-test-'));
   const config = loadConfig({
     NODE_ENV: 'test',
     DATA_DIR: dir,
     DEMO_PASSWORD,
     WEB_DIST_DIR: path.join(dir, 'no-web'),
+    FOUR_EYES_APPROVAL: 'false',
     ...env,
   });
   const dataSource = await openDatabase(config);
-  const equilight = createApp({ config, dataSource, log: () => undefined });
+  const equilight = createApp({ config, dataSource, log: () => undefined, engine: opts.engine });
   await seedDemoPeople(equilight.services.users, DEMO_PASSWORD);
   await equilight.start();
 
-  const agent = async (role?: keyof typeof DEMO_EMAILS): Promise<TestAgent> => {
-    const a = request.agent(equilight.app);
-    followXsrfCookie(a);
-    await a.get('/api/health');
-    if (role) {
-      const res = await a.post('/api/auth/login').send({ email: DEMO_EMAILS[role], password: DEMO_PASSWORD });
-      if (res.status !== 200)
-        throw new Error(`sign-in as ${role} failed: ${res.status} ${JSON.stringify(res.body)}`);
-    }
-    return a;
-  };
+  const agent = async (role?: keyof typeof DEMO_EMAILS): Promise<TestAgent> =>
+    signedInAgent(equilight.app, role);
 
   const shutDown = async (): Promise<void> => {
     await equilight.close();

@@ -89,6 +89,10 @@ describe('e-mail through the local SMTP stand-in', () => {
     expect(mails[0].text).toContain('Mika Manager (demo) approved batch "Approval check batch"');
     expect(mails[0].text).toContain('Comment: Standards and blanks look right.');
     expect(mails[0].text).toContain(`${t.config.publicUrl}/batches/${batch.batchId}`);
+    // The approved K, from the approval record, and which record and engine it is.
+    const record = (await manager.get(`/api/batches/${batch.batchId}/results`)).body[0];
+    expect(mails[0].text).toContain(`Approval record ${record.id}, analysis engine ${record.engine.version}`);
+    expect(mails[0].text).toContain(`Best stoichiometry: ${record.summary.best}`);
     // The scientist still gets the other kinds.
     const complete = (await delivered(t)).filter((m) => m.subject === 'Batch complete: Approval check batch');
     expect(complete.map((m) => m.to).sort()).toEqual([DEMO_EMAILS.lab_manager, DEMO_EMAILS.scientist]);

@@ -14,9 +14,10 @@ export interface AnalysedBatch {
   token: string;
   /**
    * Upload the demo readings as a file of this batch's run and wait until it is stored. `variant` makes
-   * the bytes distinct (trailing empty lines) so a second file is no duplicate of the first.
+   * the bytes distinct (trailing empty lines) so a second file is no duplicate of the first; `edit`
+   * changes the CSV text first. Returns the bytes sent.
    */
-  ingest(variant?: number): Promise<void>;
+  ingest(variant?: number, edit?: (csv: string) => string): Promise<Buffer>;
 }
 
 let counter = 0;
@@ -27,11 +28,21 @@ let counter = 0;
  */
 export async function createAnalysedBatch(
   t: TestApp,
-  options: { name?: string; expectedFiles?: number; settings?: Record<string, unknown> } = {},
+  options: {
+    name?: string;
+    expectedFiles?: number;
+    settings?: Record<string, unknown>;
+    systemName?: string;
+    /** Who creates the batch (layout and manifest are always the lab manager's). */
+    creator?: 'admin' | 'lab_manager';
+    /** Changes to the cuvette instrument profile the batch reads from. */
+    profile?: Record<string, unknown>;
+  } = {},
 ): Promise<AnalysedBatch> {
   const seq = ++counter;
   const admin = await t.agent('admin');
   const manager = await t.agent('lab_manager');
+  const creator = options.creator === 'admin' ? admin : manager;
   const cuvette = await createProfile(admin, {
     ...LONG_TABLE_PROFILE,
     name: `Cuvette bench ${seq}`,
@@ -40,6 +51,7 @@ export async function createAnalysedBatch(
     dropSubfolder: `cuvette-bench-${seq}`,
     fileNamePattern: '^(?<run>CX-\\d+)',
     pathLengthCm: 1,
+    ...options.profile,
   });
   const manifestCsv = fs.readFileSync(path.join(SAMPLES_DIR, 'manifest.csv'));
   const rows = parse(manifestCsv, { columns: true }) as {
@@ -67,7 +79,7 @@ export async function createAnalysedBatch(
     throw new Error(`manifest: ${manifest.status} ${JSON.stringify(manifest.body)}`);
   const name = options.name ?? `Ferric complex series ${seq} (25 °C)`;
   const runId = `CX-${seq}`;
-  const batch = await manager.post('/api/batches').send({
+  const batch = await creator.post('/api/batches').send({
     name,
     profileId: cuvette.profile.id,
     layoutId: layout.body.id,
@@ -75,7 +87,7 @@ export async function createAnalysedBatch(
     runId,
     expectedFiles: options.expectedFiles ?? 1,
     temperatureC: 25,
-    systemName: 'Ferric thiocyanate (invented demo)',
+    systemName: options.systemName ?? 'Ferric thiocyanate (invented demo)',
     ...(options.settings ? { settings: options.settings } : {}),
   });
   if (batch.status !== 201) throw new Error(`batch: ${batch.status} ${JSON.stringify(batch.body)}`);
@@ -84,9 +96,9 @@ export async function createAnalysedBatch(
     name,
     profileId: cuvette.profile.id,
     token: cuvette.token,
-    async ingest(variant = 0) {
+    async ingest(variant = 0, edit = (csv: string) => csv) {
       const bytes = Buffer.concat([
-        fs.readFileSync(path.join(SAMPLES_DIR, 'readings.csv')),
+        Buffer.from(edit(fs.readFileSync(path.join(SAMPLES_DIR, 'readings.csv'), 'utf8'))),
         Buffer.from('\n'.repeat(seq * 10 + variant)),
       ]);
       const upload = await request(t.app)
@@ -97,6 +109,7 @@ export async function createAnalysedBatch(
         throw new Error(`ingest: ${upload.status} ${JSON.stringify(upload.body)}`);
       const file = await settled(t, upload.body.id);
       if (file.status !== 'stored') throw new Error(`file ${file.status}`);
+      return bytes;
     },
   };
 }

@@ -6,7 +6,8 @@ import { seedDemoScenario } from '../demo-scenario';
 describe('demo scenario', () => {
   let t: TestApp;
   beforeAll(async () => {
-    t = await startTestApp();
+    // The demo seed keeps the four-eyes rule: three people create, review and approve.
+    t = await startTestApp({ FOUR_EYES_APPROVAL: 'true' });
     await seedDemoInstruments(t.services.instruments, { dataDir: t.dir, serverUrl: 'http://127.0.0.1:1' });
   });
   afterAll(() => t.stop());

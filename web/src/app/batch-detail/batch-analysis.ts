@@ -1,5 +1,11 @@
 import type { AnalysisSettings, BatchResult, Reading, SampleDefinition } from '@equilight/analysis';
-import { type Batch, type PlateFormat, isBatch } from '../batches/batch';
+import {
+  type Batch,
+  type BatchResultSummary,
+  type BatchSettings,
+  type PlateFormat,
+  isBatch,
+} from '../batches/batch';
 
 /** GET /api/batches/:id/analysis: the batch, every input of the analysis, and its result. */
 export interface BatchAnalysis {
@@ -18,6 +24,62 @@ export interface BatchAnalysis {
   /** The settings as the analysis module took them. */
   settings: AnalysisSettings;
   result: BatchResult;
+  /** Approved: the approval record `result` comes from (null when approved before records were kept). */
+  record?: ApprovalRecord | null;
+  /** Approved, when asked for: what today's analysis engine gives, compared with the record. */
+  engineCheck?: EngineCheck;
+  /** Every approval record of the batch, newest first; earlier ones were superseded by a reopening. */
+  approvals?: ApprovalRecord[];
+}
+
+/** What one approval froze: who, when, the engine, the input files' SHA-256 and the headline. */
+export interface ApprovalRecord {
+  id: number;
+  batchId: number;
+  schemaVersion: number;
+  engine: { version: string; packageVersion: string; sourceSha256: string };
+  approvedBy: string | null;
+  approvedAt: string;
+  approvalComment: string;
+  settings: BatchSettings;
+  files: { id: number; originalName: string; sha256: string; readingCount: number; receivedAt: string }[];
+  summary: BatchResultSummary;
+  supersededAt: string | null;
+  supersededBy: string | null;
+  supersededReason: string | null;
+}
+
+export interface EngineCheck {
+  engineVersion: string;
+  sameEngine: boolean;
+  differs: boolean;
+  /** False when the files stored now are not those the record names. */
+  inputsMatch?: boolean;
+  current: BatchResultSummary | null;
+  error: string | null;
+}
+
+/** GET /api/batches/:id/epsilon-sources: a batch of the same system and wavelength that can lend ε. */
+export interface EpsilonCandidate {
+  batchId: number;
+  batchName: string;
+  state: string;
+  temperatureC: number | null;
+  recordId: number | null;
+  wavelengthNm: number;
+  epsilonLPerMolCm: number;
+  epsilonSe: number;
+}
+
+export function isEpsilonCandidate(v: unknown): v is EpsilonCandidate {
+  return (
+    isObj(v) &&
+    typeof v['batchId'] === 'number' &&
+    typeof v['batchName'] === 'string' &&
+    typeof v['epsilonLPerMolCm'] === 'number' &&
+    typeof v['wavelengthNm'] === 'number' &&
+    (v['recordId'] === null || typeof v['recordId'] === 'number')
+  );
 }
 
 const isObj = (v: unknown): v is Record<string, unknown> => !!v && typeof v === 'object';

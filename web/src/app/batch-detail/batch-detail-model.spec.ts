@@ -6,6 +6,7 @@ import {
   NO_EDITS,
   describeEdits,
   effectiveExclusions,
+  epsilonSourceLabel,
   hasEdits,
   settingsPatch,
   withExclusion,
@@ -68,7 +69,23 @@ describe('what-if edits', () => {
         epsilon: { lPerMolCm: 1234, sourceBatchId: 3, label: 'the calibration of run 3' },
         candidates: ['1:1'],
       }),
-    ).toEqual({ epsilonLPerMolCm: 1234, candidates: ['1:1'] });
+    ).toEqual({ epsilonFromBatchId: 3, candidates: ['1:1'] });
+    // Back to this batch's own standards: the value goes, and with it the source.
+    expect(
+      settingsPatch(batch.settings, {
+        ...NO_EDITS,
+        epsilon: { lPerMolCm: null, sourceBatchId: null, label: "this batch's standards" },
+      }),
+    ).toEqual({ epsilonLPerMolCm: null });
+  });
+
+  it('names the batch and approval record ε came from', () => {
+    expect(epsilonSourceLabel({ batchName: 'Run 12', recordId: 4 })).toBe(
+      'batch "Run 12", approval record 4',
+    );
+    expect(epsilonSourceLabel({ batchName: 'Run 13', recordId: null })).toBe(
+      'batch "Run 13", not approved (its analysis now)',
+    );
   });
 });
 

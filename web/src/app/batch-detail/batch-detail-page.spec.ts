@@ -8,13 +8,17 @@ import { Subject, filter } from 'rxjs';
 import type { Role } from '../core/auth/user';
 import { AuthService } from '../core/auth/auth.service';
 import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
+import { By } from '@angular/platform-browser';
 import { fixtureAnalysis } from './analysis-fixture';
+import type { ApprovalRecord, BatchAnalysis, EpsilonCandidate } from './batch-analysis';
+import { WhatIfPanel } from './what-if-panel';
 import { BatchDetailPage, LIVE_REFRESH_DEBOUNCE_MS, WHAT_IF_DEBOUNCE_MS } from './batch-detail-page';
 import { CalibrationPanel } from './calibration-panel';
 import { EquilibriumPanel } from './equilibrium-panel';
 import { ScatterChart } from './scatter-chart';
 import { ScatterChartStub } from './scatter-chart-stub';
 
+const ANALYSIS_URL = '/api/batches/7/analysis?engineCheck=true';
 const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();
 
@@ -24,7 +28,11 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
   let events: Subject<LiveEvent>;
   let http: HttpTestingController;
 
-  async function setup(role: Role = 'scientist', analysis = fixtureAnalysis()) {
+  async function setup(
+    role: Role = 'scientist',
+    analysis: BatchAnalysis = fixtureAnalysis(),
+    candidates: EpsilonCandidate[] = [],
+  ) {
     events = new Subject<LiveEvent>();
     TestBed.configureTestingModule({
       imports: [BatchDetailPage],
@@ -52,9 +60,9 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     const fixture = TestBed.createComponent(BatchDetailPage);
     fixture.componentRef.setInput('id', '7');
     await fixture.whenStable();
-    http.expectOne('/api/batches/7/analysis').flush(analysis);
-    http.expectOne('/api/batches').flush([]);
+    http.expectOne(ANALYSIS_URL).flush(analysis);
     await fixture.whenStable();
+    http.expectOne('/api/batches/7/epsilon-sources').flush(candidates);
     http.expectOne('/api/layouts/3').flush({ id: 3, format: 'cuvette' });
     await fixture.whenStable();
     const el = fixture.nativeElement as HTMLElement;
@@ -115,7 +123,7 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     });
     put.flush(saved.batch);
     await fixture.whenStable();
-    http.expectOne('/api/batches/7/analysis').flush(saved);
+    http.expectOne(ANALYSIS_URL).flush(saved);
     await settle(fixture);
     expect(el.querySelector('[data-testid="unsaved-banner"]')).toBeNull();
   });
@@ -160,7 +168,7 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     events.next({ type: 'batch.updated', data: { id: 7 }, at: '2031-05-02T08:11:01Z' });
     await wait(LIVE_REFRESH_DEBOUNCE_MS + 50);
     const fresh = fixtureAnalysis({ batch: { fileCount: 2, expectedFiles: 2 } });
-    http.expectOne('/api/batches/7/analysis').flush(fresh);
+    http.expectOne(ANALYSIS_URL).flush(fresh);
     await settle(fixture);
     expect(text(el.querySelector('[data-testid="file-count"]'))).toBe('2 of 2');
     expect(text(el.querySelector('[data-testid="unsaved-banner"]'))).toContain(
@@ -193,8 +201,147 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     expect(req.request.method).toBe('POST');
     req.flush(fixtureAnalysis({ batch: { state: 'reviewed' } }).batch);
     await fixture.whenStable();
-    http.expectOne('/api/batches/7/analysis').flush(fixtureAnalysis({ batch: { state: 'reviewed' } }));
+    http.expectOne(ANALYSIS_URL).flush(fixtureAnalysis({ batch: { state: 'reviewed' } }));
     await fixture.whenStable();
     expect(text(el.querySelector('[data-testid="batch-state"]'))).toContain('Reviewed');
+  });
+
+  it("an approved batch shows its approval record, the input hashes, and a note when today's engine differs", async () => {
+    const approved = fixtureAnalysis({
+      batch: {
+        state: 'approved',
+        approvedBy: 'Lab Manager',
+        approvedAt: '2031-05-03T09:00:00Z',
+        approvalComment: 'Fit and calibration checked.',
+      },
+    });
+    const summary = {
+      qcFlagCount: 0,
+      qcErrorCount: 0,
+      best: '1:1',
+      k: 612.34,
+      kSe: 10,
+      kCi95: [590, 635] as [number, number],
+    };
+    const record: ApprovalRecord = {
+      id: 4,
+      batchId: 7,
+      schemaVersion: 1,
+      engine: {
+        version: '0.1.0+0123456789ab',
+        packageVersion: '0.1.0',
+        sourceSha256: '0123456789ab'.padEnd(64, '0'),
+      },
+      approvedBy: 'Lab Manager',
+      approvedAt: '2031-05-03T09:00:00Z',
+      approvalComment: 'Fit and calibration checked.',
+      settings: approved.batch.settings,
+      files: [
+        {
+          id: 31,
+          originalName: 'CL-12.csv',
+          sha256: 'c0ffee'.padEnd(64, '0'),
+          readingCount: 30,
+          receivedAt: '2031-05-02T08:05:00Z',
+        },
+      ],
+      summary,
+      supersededAt: null,
+      supersededBy: null,
+      supersededReason: null,
+    };
+    const earlier: ApprovalRecord = {
+      ...record,
+      id: 2,
+      supersededAt: '2031-05-02T12:00:00Z',
+      supersededBy: 'Lab Manager',
+      supersededReason: 'C15 excluded after all',
+    };
+    const { el } = await setup('scientist', {
+      ...approved,
+      record,
+      approvals: [record, earlier],
+      engineCheck: {
+        engineVersion: '0.2.0+ffffffffffff',
+        sameEngine: false,
+        differs: true,
+        current: { ...summary, best: '1:2', k: 1.5e7, kCi95: null },
+        error: null,
+      },
+    });
+    const block = el.querySelector('[data-testid="approval-record"]');
+    expect(text(block?.querySelector('h2') ?? null)).toBe('Approval record 4');
+    expect(text(el.querySelector('[data-testid="record-engine"]'))).toBe('0.1.0+0123456789ab');
+    expect(text(el.querySelector('[data-testid="record-headline"]'))).toMatch(
+      /^K \(1:1\) = 612\.3 L·mol⁻¹, 95 % CI/,
+    );
+    expect(text(el.querySelector('[data-testid="record-files"]'))).toContain('c0ffee'.padEnd(64, '0'));
+    const note = text(el.querySelector('[data-testid="engine-note"]'));
+    expect(note).toContain(
+      'Re-analysis with the current engine (0.2.0+ffffffffffff) gives K (1:2) = 1.500 × 10⁷ L²·mol⁻².',
+    );
+    expect(note).toContain('stays as it is');
+    expect(text(el.querySelector('[data-testid="earlier-approvals"]'))).toContain('Record 2');
+    expect(text(el.querySelector('[data-testid="earlier-approvals"]'))).toContain('C15 excluded after all');
+    // The what-if stays locked while approved.
+    expect((el.querySelector('[data-testid="exclude-submit"]') as HTMLButtonElement).disabled).toBe(true);
+  });
+
+  it('offers ε from a calibration of the same system and saves it as that batch, naming the record', async () => {
+    const candidate: EpsilonCandidate = {
+      batchId: 5,
+      batchName: 'Run 9',
+      state: 'approved',
+      temperatureC: 25,
+      recordId: 4,
+      wavelengthNm: 640,
+      epsilonLPerMolCm: 1380,
+      epsilonSe: 12,
+    };
+    const { fixture, el } = await setup('scientist', fixtureAnalysis(), [candidate]);
+    const panel = fixture.debugElement.query(By.directive(WhatIfPanel)).componentInstance as WhatIfPanel;
+    panel.epsilonSourceChange.emit('batch:5');
+    await settle(fixture);
+    expect(text(el.querySelector('[data-testid="unsaved-banner"]'))).toContain(
+      'ε from batch "Run 9", approval record 4',
+    );
+    (el.querySelector('[data-testid="what-if-save"]') as HTMLButtonElement).click();
+    await fixture.whenStable();
+    const dialogInput = document.querySelector<HTMLTextAreaElement>('[data-testid="reason-input"]')!;
+    dialogInput.value = 'Use the approved calibration of run 9';
+    dialogInput.dispatchEvent(new Event('input'));
+    document.querySelector<HTMLButtonElement>('[data-testid="reason-confirm"]')!.click();
+    await fixture.whenStable();
+    const put = http.expectOne('/api/batches/7/settings');
+    expect(put.request.body).toEqual({
+      settings: { epsilonFromBatchId: 5 },
+      reason: 'Use the approved calibration of run 9',
+    });
+    const saved = fixtureAnalysis({
+      batch: {
+        updatedAt: '2031-05-02T08:20:00Z',
+        settings: {
+          ...fixtureAnalysis().batch.settings,
+          epsilonLPerMolCm: 1380,
+          epsilonSource: {
+            batchId: 5,
+            batchName: 'Run 9',
+            recordId: 4,
+            wavelengthNm: 640,
+            epsilonLPerMolCm: 1380,
+            takenAt: '2031-05-02T08:19:00Z',
+          },
+        },
+      },
+    });
+    put.flush(saved.batch);
+    await fixture.whenStable();
+    http.expectOne(ANALYSIS_URL).flush(saved);
+    await fixture.whenStable();
+    http.expectOne('/api/batches/7/epsilon-sources').flush([candidate]);
+    await settle(fixture);
+    expect(text(el.querySelector('[data-testid="epsilon-source"]'))).toBe(
+      '1380 L·mol⁻¹·cm⁻¹, from batch "Run 9", approval record 4',
+    );
   });
 });

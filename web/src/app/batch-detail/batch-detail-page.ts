@@ -18,7 +18,6 @@ import {
   EMPTY,
   filter,
   from,
-  map,
   merge,
   of,
   Subject,
@@ -29,7 +28,8 @@ import { BatchStateLabel } from '../batches/batch-state-label';
 import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
-import { type BatchAnalysis, guessFormat } from './batch-analysis';
+import { type BatchAnalysis, type EpsilonCandidate, guessFormat } from './batch-analysis';
+import { ApprovalRecordPanel } from './approval-record-panel';
 import { BatchDetailService } from './batch-detail.service';
 import { CalibrationPanel } from './calibration-panel';
 import { EquilibriumPanel } from './equilibrium-panel';
@@ -43,6 +43,7 @@ import {
   type WhatIfEdits,
   describeEdits,
   effectiveExclusions,
+  epsilonSourceLabel,
   hasEdits,
   settingsPatch,
   wavelengthsOf,
@@ -85,6 +86,7 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
     EquilibriumPanel,
     QcPanel,
     WhatIfPanel,
+    ApprovalRecordPanel,
   ],
   templateUrl: './batch-detail-page.html',
   styleUrl: './batch-detail-page.scss',
@@ -127,16 +129,21 @@ export class BatchDetailPage {
     { initialValue: null },
   );
 
-  protected readonly otherBatches = toSignal(
-    toObservable(this.batchId).pipe(
-      switchMap((id) =>
-        this.service.batches().pipe(
-          map((list) => list.filter((b) => b.id !== id).map((b) => ({ id: b.id, name: b.name }))),
-          catchError(() => of([])),
-        ),
+  /** Calibrations that can lend ε: asked again when the batch's settings change (its wavelength may). */
+  protected readonly epsilonCandidates = toSignal(
+    toObservable(
+      computed(() => {
+        const b = this.data()?.batch;
+        return b ? `${b.id}|${b.updatedAt}` : null;
+      }),
+    ).pipe(
+      distinctUntilChanged(),
+      filter((key): key is string => key !== null),
+      switchMap(() =>
+        this.service.epsilonSources(this.batchId()).pipe(catchError(() => of([] as EpsilonCandidate[]))),
       ),
     ),
-    { initialValue: [] as { id: number; name: string }[] },
+    { initialValue: [] as EpsilonCandidate[] },
   );
 
   /** The what-if analysis, run in a worker once the edits settle; null when there are none. */
@@ -159,6 +166,17 @@ export class BatchDetailPage {
     return (this.unsaved() && w?.result) || this.data()?.result || null;
   });
   protected readonly batch = computed(() => this.data()?.batch ?? null);
+  /** The approval record an approved batch is shown from. */
+  protected readonly record = computed(() => this.data()?.record ?? null);
+  protected readonly engineCheck = computed(() => this.data()?.engineCheck ?? null);
+  /** Approval records a reopening superseded. */
+  protected readonly earlierApprovals = computed(() =>
+    (this.data()?.approvals ?? []).filter((r) => r.supersededAt !== null),
+  );
+  protected readonly savedEpsilonFrom = computed(() => {
+    const source = this.batch()?.settings.epsilonSource;
+    return source ? epsilonSourceLabel(source) : null;
+  });
   protected readonly best = computed(() => {
     const s = this.result()?.stoichiometry;
     return s?.candidates.find((c) => c.model === s.best) ?? null;
@@ -231,7 +249,7 @@ export class BatchDetailPage {
             ),
           ).pipe(
             switchMap(() =>
-              this.service.analysis(id).pipe(
+              this.service.analysis(id, true).pipe(
                 catchError((err: unknown) => {
                   this.loadError.set(apiErrorMessage(err, 'The batch could not be loaded.'));
                   this.loading.set(false);
@@ -296,22 +314,22 @@ export class BatchDetailPage {
       return;
     }
     const sourceId = Number(value.replace('batch:', ''));
-    const name = this.otherBatches().find((b) => b.id === sourceId)?.name ?? `batch ${sourceId}`;
-    this.service.analysis(sourceId).subscribe({
-      next: (other) => {
-        const epsilon = other.result.calibration?.epsilonLPerMolCm ?? null;
-        if (epsilon === null) {
-          this.snackBar.open(`${name} has no calibration to take ε from.`, 'OK', { duration: 6000 });
-          return;
-        }
-        this.edits.update((e) => ({
-          ...e,
-          epsilon: { lPerMolCm: epsilon, sourceBatchId: sourceId, label: `the calibration of ${name}` },
-        }));
+    const candidate = this.epsilonCandidates().find((c) => c.batchId === sourceId);
+    if (!candidate) {
+      this.snackBar.open('That batch no longer offers a calibration at this wavelength.', 'OK', {
+        duration: 6000,
+      });
+      return;
+    }
+    this.edits.update((e) => ({
+      ...e,
+      epsilon: {
+        lPerMolCm: candidate.epsilonLPerMolCm,
+        sourceBatchId: candidate.batchId,
+        sourceRecordId: candidate.recordId,
+        label: epsilonSourceLabel(candidate),
       },
-      error: (err: unknown) =>
-        this.snackBar.open(apiErrorMessage(err, `Could not read the calibration of ${name}.`), 'OK'),
-    });
+    }));
   }
 
   protected reset(): void {

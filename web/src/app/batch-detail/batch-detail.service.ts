@@ -1,8 +1,13 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { type Observable, map } from 'rxjs';
-import { type Batch, type BatchSettings, type PlateFormat, isBatch } from '../batches/batch';
-import { type BatchAnalysis, isBatchAnalysis } from './batch-analysis';
+import { type Batch, type PlateFormat, type SettingsChange, isBatch } from '../batches/batch';
+import {
+  type BatchAnalysis,
+  type EpsilonCandidate,
+  isBatchAnalysis,
+  isEpsilonCandidate,
+} from './batch-analysis';
 
 function checkBatch(value: unknown): Batch {
   if (!isBatch(value)) throw new Error('The server answered with an unexpected batch record.');
@@ -14,8 +19,13 @@ function checkBatch(value: unknown): Batch {
 export class BatchDetailService {
   private readonly http = inject(HttpClient);
 
-  analysis(id: number): Observable<BatchAnalysis> {
-    return this.http.get<unknown>(`/api/batches/${id}/analysis`).pipe(
+  /**
+   * The batch's analysis; an approved batch's comes from its approval record, and with `engineCheck` the
+   * server also says what today's analysis engine gives.
+   */
+  analysis(id: number, engineCheck = false): Observable<BatchAnalysis> {
+    const query = engineCheck ? '?engineCheck=true' : '';
+    return this.http.get<unknown>(`/api/batches/${id}/analysis${query}`).pipe(
       map((value) => {
         if (!isBatchAnalysis(value)) throw new Error('The server answered with an unexpected analysis.');
         return value;
@@ -34,13 +44,14 @@ export class BatchDetailService {
     );
   }
 
-  batches(): Observable<Batch[]> {
+  /** Batches of the same system, at the same wavelength (±1 nm), whose calibration can lend ε. */
+  epsilonSources(id: number): Observable<EpsilonCandidate[]> {
     return this.http
-      .get<unknown>('/api/batches')
-      .pipe(map((list) => (Array.isArray(list) ? list.filter(isBatch) : [])));
+      .get<unknown>(`/api/batches/${id}/epsilon-sources`)
+      .pipe(map((list) => (Array.isArray(list) ? list.filter(isEpsilonCandidate) : [])));
   }
 
-  saveSettings(id: number, settings: Partial<BatchSettings>, reason: string): Observable<Batch> {
+  saveSettings(id: number, settings: SettingsChange, reason: string): Observable<Batch> {
     return this.http.put<unknown>(`/api/batches/${id}/settings`, { settings, reason }).pipe(map(checkBatch));
   }
 

@@ -15,6 +15,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import type { Exclusion } from '@equilight/analysis';
 import { CANDIDATE_STOICHIOMETRIES } from '../batches/batch';
+import type { EpsilonCandidate } from './batch-analysis';
 import { formatNumber } from './number-format';
 import { REASON_MIN_LENGTH } from './reason-dialog';
 
@@ -64,7 +65,10 @@ export class WhatIfPanel {
   readonly pathLengthCm = input.required<number>();
   readonly epsilonSource = input<EpsilonSourceValue>('own');
   readonly savedEpsilon = input<number | null>(null);
-  readonly otherBatches = input<readonly { id: number; name: string }[]>([]);
+  /** Where the saved ε came from, e.g. `batch "Run 12", approval record 4`; null when typed. */
+  readonly savedEpsilonFrom = input<string | null>(null);
+  /** Calibrations of the same system at this wavelength (±1 nm), as the server offers them. */
+  readonly epsilonCandidates = input<readonly EpsilonCandidate[]>([]);
 
   readonly exclude = output<Exclusion>();
   readonly restore = output<string>();

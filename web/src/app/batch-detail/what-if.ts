@@ -1,12 +1,19 @@
 import type { AnalysisSettings, BatchResult, Exclusion, Reading } from '@equilight/analysis';
-import type { BatchSettings } from '../batches/batch';
+import type { BatchSettings, SettingsChange } from '../batches/batch';
 
 /** Where ε of the complex comes from in a what-if: this batch's standards, or another batch's calibration. */
 export interface EpsilonChoice {
   /** L·mol⁻¹·cm⁻¹; null = this batch's own standards. */
   lPerMolCm: number | null;
   sourceBatchId: number | null;
+  /** The approval record of the source batch the value comes from; null when it is not approved. */
+  sourceRecordId?: number | null;
   label: string;
+}
+
+/** "batch "Run 12", approval record 4" — which calibration lent ε, in the words the page and report use. */
+export function epsilonSourceLabel(source: { batchName: string; recordId: number | null }): string {
+  return `batch "${source.batchName}", ${source.recordId !== null ? `approval record ${source.recordId}` : 'not approved (its analysis now)'}`;
 }
 
 /**
@@ -87,16 +94,22 @@ export interface WhatIfOutcome {
   elapsedMs: number;
 }
 
-/** The body of PUT /api/batches/:id/settings: only what the edits change. */
-export function settingsPatch(saved: BatchSettings, e: WhatIfEdits): Partial<BatchSettings> {
-  const patch: Partial<BatchSettings> = {};
+/**
+ * The body of PUT /api/batches/:id/settings: only what the edits change. ε from another batch goes as
+ * that batch's id, so the server checks it and records which batch and record it came from.
+ */
+export function settingsPatch(saved: BatchSettings, e: WhatIfEdits): SettingsChange {
+  const patch: SettingsChange = {};
   if (e.addExclusions.length || e.removeExclusions.length) {
     patch.exclusions = effectiveExclusions(saved.exclusions, e);
   }
   if (e.candidates !== undefined) patch.candidates = e.candidates;
   if (e.wavelengthNm !== undefined) patch.wavelengthNm = e.wavelengthNm;
   if (e.pathLengthCm !== undefined) patch.pathLengthCm = e.pathLengthCm;
-  if (e.epsilon !== undefined) patch.epsilonLPerMolCm = e.epsilon.lPerMolCm;
+  if (e.epsilon !== undefined) {
+    if (e.epsilon.sourceBatchId !== null) patch.epsilonFromBatchId = e.epsilon.sourceBatchId;
+    else patch.epsilonLPerMolCm = e.epsilon.lPerMolCm;
+  }
   return patch;
 }
 

@@ -15,9 +15,28 @@ export interface BatchSettings {
   /** Fraction (0.15 = 15 %). */
   kCvMax: number;
   epsilonLPerMolCm: number | null;
+  /** Set by the server when ε was taken from another batch's calibration. */
+  epsilonSource?: EpsilonSource | null;
   monteCarloDraws: number;
   exclusions: { position: string; reason: string }[];
 }
+
+/** Which batch, and which of its approval records, lent ε of the complex. */
+export interface EpsilonSource {
+  batchId: number;
+  batchName: string;
+  /** null: that batch was not approved; its analysis at `takenAt` was used. */
+  recordId: number | null;
+  wavelengthNm: number | null;
+  epsilonLPerMolCm: number;
+  takenAt: string;
+}
+
+/** A settings change as PUT /api/batches/:id/settings takes it. */
+export type SettingsChange = Partial<Omit<BatchSettings, 'epsilonSource'>> & {
+  /** Take ε from this batch's calibration; the server checks system and wavelength and records the source. */
+  epsilonFromBatchId?: number;
+};
 
 export interface Batch {
   id: number;
@@ -45,6 +64,7 @@ export interface Batch {
   approvedBy: string | null;
   approvedAt: string | null;
   approvalComment: string | null;
+  createdBy?: string | null;
   /** The analysis headline; null until a file has arrived. */
   summary: BatchResultSummary | null;
 }
