@@ -147,10 +147,17 @@ const FORMATS = { 'long-table': 'long_table', 'plate-grid': 'plate_grid', spectr
 
 /** Reads and checks the command line; throws UsageError with one line naming the option. */
 export function parseCommandLine(argv: string[]): CliOptions | 'help' {
+  // "--epsilon -5" would read as a missing value; as "--epsilon=-5" it reaches the number checks below.
+  const args: string[] = [];
+  for (const a of argv) {
+    const last = args.length - 1;
+    if (/^-\d/.test(a) && last >= 0 && /^--[a-z-]+$/.test(args[last])) args[last] = `${args[last]}=${a}`;
+    else args.push(a);
+  }
   let values;
   try {
     ({ values } = parseArgs({
-      args: argv,
+      args,
       options: {
         readings: { type: 'string' },
         manifest: { type: 'string' },
@@ -222,14 +229,16 @@ export function parseCommandLine(argv: string[]): CliOptions | 'help' {
 
 /** One line for a node:util parseArgs refusal. */
 function argumentError(e: NodeJS.ErrnoException): string {
-  const option = /'(-[^']*)'/.exec(e.message)?.[1];
+  const option = /'(-[^' ]*)/.exec(e.message)?.[1];
   switch (e.code) {
     case 'ERR_PARSE_ARGS_UNKNOWN_OPTION':
       return `unknown option ${option ?? ''} (see --help)`.replace('  ', ' ');
     case 'ERR_PARSE_ARGS_UNEXPECTED_POSITIONAL':
       return `unexpected argument ${option ?? /'([^']*)'/.exec(e.message)?.[1] ?? ''}: every value follows its option (see --help)`;
     case 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE':
-      return `${option ?? 'an option'} needs a value (see --help)`;
+      return /does not take an argument/.test(e.message)
+        ? `${option ?? 'a switch'} takes no value (see --help)`
+        : `${option ?? 'an option'} needs a value (see --help)`;
     default:
       return `${e.message.split('\n')[0]} (see --help)`;
   }
