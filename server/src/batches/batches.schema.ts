@@ -25,6 +25,8 @@ export const batchSettingsSchema = z.strictObject({
   kCvMax: z.number().positive().max(10).default(0.15),
   epsilonLPerMolCm: z.number().positive().nullable().default(null),
   monteCarloDraws: z.number().int().min(0).max(20000).default(0),
+  /** Fit a constant absorbance with K and ε (a reactant held at constant concentration absorbs too). */
+  fitBaseline: z.boolean().default(false),
   exclusions: z
     .array(z.strictObject({ position, reason: z.string().trim().min(3, 'give a reason').max(500) }))
     .max(384)

@@ -20,11 +20,70 @@ function run(args: string[]): { status: number | null; stdout: string; stderr: s
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
+/**
+ * One candidate in the CLI's JSON, as these tests read it: values typed as present because each test
+ * knows which it expects, and checks null with toBeNull where it expects none.
+ */
+interface CliCandidate {
+  model: string;
+  K_mean: number;
+  fitK: number;
+  fitK_ci95: [number, number];
+  K: number;
+  K_ci95: [number, number];
+  K_unit: string;
+  K_status: string;
+  K_lower_bound_95: number;
+  K_upper_bound_95: number;
+  K_text: string;
+  delta_aic: number;
+  converged: boolean;
+  epsilon_held: boolean;
+  epsilon: number;
+  baseline: number;
+  per_mixture_n: number;
+  warnings: string[];
+}
+
+/** The CLI's JSON, as these tests read it (see CliCandidate). */
+interface CliJson {
+  wavelength_nm: number;
+  settings: {
+    candidates: string[];
+    calibration_model: string;
+    linear_range_max_absorbance: number;
+    fit_baseline: boolean;
+    exclusions: { position: string; reason: string }[];
+    mc_draws: number;
+    mc_seed: number;
+  };
+  calibration: Record<string, number>;
+  epsilon_source: { kind: string; epsilon: number | null; note: string };
+  unknowns: Record<string, unknown>[];
+  mixtures: { sample_id: string; product_M: number }[];
+  headline: { K: number; K_status: string; K_text: string } & Record<string, unknown>;
+  k_note: string;
+  stoichiometry: CliCandidate[];
+  best: string | null;
+  uncertainty: { mc_draws: number; K_mc_ci95: [number, number] };
+  job: { nearest_model: string | null };
+  mole_ratio: Record<string, unknown> | null;
+  qc: { code: string; threshold: number | null }[];
+  warnings: string[];
+}
+
+/** The candidate of one model (fails the test when it is missing). */
+function candidate(out: CliJson, model: string): CliCandidate {
+  const c = out.stoichiometry.find((x) => x.model === model);
+  if (!c) throw new Error(`no candidate ${model} in the JSON`);
+  return c;
+}
+
 /** Runs with --json and returns the parsed object (fails the test on a non-zero exit). */
-function runJson(args: string[]): Record<string, any> {
+function runJson(args: string[]): CliJson {
   const r = run([...args, '--json']);
   if (r.status !== 0) throw new Error(`exit ${r.status}: ${r.stderr}`);
-  return JSON.parse(r.stdout);
+  return JSON.parse(r.stdout) as CliJson;
 }
 
 /** A usage error: exit 2, nothing on stdout, one line on stderr. */
@@ -213,7 +272,7 @@ describe('npm run analyze (CLI)', () => {
     }
   });
 
-  it.each([
+  const usageCases: [string[], RegExp][] = [
     [['--bogus'], /^analyze: unknown option --bogus \(see --help\)$/],
     [['--readings', READINGS, '--manifest', MANIFEST, '--json=yes'], /--json takes no value/],
     [['--readings', READINGS], /--readings <file> and --manifest <file> are required/],
@@ -272,9 +331,16 @@ describe('npm run analyze (CLI)', () => {
       ['--readings', READINGS, '--manifest', MANIFEST, '--format', 'xml'],
       /--format must be long-table, plate-grid or spectrum/,
     ],
-  ])('%j exits 2 with one line', (args, pattern) => {
-    expectUsageError(args, pattern);
-  });
+  ];
+  /** The command as a person types it, for the test title. */
+  const title = (args: string[]): string =>
+    args.map((a) => (a === READINGS ? 'readings.csv' : a === MANIFEST ? 'manifest.csv' : a)).join(' ');
+  it.each(usageCases.map(([args, pattern]) => [title(args), args, pattern] as const))(
+    'analyze %s exits 2 with one line',
+    (_title, args, pattern) => {
+      expectUsageError([...args], pattern);
+    },
+  );
 
   describe('wavelength', () => {
     // The demo readings at 640 nm, and the same again at 550 nm (half the absorbance): invented.
@@ -319,9 +385,8 @@ describe('npm run analyze (CLI)', () => {
   it('--candidates limits the models; K_unit follows the stoichiometry', () => {
     const out = runJson(['--readings', READINGS, '--manifest', MANIFEST, '--candidates', '1:1, 1:2']);
     expect(out.settings.candidates).toEqual(['1:1', '1:2']);
-    expect(out.stoichiometry.map((c: { model: string }) => c.model).sort()).toEqual(['1:1', '1:2']);
-    const unit = (m: string): string =>
-      out.stoichiometry.find((c: { model: string }) => c.model === m).K_unit;
+    expect(out.stoichiometry.map((c) => c.model).sort()).toEqual(['1:1', '1:2']);
+    const unit = (m: string): string => candidate(out, m).K_unit;
     // K = [AₐB_b]/([A]^a·[B]^b) has the unit (mol/L)^(1−a−b) (IUPAC Gold Book, "stability constant"; from memory).
     expect(unit('1:1')).toBe(`L·mol${sup(-1)}`);
     expect(unit('1:2')).toBe(`L${sup(2)}·mol${sup(-2)}`);
@@ -357,19 +422,19 @@ describe('npm run analyze (CLI)', () => {
       { position: 'C20', reason: 'excluded on the command line' },
     ]);
     expect(out.calibration.n).toBe(6);
-    const job5 = out.mixtures.find((m: { sample_id: string }) => m.sample_id === 'JOB-5');
-    expect(job5.product_M).toBeNull();
-    expect(out.stoichiometry.find((c: { model: string }) => c.model === '1:1').per_mixture_n).toBe(14);
+    const job5 = out.mixtures.find((m) => m.sample_id === 'JOB-5');
+    expect(job5).toEqual(expect.objectContaining({ product_M: null }));
+    expect(candidate(out, '1:1').per_mixture_n).toBe(14);
   });
 
   it('--ceiling sets the linear-range check', () => {
     const out = runJson(['--readings', READINGS, '--manifest', MANIFEST, '--ceiling', '0.5']);
     expect(out.settings.linear_range_max_absorbance).toBe(0.5);
-    const above = out.qc.filter((f: { code: string }) => f.code === 'above-linear-range');
+    const above = out.qc.filter((f) => f.code === 'above-linear-range');
     expect(above.length).toBeGreaterThan(0);
     for (const f of above) expect(f.threshold).toBe(0.5);
     const plain = runJson(['--readings', READINGS, '--manifest', MANIFEST]);
-    expect(plain.qc.filter((f: { code: string }) => f.code === 'above-linear-range')).toHaveLength(0);
+    expect(plain.qc.filter((f) => f.code === 'above-linear-range')).toHaveLength(0);
   });
 
   it('--mc N --seed S gives a seeded Monte Carlo interval: the same seed the same interval', () => {
@@ -417,11 +482,11 @@ describe('npm run analyze (CLI)', () => {
       const without = runJson(files);
       expect(without.calibration).toBeNull();
       expect(without.epsilon_source.kind).toBe('none');
-      expect(without.stoichiometry.find((c: { model: string }) => c.model === '1:1').K_mean).toBeNull();
+      expect(candidate(without, '1:1').K_mean).toBeNull();
 
       const out = runJson([...files, '--epsilon', String(epsilon)]);
       expect(out.epsilon_source).toEqual(expect.objectContaining({ kind: 'given', epsilon }));
-      const c11 = out.stoichiometry.find((c: { model: string }) => c.model === '1:1');
+      const c11 = candidate(out, '1:1');
       expect(c11.epsilon_held).toBe(true);
       expect(c11.per_mixture_n).toBe(mixtures.length);
       expect(Math.abs(c11.K_mean / k - 1)).toBeLessThan(0.1);
@@ -443,8 +508,7 @@ describe('npm run analyze (CLI)', () => {
       });
       const out = runJson([...writeInventedRun('complete-binding', mixtures), '--epsilon', String(epsilon)]);
       expect(out.best).toBe('1:1');
-      const byModel = (m: string): Record<string, any> =>
-        out.stoichiometry.find((c: { model: string }) => c.model === m);
+      const byModel = (m: string): CliCandidate => candidate(out, m);
       const c11 = byModel('1:1');
       expect(c11.K_status).toBe('lower-bound');
       expect(c11.K).toBeNull();
