@@ -16,6 +16,8 @@ export interface BatchSettings {
   kCvMax: number;
   epsilonLPerMolCm: number | null;
   monteCarloDraws: number;
+  /** Fit a constant absorbance with K and ε (a reactant held at constant concentration absorbs too). */
+  fitBaseline: boolean;
   exclusions: { position: string; reason: string }[];
 }
 
