@@ -48,6 +48,7 @@ interface CliCandidate {
 /** The CLI's JSON, as these tests read it (see CliCandidate). */
 interface CliJson {
   wavelength_nm: number;
+  path_length_cm: number;
   settings: {
     candidates: string[];
     calibration_model: string;
@@ -58,7 +59,7 @@ interface CliJson {
     mc_seed: number;
   };
   calibration: Record<string, number>;
-  epsilon_source: { kind: string; epsilon: number | null; note: string };
+  epsilon_source: { kind: string; epsilon: number | null; epsilon_se: number | null; note: string };
   unknowns: Record<string, unknown>[];
   mixtures: { sample_id: string; product_M: number }[];
   headline: { K: number; K_status: string; K_text: string } & Record<string, unknown>;
@@ -372,6 +373,43 @@ describe('npm run analyze (CLI)', () => {
       );
     });
 
+    it('--format spectrum reads a wavelength column and one column per position', () => {
+      // The same invented readings as a spectrum table: 550 and 640 nm, one column per cuvette.
+      const rows = readFileSync(READINGS, 'utf8')
+        .trim()
+        .split('\n')
+        .slice(1)
+        .map((l) => l.split(','));
+      const spectrum = join(tmp, 'spectrum.csv');
+      writeFileSync(
+        spectrum,
+        [
+          ['wavelength_nm', ...rows.map((r) => r[0])].join(','),
+          ['550', ...rows.map((r) => (Number(r[2]) / 2).toFixed(4))].join(','),
+          ['640', ...rows.map((r) => r[2])].join(','),
+        ].join('\n') + '\n',
+      );
+      expectUsageError(
+        ['--readings', spectrum, '--manifest', MANIFEST, '--format', 'spectrum'],
+        /spectrum\.csv holds readings at 2 wavelengths \(550, 640 nm\)/,
+      );
+      const fromSpectrum = runJson([
+        '--readings',
+        spectrum,
+        '--manifest',
+        MANIFEST,
+        '--format',
+        'spectrum',
+        '--plate',
+        'cuvette',
+        '--wavelength',
+        '640',
+      ]);
+      const fromLongTable = runJson(['--readings', READINGS, '--manifest', MANIFEST]);
+      expect(fromSpectrum.calibration.slope).toBe(fromLongTable.calibration.slope);
+      expect(fromSpectrum.headline.K).toBe(fromLongTable.headline.K);
+    });
+
     it('the chosen one is analysed', () => {
       const at550 = runJson(['--readings', twoWavelengths, '--manifest', MANIFEST, '--wavelength', '550']);
       const at640 = runJson(['--readings', twoWavelengths, '--manifest', MANIFEST, '--wavelength', '640']);
@@ -413,6 +451,13 @@ describe('npm run analyze (CLI)', () => {
       .map((r) => ({ c: Number(r[3]), a: (absorbance.get(r[0]) as number) - blank }));
     const slope = standards.reduce((s, p) => s + p.c * p.a, 0) / standards.reduce((s, p) => s + p.c * p.c, 0);
     expect(out.calibration.slope).toBeCloseTo(slope, 6);
+  });
+
+  it('--path-cm scales ε: the same absorbances over half the path mean twice the ε (A = ε·l·c)', () => {
+    const full = runJson(['--readings', READINGS, '--manifest', MANIFEST]);
+    const half = runJson(['--readings', READINGS, '--manifest', MANIFEST, '--path-cm', '0.5']);
+    expect(half.path_length_cm).toBe(0.5);
+    expect(half.calibration.epsilon / full.calibration.epsilon).toBeCloseTo(2, 9);
   });
 
   it('--exclude leaves the positions out with a reason', () => {
@@ -493,6 +538,9 @@ describe('npm run analyze (CLI)', () => {
       expect(c11.K_ci95[0]).toBeLessThan(k);
       expect(c11.K_ci95[1]).toBeGreaterThan(k);
       expect(out.best).toBe('1:1');
+
+      const withSe = runJson([...files, '--epsilon', String(epsilon), '--epsilon-se', '25']);
+      expect(withSe.epsilon_source.epsilon_se).toBe(25);
     });
 
     it('a K too large to measure is null in the JSON, with K_text "> …" and each model its unit', () => {
