@@ -25,6 +25,8 @@ const settingFields = {
   kCvMax: z.number().positive().max(10),
   epsilonLPerMolCm: z.number().positive().nullable(),
   monteCarloDraws: z.number().int().min(0).max(MAX_MONTE_CARLO_DRAWS),
+  /** Fit a constant absorbance with K and ε (a reactant held at constant concentration absorbs too). */
+  fitBaseline: z.boolean(),
   exclusions: z
     .array(z.strictObject({ position, reason: z.string().trim().min(3, 'give a reason').max(500) }))
     .max(384),
@@ -56,6 +58,7 @@ export const batchSettingsSchema = z.strictObject({
   // Stored settings from before the per-request cap may hold up to 20 000 draws; the analysis caps them.
   monteCarloDraws: z.number().int().min(0).max(20000).default(0),
   exclusions: settingFields.exclusions.default([]),
+  fitBaseline: settingFields.fitBaseline.default(false),
 });
 export type BatchSettings = z.infer<typeof batchSettingsSchema>;
 export type EpsilonSource = NonNullable<BatchSettings['epsilonSource']>;

@@ -234,6 +234,7 @@ export function toAnalysisSettings(
     epsilonLPerMolCm: settings.epsilonLPerMolCm,
     exclusions: settings.exclusions,
     monteCarlo: { draws: settings.monteCarloDraws, seed: 1 },
+    fitBaseline: settings.fitBaseline,
     ...overrides,
   };
 }

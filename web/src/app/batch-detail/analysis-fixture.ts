@@ -108,6 +108,7 @@ export function fixtureBatch(changes: Partial<Batch> = {}): Batch {
       kCvMax: 0.15,
       epsilonLPerMolCm: null,
       monteCarloDraws: 0,
+      fitBaseline: false,
       exclusions: [],
     },
     createdAt: '2031-05-02T08:00:00Z',
@@ -142,6 +143,7 @@ export function fixtureAnalysis(
     epsilonLPerMolCm: batch.settings.epsilonLPerMolCm,
     exclusions: batch.settings.exclusions,
     monteCarlo: { draws: batch.settings.monteCarloDraws, seed: 1 },
+    fitBaseline: batch.settings.fitBaseline,
   };
   return {
     batch,

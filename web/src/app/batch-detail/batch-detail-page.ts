@@ -224,6 +224,7 @@ export class BatchDetailPage {
       wavelengthNm: e.wavelengthNm !== undefined ? e.wavelengthNm : (saved?.wavelengthNm ?? null),
       pathLengthCm: e.pathLengthCm ?? saved?.pathLengthCm ?? 1,
       epsilon: e.epsilon ? e.epsilon.lPerMolCm : (saved?.epsilonLPerMolCm ?? null),
+      fitBaseline: e.fitBaseline ?? saved?.fitBaseline ?? false,
     };
   });
   protected readonly epsilonSource = computed<EpsilonSourceValue>(() => {
@@ -268,7 +269,7 @@ export class BatchDetailPage {
       });
   }
 
-  protected ci(pair: [number, number] | null | undefined): string {
+  protected ci(pair: readonly [number | null, number | null] | null | undefined): string {
     return pair ? `${formatNumber(pair[0])} – ${formatNumber(pair[1])}` : '—';
   }
 
@@ -295,6 +296,16 @@ export class BatchDetailPage {
 
   protected setPathLength(pathLengthCm: number): void {
     this.edits.update((e) => ({ ...e, pathLengthCm }));
+  }
+
+  /** Back to the saved value drops the edit, so an unchanged what-if is no what-if. */
+  protected setFitBaseline(fitBaseline: boolean): void {
+    const saved = this.batch()?.settings.fitBaseline ?? false;
+    this.edits.update((e) => {
+      const next: WhatIfEdits = { ...e, fitBaseline };
+      if (fitBaseline === saved) delete next.fitBaseline;
+      return next;
+    });
   }
 
   protected setEpsilonSource(value: EpsilonSourceValue): void {

@@ -74,7 +74,7 @@ export class EquilibriumPanel {
   protected readonly abs = formatAbsorbance;
   protected readonly unit = kUnitOf;
 
-  protected ci(pair: [number, number] | null | undefined): string {
+  protected ci(pair: readonly [number | null, number | null] | null | undefined): string {
     return pair ? `${formatNumber(pair[0])} – ${formatNumber(pair[1])}` : '—';
   }
 

@@ -9,6 +9,7 @@ import {
 } from '@angular/core';
 import { FormControl, FormGroup, FormGroupDirective, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -34,8 +35,9 @@ export interface PositionChoice {
 export type EpsilonSourceValue = string;
 
 /**
- * What-if controls: exclude a position with a reason, switch candidates, wavelength, path length or the
- * source of ε. It only emits; the page recomputes with the analysis module and keeps the edits.
+ * What-if controls: exclude a position with a reason, switch candidates, wavelength, path length, the
+ * source of ε or the constant baseline. It only emits; the page recomputes with the analysis module and
+ * keeps the edits.
  */
 @Component({
   selector: 'eq-what-if-panel',
@@ -45,6 +47,7 @@ export type EpsilonSourceValue = string;
     MatInputModule,
     MatSelectModule,
     MatButtonModule,
+    MatCheckboxModule,
     MatIconModule,
   ],
   templateUrl: './what-if-panel.html',
@@ -69,6 +72,7 @@ export class WhatIfPanel {
   readonly savedEpsilonFrom = input<string | null>(null);
   /** Calibrations of the same system at this wavelength (±1 nm), as the server offers them. */
   readonly epsilonCandidates = input<readonly EpsilonCandidate[]>([]);
+  readonly fitBaseline = input(false);
 
   readonly exclude = output<Exclusion>();
   readonly restore = output<string>();
@@ -76,6 +80,7 @@ export class WhatIfPanel {
   readonly wavelengthChange = output<number | null>();
   readonly pathLengthChange = output<number>();
   readonly epsilonSourceChange = output<EpsilonSourceValue>();
+  readonly fitBaselineChange = output<boolean>();
 
   protected readonly allCandidates = CANDIDATE_STOICHIOMETRIES;
   protected readonly fmt = formatNumber;

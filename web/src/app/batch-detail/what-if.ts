@@ -28,6 +28,8 @@ export interface WhatIfEdits {
   wavelengthNm?: number | null;
   pathLengthCm?: number;
   epsilon?: EpsilonChoice;
+  /** Fit a constant absorbance offset with K and ε. */
+  fitBaseline?: boolean;
 }
 
 export const NO_EDITS: WhatIfEdits = { addExclusions: [], removeExclusions: [] };
@@ -39,7 +41,8 @@ export function hasEdits(e: WhatIfEdits): boolean {
     e.candidates !== undefined ||
     e.wavelengthNm !== undefined ||
     e.pathLengthCm !== undefined ||
-    e.epsilon !== undefined
+    e.epsilon !== undefined ||
+    e.fitBaseline !== undefined
   );
 }
 
@@ -84,6 +87,7 @@ export function whatIfSettings(saved: AnalysisSettings, e: WhatIfEdits): Analysi
     ...(e.wavelengthNm !== undefined ? { wavelengthNm: e.wavelengthNm } : {}),
     ...(e.pathLengthCm !== undefined ? { pathLengthCm: e.pathLengthCm } : {}),
     ...(e.epsilon !== undefined ? { epsilonLPerMolCm: e.epsilon.lPerMolCm } : {}),
+    ...(e.fitBaseline !== undefined ? { fitBaseline: e.fitBaseline } : {}),
   };
 }
 
@@ -110,6 +114,7 @@ export function settingsPatch(saved: BatchSettings, e: WhatIfEdits): SettingsCha
     if (e.epsilon.sourceBatchId !== null) patch.epsilonFromBatchId = e.epsilon.sourceBatchId;
     else patch.epsilonLPerMolCm = e.epsilon.lPerMolCm;
   }
+  if (e.fitBaseline !== undefined) patch.fitBaseline = e.fitBaseline;
   return patch;
 }
 
@@ -124,6 +129,8 @@ export function describeEdits(e: WhatIfEdits): string[] {
     );
   if (e.pathLengthCm !== undefined) lines.push(`Path length ${e.pathLengthCm} cm`);
   if (e.epsilon !== undefined) lines.push(`ε from ${e.epsilon.label}`);
+  if (e.fitBaseline !== undefined)
+    lines.push(e.fitBaseline ? 'Constant baseline fitted' : 'No constant baseline');
   return lines;
 }
 

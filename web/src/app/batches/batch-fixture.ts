@@ -30,6 +30,7 @@ export function batchFixture(overrides: Partial<Batch> = {}): Batch {
       kCvMax: 0.15,
       epsilonLPerMolCm: null,
       monteCarloDraws: 0,
+      fitBaseline: false,
       exclusions: [],
     },
     createdAt: '2026-03-02T09:00:00.000Z',

@@ -18,6 +18,8 @@ export interface BatchSettings {
   /** Set by the server when ε was taken from another batch's calibration. */
   epsilonSource?: EpsilonSource | null;
   monteCarloDraws: number;
+  /** Fit a constant absorbance with K and ε (a reactant held at constant concentration absorbs too). */
+  fitBaseline: boolean;
   exclusions: { position: string; reason: string }[];
 }
 
