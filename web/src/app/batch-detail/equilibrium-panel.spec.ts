@@ -59,7 +59,7 @@ describe('equilibrium panel (real analyses of invented batches)', () => {
       settings: { ...result.settings, candidates: ['2:1', '1:1', '1:2'] },
     };
     const el = await render(reordered);
-    const rows = [...el.querySelectorAll('[data-testid="candidates-table"] tbody tr')];
+    const rows = [...el.querySelectorAll('[data-testid="candidates-table"] tbody tr[data-model]')];
     expect(rows.map((r) => r.getAttribute('data-model'))).toEqual(['2:1', '1:1', '1:2']);
     const ranks = rows.map((r) => text(r.querySelector('[data-testid="candidate-rank"]')));
     const byModel = new Map(result.stoichiometry!.candidates.map((c) => [c.model, String(c.rank)]));
@@ -69,8 +69,8 @@ describe('equilibrium panel (real analyses of invented batches)', () => {
     // The default settings order (1:1, 1:2, 2:1) whatever the ranking.
     TestBed.resetTestingModule();
     const el2 = await render(result);
-    const models = [...el2.querySelectorAll('[data-testid="candidates-table"] tbody tr')].map((r) =>
-      r.getAttribute('data-model'),
+    const models = [...el2.querySelectorAll('[data-testid="candidates-table"] tbody tr[data-model]')].map(
+      (r) => r.getAttribute('data-model'),
     );
     expect(models).toEqual(result.settings.candidates);
   });
@@ -94,7 +94,7 @@ describe('equilibrium panel (real analyses of invented batches)', () => {
     expect(oneToOne.freeFit).not.toBeNull();
     expect(free).toContain(`K ${formatKValue(oneToOne.freeFit)} L·mol⁻¹`);
     expect(free).toMatch(new RegExp(`ε 14\\d\\d(\\.\\d)? ${EPSILON_UNIT}`));
-    expect(free).toContain('agrees with the fit at the batch’s ε');
+    expect(free).toContain('agrees with the held-ε fit');
 
     const ruledOut = el.querySelector('[data-model="1:2"]')!;
     const twoFit = result.stoichiometry!.candidates.find((c) => c.model === '1:2')!;
@@ -103,7 +103,8 @@ describe('equilibrium panel (real analyses of invented batches)', () => {
     expect(text(ruledOut)).toContain(twoFit.deltaAic!.toFixed(1));
     expect(text(ruledOut.querySelector('[data-testid="candidate-k"]'))).toContain('L²·mol⁻²');
     // The candidate's own notes are there, without repeating the cross-check sentence.
-    const notes = text(ruledOut.querySelector('[data-testid="candidate-notes"]'));
+    const notes = text(el.querySelector('[data-notes-for="1:2"] [data-testid="candidate-notes"]'));
+    for (const w of twoFit.warnings.filter((n) => !n.includes('cross-check'))) expect(notes).toContain(w);
     expect(notes).not.toContain('with ε fitted too (cross-check)');
   });
 

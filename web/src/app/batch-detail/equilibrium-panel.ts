@@ -94,6 +94,8 @@ export interface CandidateRow {
   status: { label: string; icon: string };
   deltaAic: string;
   spread: string;
+  /** How many mixtures the spread rests on, and how many are impossible under this candidate. */
+  mixtures: string | null;
   verdict: 'best' | 'possible' | 'ruled out';
   reason: string;
   freeFit: { k: string; epsilon: string | null; agreement: 'agrees' | 'disagrees' | null } | null;
@@ -137,11 +139,11 @@ function candidateRow(c: CandidateResult, best: string | null): CandidateRow {
         : null,
     status: fit ? K_STATUS_DISPLAY[fit.status] : { label: 'no fit', icon: 'remove' },
     deltaAic: c.deltaAic === null ? DASH : c.deltaAic.toFixed(1),
-    spread:
+    spread: c.kCv === null ? DASH : `CV ${formatPercent(c.kCv)}`,
+    mixtures:
       c.kCv === null
-        ? DASH
-        : `CV ${formatPercent(c.kCv)} over ${c.nFeasible}` +
-          (c.nInfeasible ? ` (${c.nInfeasible} impossible)` : ''),
+        ? null
+        : `${c.nFeasible} mixtures` + (c.nInfeasible ? `, ${c.nInfeasible} impossible` : ''),
     verdict: c.ruledOut ? 'ruled out' : c.model === best ? 'best' : 'possible',
     reason: c.reason,
     freeFit: fit && c.freeFit ? freeFitCell(fit, c.freeFit) : null,
@@ -214,6 +216,19 @@ export class EquilibriumPanel {
   protected readonly moleRatio = computed(() => {
     const r = this.result();
     return r.moleRatio ? moleRatioChart(r.moleRatio, r.mixtures) : null;
+  });
+  /** The Benesi–Hildebrand cross-check in one sentence. */
+  protected readonly benesiHildebrand = computed(() => {
+    const bh = this.result().benesiHildebrand;
+    if (!bh) return '';
+    if (!bh.applicable || !bh.result) return `Not applied: ${bh.reason}.`;
+    const r = bh.result;
+    const ratio =
+      bh.kRatioToGlobalFit === null ? '' : `; ${bh.kRatioToGlobalFit.toFixed(2)} × the global 1:1 fit`;
+    return (
+      `K = ${this.plusMinus(r.k, r.kSe, kUnitOf('1:1'))} from ${r.n} mixtures with ${r.excessReactant} in ` +
+      `excess (R² ${r.r2.toFixed(4)})${ratio}.`
+    );
   });
   /** The analysis's own disagreement notes (QC list), shown beside the plot they concern. */
   protected readonly jobDisagrees = computed(() => this.qcMessage('job-disagrees'));
