@@ -54,8 +54,8 @@ describe('calibration panel: linearity and detection limits (real analyses of in
     expect(cal.lodM).toBeLessThan(cal.lowestStandardM!);
     const el = await render(cal);
     expect(text(el.querySelector('[data-testid="calibration-lod"]'))).toBe(formatQuantity(cal.lodM, 'mol/L'));
-    expect(text(el.querySelector('[data-testid="calibration-lod-extrapolated"]'))).toBe(
-      `trending_downextrapolated below the lowest standard (${formatQuantity(cal.lowestStandardM, 'mol/L')})`,
+    expect(text(el.querySelector('[data-testid="calibration-lod-extrapolated"] span'))).toBe(
+      `extrapolated below the lowest standard (${formatQuantity(cal.lowestStandardM, 'mol/L')})`,
     );
     expect(text(el.querySelector('[data-testid="calibration-loq-extrapolated"]'))).toContain(
       'extrapolated below the lowest standard',

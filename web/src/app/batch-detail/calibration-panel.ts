@@ -18,12 +18,20 @@ import { ScatterChart } from './scatter-chart';
   templateUrl: './calibration-panel.html',
   styleUrl: './panels.scss',
   styles: `
-    .eq-extrapolated {
+    .eq-stats dd.eq-extrapolated {
       display: flex;
       gap: 4px;
       align-items: flex-start;
+      margin-top: 2px;
       font: var(--mat-sys-body-small);
       color: var(--mat-sys-on-surface-variant);
+    }
+    .eq-extrapolated mat-icon {
+      flex: none;
+      overflow: visible;
+    }
+    .eq-linearity__text {
+      font: var(--mat-sys-body-medium);
     }
     .eq-linearity {
       grid-column: 1 / -1;

@@ -53,8 +53,6 @@ export class BatchesPage {
     'name',
     'state',
     'instrument',
-    'layout',
-    'manifest',
     'runId',
     'files',
     'qc',
@@ -86,10 +84,6 @@ export class BatchesPage {
       switch (column) {
         case 'instrument':
           return (b.profileName ?? '').toLowerCase();
-        case 'layout':
-          return `${(b.layoutName ?? '').toLowerCase()} ${String(b.layoutVersion).padStart(6, '0')}`;
-        case 'manifest':
-          return `${(b.manifestName ?? '').toLowerCase()} ${String(b.manifestVersion).padStart(6, '0')}`;
         case 'files':
           return b.fileCount / Math.max(1, b.expectedFiles);
         case 'state':
