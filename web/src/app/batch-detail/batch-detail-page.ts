@@ -243,7 +243,7 @@ export class BatchDetailPage {
       });
   }
 
-  protected ci(pair: [number, number] | null | undefined): string {
+  protected ci(pair: [number | null, number | null] | null | undefined): string {
     return pair ? `${formatNumber(pair[0])} – ${formatNumber(pair[1])}` : '—';
   }
 
