@@ -12,6 +12,11 @@ const summary = {
   k: 612.34,
   kSe: 10,
   kCi95: [590, 635] as [number, number],
+  kStatus: 'determined' as const,
+  kLowerBound95: null,
+  kUpperBound95: null,
+  kUnit: 'L·mol⁻¹',
+  kText: '612 L·mol⁻¹ (95 % CI 590 to 635)',
 };
 const record: ApprovalRecord = {
   id: 4,
@@ -44,9 +49,11 @@ async function render(check: EngineCheck | null, approved = true) {
 
 describe('approval record panel', () => {
   it('states a headline with its unit and interval, or says there is none', () => {
-    expect(describeHeadline(summary)).toBe('K (1:1) = 612.3 L·mol⁻¹, 95 % CI 590 – 635');
-    expect(describeHeadline({ ...summary, best: null, k: null })).toBe('no equilibrium result');
-    expect(describeHeadline({ ...summary, k: null })).toBe('1:1 as the best model, without a K');
+    expect(describeHeadline(summary)).toBe('K (1:1) = 612 L·mol⁻¹ (95 % CI 590 to 635)');
+    expect(describeHeadline({ ...summary, best: null, k: null, kText: null })).toBe('no equilibrium result');
+    expect(describeHeadline({ ...summary, k: null, kText: null })).toBe('1:1 as the best model, without a K');
+    // A record written before K statements existed: its value and interval in the one number format.
+    expect(describeHeadline({ ...summary, kText: null })).toBe('K (1:1) = 612 L·mol⁻¹ (95 % CI 590 to 635)');
   });
 
   it('when the stored files no longer match the record then it says so, not that the engine changed', async () => {
@@ -74,7 +81,7 @@ describe('approval record panel', () => {
     const note = text(el.querySelector('[data-testid="engine-note"]'));
     expect(note).toContain('Re-analysis with the current engine (0.2.0+ffffffffffff) fails: no standards.');
     expect(note).toContain('stays as it is');
-    expect(text(el.querySelector('[data-testid="record-headline"]'))).toContain('612.3');
+    expect(text(el.querySelector('[data-testid="record-headline"]'))).toContain('612 L·mol⁻¹');
   });
 
   it('when the batch is not approved then only earlier approvals show, if any', async () => {

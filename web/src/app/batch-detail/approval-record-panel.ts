@@ -5,13 +5,17 @@ import type { BatchResultSummary } from '../batches/batch';
 import type { ApprovalRecord, EngineCheck } from './batch-analysis';
 import { formatNumber, kUnitOf } from './number-format';
 
-/** "K (1:1) = 612.4 L·mol⁻¹, 95 % CI 580.1 – 650.2", or what stands in for it. */
+/**
+ * "K (1:1) = 612 L·mol⁻¹ (95 % CI 590 to 635)" — the K text every screen and report uses — or what stands
+ * in for it. A record from before K statements existed is written from its value and interval.
+ */
 export function describeHeadline(s: BatchResultSummary | null): string {
   if (!s || !s.best) return 'no equilibrium result';
+  if (s.kText) return `K (${s.best}) = ${s.kText}`;
   if (s.k === null) return `${s.best} as the best model, without a K`;
   const unit = kUnitOf(s.best);
-  const ci = s.kCi95 ? `, 95 % CI ${formatNumber(s.kCi95[0])} – ${formatNumber(s.kCi95[1])}` : '';
-  return `K (${s.best}) = ${formatNumber(s.k, 4)}${unit ? ` ${unit}` : ''}${ci}`;
+  const ci = s.kCi95 ? ` (95 % CI ${formatNumber(s.kCi95[0])} to ${formatNumber(s.kCi95[1])})` : '';
+  return `K (${s.best}) = ${formatNumber(s.k)}${unit ? ` ${unit}` : ''}${ci}`;
 }
 
 /**

@@ -80,7 +80,7 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
   it('excluding a mixture with a reason changes K at once, marks it unsaved, and Save sends the reason', async () => {
     const { fixture, el } = await setup();
     const kBefore = text(el.querySelector('[data-testid="best-k-value"]'));
-    expect(kBefore).toMatch(/^6\d\d(\.\d)?$/);
+    expect(kBefore).toMatch(/^6\d\d(\.\d+)? L·mol⁻¹ \(95 % CI /);
     expect(el.querySelector('[data-testid="unsaved-banner"]')).toBeNull();
 
     // Pick the position on the map, give a reason, exclude.
@@ -222,6 +222,11 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
       k: 612.34,
       kSe: 10,
       kCi95: [590, 635] as [number, number],
+      kStatus: 'determined' as const,
+      kLowerBound95: null,
+      kUpperBound95: null,
+      kUnit: 'L·mol⁻¹',
+      kText: '612 L·mol⁻¹ (95 % CI 590 to 635)',
     };
     const record: ApprovalRecord = {
       id: 4,
@@ -265,7 +270,7 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
         engineVersion: '0.2.0+ffffffffffff',
         sameEngine: false,
         differs: true,
-        current: { ...summary, best: '1:2', k: 1.5e7, kCi95: null },
+        current: { ...summary, best: '1:2', k: 1.5e7, kCi95: null, kText: null },
         error: null,
       },
     });
@@ -273,12 +278,12 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     expect(text(block?.querySelector('h2') ?? null)).toBe('Approval record 4');
     expect(text(el.querySelector('[data-testid="record-engine"]'))).toBe('0.1.0+0123456789ab');
     expect(text(el.querySelector('[data-testid="record-headline"]'))).toMatch(
-      /^K \(1:1\) = 612\.3 L·mol⁻¹, 95 % CI/,
+      /^K \(1:1\) = 612 L·mol⁻¹ \(95 % CI 590 to 635\)/,
     );
     expect(text(el.querySelector('[data-testid="record-files"]'))).toContain('c0ffee'.padEnd(64, '0'));
     const note = text(el.querySelector('[data-testid="engine-note"]'));
     expect(note).toContain(
-      'Re-analysis with the current engine (0.2.0+ffffffffffff) gives K (1:2) = 1.500 × 10⁷ L²·mol⁻².',
+      'Re-analysis with the current engine (0.2.0+ffffffffffff) gives K (1:2) = 1.50 × 10⁷ L²·mol⁻².',
     );
     expect(note).toContain('stays as it is');
     expect(text(el.querySelector('[data-testid="earlier-approvals"]'))).toContain('Record 2');

@@ -269,7 +269,7 @@ export class BatchDetailPage {
       });
   }
 
-  protected ci(pair: readonly [number | null, number | null] | null | undefined): string {
+  protected ci(pair: [number | null, number | null] | null | undefined): string {
     return pair ? `${formatNumber(pair[0])} – ${formatNumber(pair[1])}` : '—';
   }
 

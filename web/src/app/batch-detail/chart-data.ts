@@ -1,4 +1,10 @@
-import type { CalibrationResult, JobBatchResult, MixtureResult } from '@equilight/analysis';
+import type {
+  CalibrationResult,
+  JobBatchResult,
+  MixtureResult,
+  MoleRatioBatchResult,
+} from '@equilight/analysis';
+import { formatNumber } from './number-format';
 
 /** A point of a scatter chart; `flagged` points are drawn as triangles (shape, not colour alone). */
 export interface XY {
@@ -113,5 +119,49 @@ export function jobChart(job: JobBatchResult, mixtures: readonly MixtureResult[]
       xMax === null
         ? `Job's plot of ${points.length} mixtures; no maximum found.`
         : `Job's plot of ${points.length} mixtures; the branches meet at a mole fraction of B of ${xMax.toFixed(3)}.`,
+  };
+}
+
+/**
+ * The mole-ratio series (absorbance against varied ÷ fixed reactant) with its rising line and plateau
+ * meeting at the break; drawn by the same scatter chart as Job's plot.
+ */
+export function moleRatioChart(
+  moleRatio: MoleRatioBatchResult,
+  mixtures: readonly MixtureResult[],
+): ScatterChartModel {
+  const ids = new Set(moleRatio.sampleIds);
+  const ratioOf = (m: MixtureResult) => (moleRatio.varied === 'B' ? m.b0M / m.a0M : m.a0M / m.b0M);
+  const points = mixtures
+    .filter((m) => ids.has(m.sampleId) && m.absorbance !== null)
+    .map((m) => ({ x: ratioOf(m), y: m.absorbance as number }))
+    .filter((p) => Number.isFinite(p.x))
+    .sort((a, b) => a.x - b.x);
+  const series: ChartSeries[] = [{ label: 'Mixtures', kind: 'points', points }];
+  const xBreak = moleRatio.breakRatio;
+  const xMax = Math.max(0, ...points.map((p) => p.x));
+  const { rising, plateau } = moleRatio;
+  if (rising && xBreak !== null)
+    series.push({
+      label: 'Rising line',
+      kind: 'line',
+      points: [0, xBreak].map((x) => ({ x, y: rising.slope * x + rising.intercept })),
+    });
+  if (plateau && xBreak !== null)
+    series.push({
+      label: 'Plateau',
+      kind: 'line',
+      points: [xBreak, Math.max(xBreak, xMax)].map((x) => ({ x, y: plateau.slope * x + plateau.intercept })),
+    });
+  const varied = moleRatio.varied;
+  const fixed = varied === 'B' ? 'A' : 'B';
+  return {
+    series,
+    xTitle: `Mole ratio ${varied}₀/${fixed}₀`,
+    yTitle: 'Corrected absorbance (AU)',
+    summary:
+      xBreak === null
+        ? `Mole-ratio plot of ${points.length} mixtures; no break found.`
+        : `Mole-ratio plot of ${points.length} mixtures; the lines meet at ${varied}:${fixed} = ${formatNumber(xBreak)}.`,
   };
 }

@@ -1,6 +1,7 @@
 // The product's one number format lives in the shared analysis module (screen, PDF, CSV, mails, CLI).
 export {
   DASH,
+  EPSILON_UNIT,
   formatAbsorbance,
   formatK,
   formatKValue,
@@ -9,5 +10,6 @@ export {
   formatQuantity,
   kUnit,
   kUnitOf,
+  significantDigits,
   superscript,
 } from '@equilight/analysis';

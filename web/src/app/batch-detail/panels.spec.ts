@@ -4,7 +4,7 @@ import { fixtureAnalysis } from './analysis-fixture';
 import { CalibrationPanel } from './calibration-panel';
 import { calibrationChart, jobChart, residualChart } from './chart-data';
 import { EquilibriumPanel } from './equilibrium-panel';
-import { formatNumber } from './number-format';
+import { formatKValue, formatNumber } from './number-format';
 import { QcPanel } from './qc-panel';
 import { ScatterChart } from './scatter-chart';
 import { ScatterChartStub } from './scatter-chart-stub';
@@ -37,7 +37,9 @@ describe('batch page tables (real analysis of an invented batch)', () => {
     expect(stats).toContain(`${formatNumber(cal.slope, 4)} ± ${formatNumber(cal.slopeSe, 2)} AU·L·mol⁻¹`);
     expect(stats).toContain(`${formatNumber(cal.intercept, 3)} ± ${formatNumber(cal.interceptSe, 2)} AU`);
     expect(text(el.querySelector('[data-testid="calibration-r2"]'))).toBe(cal.r2.toFixed(5));
-    expect(text(el.querySelector('[data-testid="calibration-epsilon"]'))).toMatch(/^1401 ± .* L·mol⁻¹·cm⁻¹$/);
+    expect(text(el.querySelector('[data-testid="calibration-epsilon"]'))).toMatch(
+      /^14\d\d(\.\d)? ± .* L·mol⁻¹·cm⁻¹$/,
+    );
     expect(text(el.querySelector('[data-testid="calibration-lod"]'))).toBe(`${formatNumber(cal.lodM)} mol/L`);
     expect(text(el.querySelector('[data-testid="calibration-loq"]'))).toBe(`${formatNumber(cal.loqM)} mol/L`);
     expect(text(el.querySelector('[data-testid="calibration-range"]'))).toContain('all standards in range');
@@ -84,9 +86,10 @@ describe('batch page tables (real analysis of an invented batch)', () => {
     expect(text(el.querySelector('[data-testid="verdict-detail"]'))).toMatch(/^1:1 fits best/);
     const oneToOne = el.querySelector('[data-testid="candidates-table"] [data-model="1:1"]')!;
     const fit = result.stoichiometry!.candidates.find((c) => c.model === '1:1')!.fit!;
-    expect(text(oneToOne.querySelector('[data-testid="candidate-k"]'))).toBe(formatNumber(fit.k, 4));
-    expect(text(oneToOne)).toContain('L·mol⁻¹');
-    expect(text(oneToOne)).toContain(`${formatNumber(fit.kCi95![0])} – ${formatNumber(fit.kCi95![1])}`);
+    expect(text(oneToOne.querySelector('[data-testid="candidate-k"]'))).toBe(`${formatKValue(fit)} L·mol⁻¹`);
+    expect(text(oneToOne.querySelector('[data-testid="candidate-interval"]'))).toMatch(
+      /^95 % CI [\d.]+ to [\d.]+$/,
+    );
     expect(text(oneToOne)).toContain('best');
     expect(text(el.querySelector('[data-model="1:2"]'))).toContain('ruled out');
     expect(text(el.querySelector('[data-model="1:2"]'))).toContain('L²·mol⁻²');

@@ -1,3 +1,5 @@
+import type { KStatus } from '@equilight/analysis';
+
 /** A batch as the API sends it (GET /api/batches, /api/batches/:id). */
 export type BatchState = 'open' | 'reviewed' | 'approved';
 export type PlateFormat = '96' | '384' | 'cuvette';
@@ -75,9 +77,18 @@ export interface BatchResultSummary {
   qcFlagCount: number;
   qcErrorCount: number;
   best: string | null;
+  /** K of the best candidate when it has a value (not for bounds or failed fits). */
   k: number | null;
   kSe: number | null;
-  kCi95: [number, number] | null;
+  /** 95 % interval; an end is null when the data do not bound it. */
+  kCi95: [number | null, number | null] | null;
+  /** What is known of K; null without a best candidate (or in a result stored before K had a status). */
+  kStatus: KStatus | null;
+  kLowerBound95: number | null;
+  kUpperBound95: number | null;
+  kUnit: string | null;
+  /** The K as every screen, report and mail states it (formatK). */
+  kText: string | null;
 }
 
 /** POST /api/batches. Settings left out take the instrument's or the product's defaults. */

@@ -7,7 +7,8 @@ import { Subject, filter } from 'rxjs';
 import { AuthService } from '../core/auth/auth.service';
 import type { Role } from '../core/auth/user';
 import { type LiveEvent, LiveEventsService, type LiveEventType } from '../core/live/live-events.service';
-import type { Batch } from './batch';
+import { formatK } from '@equilight/analysis';
+import type { Batch, BatchResultSummary } from './batch';
 import { batchFixture } from './batch-fixture';
 import { BATCHES_LIVE_DEBOUNCE_MS, BatchesPage } from './batches-page';
 
@@ -30,6 +31,39 @@ const BATCHES: Batch[] = [
     lastActivityAt: '2026-02-25T10:00:00.000Z',
   }),
 ];
+
+const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();
+
+/** A batch list summary as the server's summarize() writes it (its K text from the shared format). */
+function summaryOf(change: Partial<BatchResultSummary>): BatchResultSummary {
+  const base: BatchResultSummary = {
+    qcFlagCount: 2,
+    qcErrorCount: 1,
+    best: '1:1',
+    k: null,
+    kSe: null,
+    kCi95: null,
+    kStatus: 'determined',
+    kLowerBound95: null,
+    kUpperBound95: null,
+    kUnit: 'L·mol⁻¹',
+    kText: null,
+    ...change,
+  };
+  return {
+    ...base,
+    kText:
+      change.kText ??
+      formatK({
+        model: base.best ?? '1:1',
+        status: base.kStatus ?? 'not-determined',
+        k: base.k,
+        kCi95: base.kCi95,
+        kLowerBound95: base.kLowerBound95,
+        kUpperBound95: base.kUpperBound95,
+      }),
+  };
+}
 
 class FakeLive {
   readonly events = new Subject<LiveEvent>();
@@ -81,18 +115,65 @@ describe('BatchesPage', () => {
     const { fixture, http, live, el } = await setup();
     live.events.next({ type: 'batch.updated', data: { id: 1, state: 'open' }, at: new Date().toISOString() });
     await new Promise((r) => setTimeout(r, BATCHES_LIVE_DEBOUNCE_MS + 50));
-    http.expectOne('/api/batches').flush([
-      batchFixture({
-        summary: { qcFlagCount: 2, qcErrorCount: 1, best: '1:1', k: 839.04, kSe: 20, kCi95: [800, 880] },
-      }),
-      batchFixture({ id: 2, name: 'Empty run', summary: null }),
-    ]);
+    http
+      .expectOne('/api/batches')
+      .flush([
+        batchFixture({ summary: summaryOf({ k: 839.04, kSe: 20, kCi95: [800, 880] }) }),
+        batchFixture({ id: 2, name: 'Empty run', summary: null }),
+      ]);
     await fixture.whenStable();
     const qc = [...el.querySelectorAll('[data-testid="batch-qc"]')].map((c) => c.textContent?.trim());
-    const best = [...el.querySelectorAll('[data-testid="batch-best"]')].map((c) => c.textContent?.trim());
+    const best = [...el.querySelectorAll('[data-testid="batch-best"]')].map((c) => text(c));
     expect(qc).toContain('error 2 (1 error)');
-    expect(best).toContain('1:1: K = 839.0 L·mol⁻¹');
+    // Digits follow the interval (the shared format): 839 with a CI of 800 to 880.
+    expect(best).toContain('1:1 839 L·mol⁻¹');
     expect(best).toContain('—');
+  });
+
+  it('shows a bound as a bound, a poorly determined K as its interval, and a failed fit without a number', async () => {
+    const { fixture, http, live, el } = await setup();
+    live.events.next({ type: 'batch.updated', data: { id: 1, state: 'open' }, at: new Date().toISOString() });
+    await new Promise((r) => setTimeout(r, BATCHES_LIVE_DEBOUNCE_MS + 50));
+    http.expectOne('/api/batches').flush([
+      batchFixture({
+        id: 11,
+        name: 'Bound',
+        summary: summaryOf({
+          best: '1:2',
+          kStatus: 'lower-bound',
+          kCi95: [1.2e6, null],
+          kLowerBound95: 2.1e6,
+          kUnit: 'L²·mol⁻²',
+        }),
+      }),
+      batchFixture({
+        id: 12,
+        name: 'Wide',
+        summary: summaryOf({ kStatus: 'poorly-determined', k: 950, kCi95: [140, 6500] }),
+      }),
+      batchFixture({
+        id: 13,
+        name: 'Failed',
+        summary: summaryOf({
+          kStatus: 'not-converged',
+          k: null,
+          kCi95: null,
+          kText: 'did not converge: the equilibrium solver did not converge for every mixture',
+        }),
+      }),
+    ]);
+    await fixture.whenStable();
+    const cell = (id: string) =>
+      text(
+        el
+          .querySelector(`a[href="/batches/${id}"]`)!
+          .closest('tr')!
+          .querySelector('[data-testid="batch-best"]'),
+      );
+    expect(cell('11')).toBe('1:2 > 2.1 × 10⁶ L²·mol⁻² lower bound');
+    expect(cell('12')).toBe('1:1 140 to 6500 L·mol⁻¹ poorly determined');
+    expect(cell('13')).toBe('1:1 did not converge');
+    expect(cell('13').replace('1:1', '')).not.toMatch(/\d/);
   });
 
   it('filters on name, state and run id', async () => {

@@ -1,5 +1,4 @@
 import { DatePipe } from '@angular/common';
-import { formatNumber, kUnitOf } from '../batch-detail/number-format';
 import { ChangeDetectionStrategy, Component, effect, inject, signal, viewChild } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -15,8 +14,9 @@ import { auditTime, catchError, EMPTY, merge, startWith, Subject, switchMap } fr
 import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { LiveEventsService } from '../core/live/live-events.service';
-import { BATCH_STATE_DISPLAY, type Batch, type BatchResultSummary } from './batch';
+import { BATCH_STATE_DISPLAY, type Batch } from './batch';
 import { BatchStateLabel } from './batch-state-label';
+import { summaryK } from './summary-k';
 import { BatchesService } from './batches.service';
 
 /** Quiet time after the last live event before the list is fetched again; a burst costs one request. */
@@ -47,17 +47,12 @@ export class BatchesPage {
   protected readonly live = inject(LiveEventsService);
   protected readonly canCreate = inject(AuthService).hasRole('admin', 'lab_manager');
 
-  /** "1:1: K = 839.0 L·mol⁻¹" (four significant figures, unit of the stoichiometry). */
-  protected bestFit(summary: BatchResultSummary): string {
-    return `${summary.best}: K = ${formatNumber(summary.k, 4)} ${kUnitOf(summary.best ?? '1:1')}`;
-  }
+  protected readonly summaryK = summaryK;
 
   protected readonly columns = [
     'name',
     'state',
     'instrument',
-    'layout',
-    'manifest',
     'runId',
     'files',
     'qc',
@@ -89,10 +84,6 @@ export class BatchesPage {
       switch (column) {
         case 'instrument':
           return (b.profileName ?? '').toLowerCase();
-        case 'layout':
-          return `${(b.layoutName ?? '').toLowerCase()} ${String(b.layoutVersion).padStart(6, '0')}`;
-        case 'manifest':
-          return `${(b.manifestName ?? '').toLowerCase()} ${String(b.manifestVersion).padStart(6, '0')}`;
         case 'files':
           return b.fileCount / Math.max(1, b.expectedFiles);
         case 'state':

@@ -7,9 +7,13 @@ export interface TemperaturePoint {
   state: string;
   temperatureC: number;
   model: string | null;
+  /** K of the batch's best candidate when it has a value (not for bounds or failed fits). */
   k: number | null;
   kSe: number | null;
-  kCi95: [number, number] | null;
+  /** 95 % interval; an end is null when the data do not bound it. */
+  kCi95: [number | null, number | null] | null;
+  /** K as every screen and report states it (a bound or a failed fit reads as such). */
+  kText: string | null;
   excludedBecause: string | null;
 }
 

@@ -3,7 +3,7 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { provideRouter } from '@angular/router';
-import { vantHoff } from '@equilight/analysis';
+import { formatK, vantHoff } from '@equilight/analysis';
 import { ScatterChart } from '../batch-detail/scatter-chart';
 import { ScatterChartStub } from '../batch-detail/scatter-chart-stub';
 import { type SystemTemperatures, inverseKelvin, vantHoffChart } from './temperature-system';
@@ -33,6 +33,14 @@ function system(): SystemTemperatures {
         k: p.k,
         kSe: p.k * 0.03,
         kCi95: [p.k * 0.94, p.k * 1.06] as [number, number],
+        kText: formatK({
+          model: '1:1',
+          status: 'determined',
+          k: p.k,
+          kCi95: [p.k * 0.94, p.k * 1.06],
+          kLowerBound95: null,
+          kUpperBound95: null,
+        }),
         excludedBecause: null,
       })),
       {
@@ -44,7 +52,34 @@ function system(): SystemTemperatures {
         k: 3.1e6,
         kSe: null,
         kCi95: null,
+        kText: formatK({
+          model: '1:2',
+          status: 'determined',
+          k: 3.1e6,
+          kCi95: null,
+          kLowerBound95: null,
+          kUpperBound95: null,
+        }),
         excludedBecause: 'not approved yet',
+      },
+      {
+        batchId: 21,
+        batchName: 'Ni–L 55 °C',
+        state: 'approved',
+        temperatureC: 55,
+        model: '1:1',
+        k: null,
+        kSe: null,
+        kCi95: [1.2e6, null],
+        kText: formatK({
+          model: '1:1',
+          status: 'lower-bound',
+          k: null,
+          kCi95: [1.2e6, null],
+          kLowerBound95: 2.1e6,
+          kUpperBound95: null,
+        }),
+        excludedBecause: 'K is a lower bound',
       },
     ],
     vantHoff: { ...FIT },
@@ -95,10 +130,17 @@ describe('TemperaturesPage', () => {
     expect(text(el.querySelector('[data-testid="delta-s"]'))).toContain('J·mol⁻¹·K⁻¹');
     expect(text(el.querySelector('[data-testid="note"]'))).toContain("van 't Hoff fit over 3 batches");
     const rows = el.querySelectorAll('tbody tr');
-    expect(rows).toHaveLength(4);
+    expect(rows).toHaveLength(5);
     expect(text(rows[0])).toContain('15.0');
     expect(text(rows[0])).toContain('288.15');
-    expect(text(rows[0])).toContain('910.0 L·mol⁻¹');
+    // The K text of the shared format: value, unit and the 95 % interval.
+    expect(text(rows[0].querySelector('[data-testid="point-k"]'))).toBe(
+      '1:1 910 L·mol⁻¹ (95 % CI 855 to 965)',
+    );
+    // A lower bound reads as a bound, never as a bare number.
+    expect(text(rows[4].querySelector('[data-testid="point-k"]'))).toBe(
+      '1:1 > 2.1 × 10⁶ L·mol⁻¹ (95 % lower bound; too large to determine from these concentrations)',
+    );
     expect(rows[0].querySelector('a')!.getAttribute('href')).toBe('/batches/10');
     expect(text(rows[3])).toContain('no: not approved yet');
     expect(el.querySelector('canvas[role="img"]')!.getAttribute('aria-label')).toContain('ln K against 1/T');

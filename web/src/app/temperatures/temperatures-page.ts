@@ -6,7 +6,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { RouterLink } from '@angular/router';
 import { catchError, of, switchMap, tap } from 'rxjs';
-import { formatNumber, kUnitOf } from '../batch-detail/number-format';
+import { formatNumber } from '../batch-detail/number-format';
 import { ScatterChart } from '../batch-detail/scatter-chart';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { type SystemTemperatures, vantHoffChart } from './temperature-system';
@@ -39,7 +39,6 @@ export class TemperaturesPage {
   );
 
   protected readonly fmt = formatNumber;
-  protected readonly kUnit = kUnitOf;
 
   constructor() {
     toObservable(this.includeUnapproved)
@@ -70,9 +69,5 @@ export class TemperaturesPage {
 
   protected kjSe(jPerMol: number | null): string {
     return jPerMol === null ? '—' : formatNumber(jPerMol / 1000, 2);
-  }
-
-  protected ci(pair: [number, number] | null): string {
-    return pair ? `${formatNumber(pair[0])} – ${formatNumber(pair[1])}` : '—';
   }
 }
