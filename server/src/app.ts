@@ -38,6 +38,7 @@ import { TemperaturesService } from './temperatures/temperatures.service';
 import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
 import { serveWebApp } from './web-app/serve-web-app';
+import { createWebhooksModule, type WebhooksModule } from './webhooks/webhooks.module';
 
 export const SESSION_COOKIE = 'equilight.sid';
 
@@ -63,6 +64,8 @@ export interface EquilightApp {
   events: EventBus;
   /** E-mail: sender, local SMTP stand-in and outbox, notification settings. */
   mail: MailModule;
+  /** Outbound webhooks: receivers, delivery log, and their own queue. */
+  webhooks: WebhooksModule;
   worker: SqliteJobWorker<IngestJobData>;
   /** /api/health: touches the database; keeps what the start checks found. */
   health: HealthService;
@@ -93,6 +96,16 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   const batches = new BatchesService(dataSource, layouts, manifests, audit, events);
   const mail = createMailModule({ config, dataSource, users, batches, events, log });
   const reports = new ReportsService(batches, audit);
+  const webhooks = createWebhooksModule({
+    config,
+    dataSource,
+    audit,
+    batches,
+    ingest,
+    events,
+    batchMailer: mail.batchMailer,
+    log,
+  });
   ingest.useBatchMatcher((manager, profileId, runId) => batches.attachStoredFile(manager, profileId, runId));
   const worker = new SqliteJobWorker(queue, (job) => ingest.process(job), { concurrency: 2 });
   worker.on('failed', (job, err) => {
@@ -162,6 +175,7 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
   api.use('/batches', batchesRouter(batches));
   api.use('/batches', reportsRouter(reports));
   mail.mount(api);
+  api.use('/webhooks', webhooks.router);
   api.use('/audit', auditRouter(audit));
   api.use('/temperatures', temperaturesRouter(new TemperaturesService(batches)));
   api.use(apiNotFound);
@@ -177,11 +191,13 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
     services: { users, instruments, ingest, audit, layouts, manifests, batches },
     events,
     mail,
+    webhooks,
     worker,
     health,
     async start() {
       for (const problem of await health.checkAtStart()) log(`Start check: ${problem}`);
       await mail.start();
+      await webhooks.start();
       await worker.start();
       await ingest.recoverUnqueued();
     },
@@ -189,6 +205,7 @@ export function createApp({ config, dataSource, log = console.error }: AppContex
       await worker.close();
       await queue.close();
       await mail.close();
+      await webhooks.close();
       store.close();
     },
   };

@@ -67,6 +67,9 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default('Equilight <equilight@localhost>'),
   SMTP_STANDIN: booleanText.optional(),
   SMTP_STANDIN_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+  WEBHOOK_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(6),
+  WEBHOOK_TIMEOUT_SECONDS: z.coerce.number().positive().max(120).default(10),
+  WEBHOOK_RETRY_BASE_SECONDS: z.coerce.number().positive().max(3600).default(30),
 });
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
@@ -90,6 +93,16 @@ export interface AppConfig {
   /** Express `trust proxy`: false (the default) ignores X-Forwarded-For; otherwise the named proxies. */
   trustProxy: false | number | string;
   mail: MailConfig;
+  webhooks: WebhooksConfig;
+}
+
+export interface WebhooksConfig {
+  /** Tries per delivery before it is marked failed (a re-send by hand starts another round). */
+  maxAttempts: number;
+  /** How long to wait for the receiver's answer. */
+  timeoutMs: number;
+  /** The wait before the second try; it doubles before each further one. */
+  retryBaseMs: number;
 }
 
 export interface MailConfig {
@@ -147,6 +160,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       from: e.MAIL_FROM,
       standIn: e.SMTP_STANDIN ?? e.NODE_ENV !== 'production',
       standInPort: e.SMTP_STANDIN_PORT ?? (e.NODE_ENV === 'test' ? 0 : 2525),
+    },
+    webhooks: {
+      maxAttempts: e.WEBHOOK_MAX_ATTEMPTS,
+      timeoutMs: Math.round(e.WEBHOOK_TIMEOUT_SECONDS * 1000),
+      retryBaseMs: Math.round(e.WEBHOOK_RETRY_BASE_SECONDS * 1000),
     },
   };
 }

@@ -1,10 +1,18 @@
 import type { DataSource } from 'typeorm';
-import type { BatchesService } from '../batches/batches.service';
+import type { QcFlag } from '../analysis';
+import type { BatchDto, BatchesService } from '../batches/batches.service';
 import type { EventBus, LiveEvent } from '../events/event-bus';
 import { BatchNotice } from './mail.entity';
 import { type BatchSummary, batchApprovedMail, batchCompleteMail, qcFailureMail } from './mail-templates';
 import type { MailService } from './mail.service';
 import type { NotificationsService } from './notifications.service';
+
+/** A batch whose QC-failure notice was just claimed: told to other channels than mail (webhooks). */
+export interface QcFailureNotice {
+  batch: BatchDto;
+  best: { model: string; kText: string } | null;
+  errors: QcFlag[];
+}
 
 /**
  * Turns batch events into mail: "batch complete" and "QC errors" once per batch when all its expected
@@ -13,6 +21,7 @@ import type { NotificationsService } from './notifications.service';
 export class BatchMailer {
   private readonly chains = new Map<number, Promise<void>>();
   private unsubscribe: (() => void) | null = null;
+  private readonly qcFailureListeners: ((notice: QcFailureNotice) => Promise<void>)[] = [];
 
   constructor(
     private readonly dataSource: DataSource,
@@ -25,6 +34,11 @@ export class BatchMailer {
 
   start(events: EventBus): void {
     this.unsubscribe ??= events.subscribe((event) => this.onEvent(event));
+  }
+
+  /** Also tell `listener` once per batch when its QC-failure notice is claimed (the same trigger as the mail). */
+  onQcFailure(listener: (notice: QcFailureNotice) => Promise<void>): void {
+    this.qcFailureListeners.push(listener);
   }
 
   stop(): void {
@@ -102,6 +116,10 @@ export class BatchMailer {
         this.mail.send(
           person.email,
           qcFailureMail(person.displayName, { name: batch.name, url: this.batchUrl(batch.id) }, errors),
+        );
+      for (const listener of this.qcFailureListeners)
+        await listener({ batch, best: summary.best, errors }).catch((err: unknown) =>
+          this.log(`Could not pass on the QC failure of batch ${batchId}`, err),
         );
     }
   }

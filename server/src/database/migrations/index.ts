@@ -3,6 +3,7 @@ import { Ingestion1764610000000 } from './1764610000000-ingestion';
 import { Batches1764620000000 } from './1764620000000-batches';
 import { Mail1764630000000 } from './1764630000000-mail';
 import { SessionOwnerHardenA1764700001000 } from './1764700001000-session-owner';
+import { WebhooksBranchWebhooks1764800000000 } from './1764800000000-webhooks';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -11,4 +12,5 @@ export const migrations = [
   Batches1764620000000,
   Mail1764630000000,
   SessionOwnerHardenA1764700001000,
+  WebhooksBranchWebhooks1764800000000,
 ];
