@@ -347,6 +347,66 @@ describe('outbound webhooks to a real local receiver', () => {
   }, 30_000);
 });
 
+describe('webhook deliveries across a restart', () => {
+  const receiver = new Receiver(SECRET);
+  const env = { WEBHOOK_MAX_ATTEMPTS: '6', WEBHOOK_RETRY_BASE_SECONDS: '0.3' };
+  let t: TestApp;
+
+  beforeAll(() => receiver.listen());
+  afterAll(async () => {
+    await t?.stop();
+    await receiver.close();
+  });
+
+  it('when the server stops between tries then the next start delivers the rest, each event exactly once', async () => {
+    receiver.down = true;
+    t = await startTestApp(env);
+    const admin = await t.agent('admin');
+    const hook = (
+      await admin
+        .post('/api/webhooks')
+        .send({ url: receiver.url('/down'), secret: SECRET, events: ['file.quarantined'] })
+    ).body as WebhookDto;
+    await t.webhooks.service.emit('file.quarantined', 'restart-check', new Date().toISOString(), {
+      fileId: 1,
+    });
+    const tried = await waitFor('a first failed try', async () =>
+      (await deliveriesOf(t, hook.id)).find((d) => d.attempts >= 1),
+    );
+    expect(tried.status).toBe('pending');
+    // A delivery recorded just before a crash, before its job was queued.
+    const orphanId = uuidV5('restart-orphan');
+    await t.dataSource.query(
+      `INSERT INTO webhook_deliveries (event_id, event, webhook_id, payload, status, attempts, created_at)
+       VALUES (?, 'file.quarantined', ?, ?, 'pending', 0, ?)`,
+      [
+        orphanId,
+        hook.id,
+        JSON.stringify({
+          id: orphanId,
+          event: 'file.quarantined',
+          occurredAt: new Date().toISOString(),
+          data: {},
+        }),
+        new Date().toISOString(),
+      ],
+    );
+    await t.shutDown();
+
+    receiver.down = false;
+    t = await startTestApp(env, t.dir);
+    const delivered = await waitFor('both delivered after the restart', async () => {
+      const all = await deliveriesOf(t, hook.id);
+      return all.length === 2 && all.every((d) => d.status === 'delivered') ? all : undefined;
+    });
+    expect(delivered.map((d) => d.eventId).sort()).toEqual([tried.eventId, orphanId].sort());
+    for (const d of delivered) expect(receiver.accepted(d.eventId)).toHaveLength(1);
+    // Nothing is sent a second time later on.
+    await new Promise((r) => setTimeout(r, 700));
+    for (const d of delivered) expect(receiver.accepted(d.eventId)).toHaveLength(1);
+  }, 60_000);
+});
+
 describe('event ids', () => {
   it('are name-based UUIDs (version 5) as RFC 9562 specifies', () => {
     // RFC 9562, Appendix A.4: UUIDv5 of "www.example.com" in the DNS namespace.
