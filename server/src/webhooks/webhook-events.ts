@@ -13,6 +13,7 @@ import type { WebhooksService } from './webhooks.service';
 export class WebhookEvents {
   private readonly pending = new Set<Promise<void>>();
   private unsubscribe: (() => void) | null = null;
+  private qcHooked = false;
 
   constructor(
     private readonly webhooks: WebhooksService,
@@ -25,7 +26,8 @@ export class WebhookEvents {
   start(events: EventBus, batchMailer: BatchMailer): void {
     if (this.unsubscribe) return;
     this.unsubscribe = events.subscribe((event) => this.onEvent(event));
-    batchMailer.onQcFailure((notice) => this.qcFailed(notice));
+    if (!this.qcHooked) batchMailer.onQcFailure((notice) => this.qcFailed(notice));
+    this.qcHooked = true;
   }
 
   stop(): void {

@@ -52,6 +52,7 @@ export interface WebhookPayload {
 }
 
 const RESPONSE_SNIPPET_CHARS = 300;
+const RESPONSE_READ_BYTES = 4096;
 
 function readVersion(): string {
   try {
@@ -69,14 +70,29 @@ function mask(hint: string): string {
   return `••••••••${hint}`;
 }
 
-/** The first characters of a receiver's answer, so a person can see why it refused. */
+/** The first characters of a receiver's answer, so a person can see why it refused; never more than 4 kB read. */
 async function responseSnippet(res: Response): Promise<string> {
+  const reader = res.body?.getReader();
+  if (!reader) return '';
+  const decoder = new TextDecoder();
+  let text = '';
+  let bytes = 0;
   try {
-    const text = await res.text();
-    return text.length > RESPONSE_SNIPPET_CHARS ? `${text.slice(0, RESPONSE_SNIPPET_CHARS)}…` : text;
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) break;
+      bytes += value.byteLength;
+      text += decoder.decode(value, { stream: true });
+      if (bytes > RESPONSE_READ_BYTES) {
+        await reader.cancel();
+        break;
+      }
+    }
   } catch {
-    return '';
+    // the answer's code is what counts; a broken body only loses the snippet
   }
+  text = text.trim();
+  return text.length > RESPONSE_SNIPPET_CHARS ? `${text.slice(0, RESPONSE_SNIPPET_CHARS)}…` : text;
 }
 
 function describeFetchError(err: unknown, timeoutMs: number): string {
