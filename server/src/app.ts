@@ -40,6 +40,7 @@ import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
 import { serveWebApp } from './web-app/serve-web-app';
 import { closeWorkers, configureWorkers } from './workers';
+import { createWebhooksModule, type WebhooksModule } from './webhooks/webhooks.module';
 
 export const SESSION_COOKIE = 'equilight.sid';
 
@@ -67,6 +68,8 @@ export interface EquilightApp {
   events: EventBus;
   /** E-mail: sender, local SMTP stand-in and outbox, notification settings. */
   mail: MailModule;
+  /** Outbound webhooks: receivers, delivery log, and their own queue. */
+  webhooks: WebhooksModule;
   worker: SqliteJobWorker<IngestJobData>;
   /** /api/health: touches the database; keeps what the start checks found. */
   health: HealthService;
@@ -104,6 +107,16 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   });
   const mail = createMailModule({ config, dataSource, users, batches, events, log });
   const reports = new ReportsService(batches, audit);
+  const webhooks = createWebhooksModule({
+    config,
+    dataSource,
+    audit,
+    batches,
+    ingest,
+    events,
+    batchMailer: mail.batchMailer,
+    log,
+  });
   ingest.useBatchMatcher((manager, profileId, runId) => batches.attachStoredFile(manager, profileId, runId));
   const worker = new SqliteJobWorker(queue, (job) => ingest.process(job), { concurrency: 2 });
   worker.on('failed', (job, err) => {
@@ -175,6 +188,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   api.use('/batches', batchesRouter(batches));
   api.use('/batches', reportsRouter(reports));
   mail.mount(api);
+  api.use('/webhooks', webhooks.router);
   api.use('/audit', auditRouter(audit));
   api.use('/temperatures', temperaturesRouter(new TemperaturesService(batches)));
   api.use(apiNotFound);
@@ -190,11 +204,13 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     services: { users, instruments, ingest, audit, layouts, manifests, batches },
     events,
     mail,
+    webhooks,
     worker,
     health,
     async start() {
       for (const problem of await health.checkAtStart()) log(`Start check: ${problem}`);
       await mail.start();
+      await webhooks.start();
       await worker.start();
       await ingest.recoverUnqueued();
     },
@@ -203,6 +219,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
       await closeWorkers();
       await queue.close();
       await mail.close();
+      await webhooks.close();
       store.close();
     },
   };

@@ -70,6 +70,9 @@ const envSchema = z.object({
   WORKER_THREADS: z.coerce.number().int().min(2).max(16).default(2),
   WORKERS_IN_THREAD_FOR_TESTS: booleanText.default(false),
   FOUR_EYES_APPROVAL: booleanText.default(true),
+  WEBHOOK_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(6),
+  WEBHOOK_TIMEOUT_SECONDS: z.coerce.number().positive().max(120).default(10),
+  WEBHOOK_RETRY_BASE_SECONDS: z.coerce.number().positive().max(3600).default(30),
 });
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
@@ -97,6 +100,16 @@ export interface AppConfig {
   workers: { threads: number; inThreadForTests: boolean };
   /** Lab policy: whoever approves a batch did not create it nor mark it reviewed. */
   fourEyesApproval: boolean;
+  webhooks: WebhooksConfig;
+}
+
+export interface WebhooksConfig {
+  /** Tries per delivery before it is marked failed (a re-send by hand starts another round). */
+  maxAttempts: number;
+  /** How long to wait for the receiver's answer. */
+  timeoutMs: number;
+  /** The wait before the second try; it doubles before each further one. */
+  retryBaseMs: number;
 }
 
 export interface MailConfig {
@@ -160,5 +173,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
     },
     workers: { threads: e.WORKER_THREADS, inThreadForTests: e.WORKERS_IN_THREAD_FOR_TESTS },
     fourEyesApproval: e.FOUR_EYES_APPROVAL,
+    webhooks: {
+      maxAttempts: e.WEBHOOK_MAX_ATTEMPTS,
+      timeoutMs: Math.round(e.WEBHOOK_TIMEOUT_SECONDS * 1000),
+      retryBaseMs: Math.round(e.WEBHOOK_RETRY_BASE_SECONDS * 1000),
+    },
   };
 }

@@ -1,6 +1,7 @@
 import { Column, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
 
-export type AuditEntity = 'layout' | 'manifest' | 'batch' | 'instrument_profile' | 'user' | 'intake_file';
+export type AuditEntity =
+  'layout' | 'manifest' | 'batch' | 'instrument_profile' | 'user' | 'intake_file' | 'webhook';
 
 /** One change: who, when, what, why. Written by the app, never edited or deleted by it. */
 @Entity('audit_entries')

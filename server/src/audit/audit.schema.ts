@@ -1,7 +1,9 @@
 import { z } from 'zod';
 
 export const auditQuerySchema = z.strictObject({
-  entity: z.enum(['layout', 'manifest', 'batch', 'instrument_profile', 'user', 'intake_file']).optional(),
+  entity: z
+    .enum(['layout', 'manifest', 'batch', 'instrument_profile', 'user', 'intake_file', 'webhook'])
+    .optional(),
   entityId: z.coerce.number().int().positive().optional(),
   actorId: z.coerce.number().int().positive().optional(),
   action: z.string().trim().max(30).optional(),

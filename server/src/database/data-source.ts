@@ -15,6 +15,8 @@ import { Layout, LayoutVersion } from '../layouts/layout.entity';
 import { Manifest, ManifestVersion } from '../manifests/manifest.entity';
 import { JobRow } from '../queue/job.entity';
 import { User } from '../users/user.entity';
+import { WebhookDelivery } from '../webhooks/webhook-delivery.entity';
+import { Webhook } from '../webhooks/webhook.entity';
 import { assertDatabaseFileNotEmpty, assertQuickCheckPasses, openFailure } from './integrity';
 import { migrations } from './migrations';
 
@@ -35,6 +37,8 @@ export const entities = [
   OutboxMessage,
   NotificationSettingsRow,
   BatchNotice,
+  Webhook,
+  WebhookDelivery,
 ];
 
 /** The one DataSource. SQLite (WAL) by default; PostgreSQL when DATABASE_URL says so. */

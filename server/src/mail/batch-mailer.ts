@@ -1,16 +1,22 @@
 import type { DataSource } from 'typeorm';
-import type { BatchResult } from '../analysis';
-import type { BatchesService } from '../batches/batches.service';
+import type { BatchResult, QcFlag } from '../analysis';
+import type { BatchDto, BatchesService } from '../batches/batches.service';
 import type { EventBus, LiveEvent } from '../events/event-bus';
 import { BatchNotice } from './mail.entity';
 import { type BatchSummary, batchApprovedMail, batchCompleteMail, qcFailureMail } from './mail-templates';
 import type { MailService } from './mail.service';
 import type { NotificationsService } from './notifications.service';
 
-/** The best stoichiometry of a result and its K, as the mails state it. */
 /** The batch's one K as the page and the PDF state it (a bound or a failed fit reads as such). */
 function bestOf(result: BatchResult): BatchSummary['best'] {
   return result.headline ? { model: result.headline.model, kText: result.headline.text } : null;
+}
+
+/** A batch whose QC-failure notice was just claimed: told to other channels than mail (webhooks). */
+export interface QcFailureNotice {
+  batch: BatchDto;
+  best: { model: string; kText: string } | null;
+  errors: QcFlag[];
 }
 
 /**
@@ -20,6 +26,7 @@ function bestOf(result: BatchResult): BatchSummary['best'] {
 export class BatchMailer {
   private readonly chains = new Map<number, Promise<void>>();
   private unsubscribe: (() => void) | null = null;
+  private readonly qcFailureListeners: ((notice: QcFailureNotice) => Promise<void>)[] = [];
 
   constructor(
     private readonly dataSource: DataSource,
@@ -32,6 +39,11 @@ export class BatchMailer {
 
   start(events: EventBus): void {
     this.unsubscribe ??= events.subscribe((event) => this.onEvent(event));
+  }
+
+  /** Also tell `listener` once per batch when its QC-failure notice is claimed (the same trigger as the mail). */
+  onQcFailure(listener: (notice: QcFailureNotice) => Promise<void>): void {
+    this.qcFailureListeners.push(listener);
   }
 
   stop(): void {
@@ -109,6 +121,10 @@ export class BatchMailer {
         this.mail.send(
           person.email,
           qcFailureMail(person.displayName, { name: batch.name, url: this.batchUrl(batch.id) }, errors),
+        );
+      for (const listener of this.qcFailureListeners)
+        await listener({ batch, best: summary.best, errors }).catch((err: unknown) =>
+          this.log(`Could not pass on the QC failure of batch ${batchId}`, err),
         );
     }
   }

@@ -16,6 +16,7 @@ import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } f
 import { manifestMetaSchema } from '../manifests/manifests.schema';
 import { temperaturesQuerySchema } from '../temperatures/temperatures.router';
 import { createUserSchema, updateUserSchema } from '../users/users.schema';
+import { createWebhookSchema, deliveriesQuerySchema, updateWebhookSchema } from '../webhooks/webhooks.schema';
 import type { Role } from '../users/user.entity';
 
 export type Access = 'public' | 'instrument' | readonly Role[];
@@ -490,6 +491,74 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One received mail',
     access: ADMIN,
     success: [200, 'The message'],
+  },
+  {
+    method: 'get',
+    path: '/api/webhooks',
+    tag: 'webhooks',
+    summary: 'Registered webhook receivers (secrets masked) with their delivery counts',
+    access: ADMIN,
+    success: [200, 'The receivers'],
+  },
+  {
+    method: 'post',
+    path: '/api/webhooks',
+    tag: 'webhooks',
+    summary:
+      'Register a receiver: an https URL (http only for localhost), a signing secret and the events (batch.approved, batch.qc_failed, file.quarantined)',
+    access: ADMIN,
+    body: createWebhookSchema,
+    success: [201, 'The receiver; the secret is never sent back, only masked'],
+  },
+  {
+    method: 'get',
+    path: '/api/webhooks/{id}',
+    tag: 'webhooks',
+    summary: 'One receiver',
+    access: ADMIN,
+    success: [200, 'The receiver'],
+  },
+  {
+    method: 'patch',
+    path: '/api/webhooks/{id}',
+    tag: 'webhooks',
+    summary: 'Change a receiver: URL, events, a new secret, or disable/enable it',
+    access: ADMIN,
+    body: updateWebhookSchema,
+    success: [200, 'The receiver'],
+  },
+  {
+    method: 'delete',
+    path: '/api/webhooks/{id}',
+    tag: 'webhooks',
+    summary: 'Remove a receiver and its delivery log',
+    access: ADMIN,
+    success: [204, 'Removed'],
+  },
+  {
+    method: 'get',
+    path: '/api/webhooks/deliveries',
+    tag: 'webhooks',
+    summary: 'The delivery log, newest first: status, tries, last response code and error',
+    access: ADMIN,
+    query: deliveriesQuerySchema,
+    success: [200, 'A page of deliveries and the total'],
+  },
+  {
+    method: 'get',
+    path: '/api/webhooks/deliveries/{id}',
+    tag: 'webhooks',
+    summary: 'One delivery with its payload',
+    access: ADMIN,
+    success: [200, 'The delivery'],
+  },
+  {
+    method: 'post',
+    path: '/api/webhooks/deliveries/{id}/resend',
+    tag: 'webhooks',
+    summary: 'Send a delivered or failed event again (same id and body, new signature)',
+    access: ADMIN,
+    success: [202, 'The delivery, pending again'],
   },
   {
     method: 'get',

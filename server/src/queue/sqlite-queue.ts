@@ -70,11 +70,14 @@ export class SqliteJobQueue<T> implements JobQueue<T> {
 
 export interface WorkerOptions {
   concurrency?: number;
+  /** The wait before the second try, doubled before each further one (default 500 ms). */
+  retryBaseMs?: number;
 }
 
 /** Runs a queue's jobs with bounded concurrency; emits `completed`, `failed`, `error`, `drained`. */
 export class SqliteJobWorker<T> extends EventEmitter implements JobWorker<T> {
   private readonly pq: PQueue;
+  private readonly retryBaseMs: number;
   private readonly scheduled = new Set<number>();
   private readonly timers = new Set<NodeJS.Timeout>();
   private closed = false;
@@ -87,6 +90,7 @@ export class SqliteJobWorker<T> extends EventEmitter implements JobWorker<T> {
   ) {
     super();
     this.pq = new PQueue({ concurrency: opts.concurrency ?? 2 });
+    this.retryBaseMs = opts.retryBaseMs ?? RETRY_BASE_MS;
     this.pq.on('idle', () => this.emit('drained'));
     queue.added.on('job', this.onAdded);
   }
@@ -146,7 +150,7 @@ export class SqliteJobWorker<T> extends EventEmitter implements JobWorker<T> {
             this.timers.delete(timer);
             this.schedule(id);
           },
-          RETRY_BASE_MS * 2 ** (attemptsMade - 1),
+          this.retryBaseMs * 2 ** (attemptsMade - 1),
         );
         this.timers.add(timer);
       } else {

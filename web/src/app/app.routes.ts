@@ -130,6 +130,12 @@ export const routes: Routes = [
         canActivate: [roleGuard('admin')],
         loadComponent: () => import('./outbox/outbox-page').then((m) => m.OutboxPage),
       },
+      {
+        path: 'webhooks',
+        title: 'Webhooks · Equilight',
+        canActivate: [roleGuard('admin')],
+        loadComponent: () => import('./webhooks/webhooks-page').then((m) => m.WebhooksPage),
+      },
     ],
   },
   { path: '**', redirectTo: '' },

@@ -4,6 +4,7 @@ import { Batches1764620000000 } from './1764620000000-batches';
 import { Mail1764630000000 } from './1764630000000-mail';
 import { SessionOwnerHardenA1764700001000 } from './1764700001000-session-owner';
 import { FrozenResults1764648000000 } from './1764648000000-frozen-results';
+import { WebhooksBranchWebhooks1764800000000 } from './1764800000000-webhooks';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -13,4 +14,5 @@ export const migrations = [
   Mail1764630000000,
   SessionOwnerHardenA1764700001000,
   FrozenResults1764648000000,
+  WebhooksBranchWebhooks1764800000000,
 ];

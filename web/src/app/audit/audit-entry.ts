@@ -1,5 +1,6 @@
 /** One entry of the audit trail, as GET /api/audit sends it. */
-export type AuditEntity = 'layout' | 'manifest' | 'batch' | 'instrument_profile' | 'user' | 'intake_file';
+export type AuditEntity =
+  'layout' | 'manifest' | 'batch' | 'instrument_profile' | 'user' | 'intake_file' | 'webhook';
 
 export interface AuditEntry {
   id: number;
@@ -40,6 +41,7 @@ export const AUDIT_ENTITY_LABELS: Record<AuditEntity, string> = {
   instrument_profile: 'Instrument profile',
   intake_file: 'Intake file',
   user: 'Person',
+  webhook: 'Webhook',
 };
 
 /** Actions the server writes today; the filter offers these. */
@@ -54,6 +56,7 @@ export const AUDIT_ACTIONS: readonly string[] = [
   'reopen',
   'rotate-token',
   'revoke-token',
+  'delete',
 ];
 
 export function isAuditPage(value: unknown): value is AuditPage {

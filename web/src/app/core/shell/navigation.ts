@@ -31,6 +31,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/instruments', label: 'Instruments', icon: 'precision_manufacturing', roles: ['admin'] },
   { path: '/people', label: 'People', icon: 'group', roles: ['admin'] },
   { path: '/outbox', label: 'Outbox', icon: 'outgoing_mail', roles: ['admin'] },
+  { path: '/webhooks', label: 'Webhooks', icon: 'webhook', roles: ['admin'] },
   { path: '/api-docs', label: 'API', icon: 'api', roles: EVERYONE },
   { path: '/audit', label: 'Audit', icon: 'history', roles: ['admin', 'lab_manager'] },
 ];

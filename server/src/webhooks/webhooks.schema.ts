@@ -1,0 +1,68 @@
+import { z } from 'zod';
+import { WEBHOOK_EVENTS } from './webhook.entity';
+
+const LOCAL_HOSTS = new Set(['localhost', '127.0.0.1', '[::1]']);
+
+/** https anywhere; plain http only to this machine (a receiver under test), never across a network. */
+export const webhookUrlSchema = z
+  .string()
+  .trim()
+  .max(2048)
+  .superRefine((value, ctx) => {
+    let url: URL;
+    try {
+      url = new URL(value);
+    } catch {
+      ctx.addIssue({ code: 'custom', message: 'must be a full URL, e.g. https://lims.example.org/hooks' });
+      return;
+    }
+    if (url.username || url.password) {
+      ctx.addIssue({ code: 'custom', message: 'must not carry a user name or password' });
+    } else if (url.protocol === 'http:') {
+      if (!LOCAL_HOSTS.has(url.hostname))
+        ctx.addIssue({
+          code: 'custom',
+          message: 'must use https; plain http is allowed only for localhost, 127.0.0.1 or [::1]',
+        });
+    } else if (url.protocol !== 'https:') {
+      ctx.addIssue({ code: 'custom', message: 'must start with https://' });
+    }
+  });
+
+export const webhookEventsSchema = z
+  .array(z.enum(WEBHOOK_EVENTS))
+  .min(1, 'choose at least one event')
+  .max(WEBHOOK_EVENTS.length)
+  .refine((events) => new Set(events).size === events.length, 'each event once');
+
+/** Long enough to resist guessing; printable so it can be pasted into the receiver's settings. */
+export const webhookSecretSchema = z
+  .string()
+  .min(16, 'must be at least 16 characters')
+  .max(200)
+  .regex(/^[\x21-\x7e]+$/, 'printable ASCII without spaces');
+
+export const createWebhookSchema = z.strictObject({
+  url: webhookUrlSchema,
+  secret: webhookSecretSchema,
+  events: webhookEventsSchema,
+});
+export type CreateWebhookInput = z.infer<typeof createWebhookSchema>;
+
+export const updateWebhookSchema = z
+  .strictObject({
+    url: webhookUrlSchema.optional(),
+    secret: webhookSecretSchema.optional(),
+    events: webhookEventsSchema.optional(),
+    active: z.boolean().optional(),
+  })
+  .refine((body) => Object.keys(body).length > 0, 'change at least one of url, secret, events, active');
+export type UpdateWebhookInput = z.infer<typeof updateWebhookSchema>;
+
+export const deliveriesQuerySchema = z.strictObject({
+  webhookId: z.coerce.number().int().positive().optional(),
+  status: z.enum(['pending', 'delivered', 'failed']).optional(),
+  page: z.coerce.number().int().min(0).default(0),
+  pageSize: z.coerce.number().int().min(1).max(200).default(25),
+});
+export type DeliveriesQuery = z.infer<typeof deliveriesQuerySchema>;
