@@ -347,7 +347,12 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
         engineVersion: '0.2.0+5e1ec7ed0000',
         sameEngine: false,
         differs: true,
-        current: { ...body.record.summary, k: 912.3, kCi95: [871.4, 955.0] },
+        current: {
+          ...body.record.summary,
+          k: 912.3,
+          kCi95: [871.4, 955.0],
+          kText: '912 L·mol⁻¹ (95 % CI 871 to 955)',
+        },
         error: null,
       };
       await route.fulfill({ response, json: body });
@@ -356,7 +361,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
       await page.reload();
       await page.getByTestId('engine-note').waitFor({ timeout: 10_000 });
       await expect(page.getByTestId('engine-note').innerText()).resolves.toContain(
-        'Re-analysis with the current engine (0.2.0+5e1ec7ed0000) gives K (1:1) = 912.3',
+        'Re-analysis with the current engine (0.2.0+5e1ec7ed0000) gives K (1:1) = 912 L·mol⁻¹',
       );
       // The record itself is what stays on show.
       await expect(page.getByTestId('best-k-value').innerText()).resolves.not.toContain('912');

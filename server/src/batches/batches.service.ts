@@ -163,13 +163,14 @@ export function summarize(result: BatchResult): BatchResultSummary {
     qcFlagCount: result.qc.filter((f) => f.severity !== 'info').length,
     qcErrorCount: result.qc.filter((f) => f.severity === 'error').length,
     best: result.stoichiometry?.best ?? null,
-    k: h?.k ?? null,
+    // A result without a headline (written before K statements existed) speaks through its best fit.
+    k: h ? h.k : (best?.fit?.k ?? null),
     kSe: best?.fit?.kSe ?? null,
-    kCi95: h?.kCi95 ?? null,
-    kStatus: h?.status ?? null,
-    kLowerBound95: h?.kLowerBound95 ?? null,
-    kUpperBound95: h?.kUpperBound95 ?? null,
-    kUnit: h?.kUnit ?? null,
+    kCi95: h ? h.kCi95 : (best?.fit?.kCi95 ?? null),
+    kStatus: h?.status ?? best?.fit?.status ?? null,
+    kLowerBound95: h ? h.kLowerBound95 : (best?.fit?.kLowerBound95 ?? null),
+    kUpperBound95: h ? h.kUpperBound95 : (best?.fit?.kUpperBound95 ?? null),
+    kUnit: h?.kUnit ?? best?.kUnit ?? null,
     kText: h?.text ?? null,
   };
 }

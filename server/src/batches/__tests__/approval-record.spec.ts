@@ -19,8 +19,9 @@ const LATER_ENGINE: AnalysisEngine = {
     hashedFrom: 'source',
     label: '9.9.9+ffffffffffff',
   },
+  // A later engine that fits a constant baseline whatever the settings say: another K on the same inputs.
   analyze: (readings, samples, settings) =>
-    analyzeBatch(readings, samples, { fitBaseline: true, ...settings }),
+    analyzeBatch(readings, samples, { ...settings, fitBaseline: true }),
 };
 
 /** The PDF's text without the line that says when it was generated. */

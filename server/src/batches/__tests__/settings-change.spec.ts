@@ -49,6 +49,7 @@ describe('changing a batch setting', () => {
       epsilonSource: null,
       monteCarloDraws: 0,
       exclusions: [{ position: 'C20', reason: 'cracked cuvette' }],
+      fitBaseline: false,
     });
   });
 });
