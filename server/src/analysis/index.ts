@@ -45,6 +45,7 @@ export * from './stoichiometry-cross-checks';
 export * from './k-profile-verdict';
 export * from './spectral-species-count';
 export * from './spectral-projection';
+export * from './spectral-row-basis';
 export * from './spectral-fit';
 export * from './spectral-options';
 export * from './spectral-matrix';

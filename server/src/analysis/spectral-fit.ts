@@ -5,6 +5,7 @@ import { invertSpd } from './linear-algebra';
 import { levenbergMarquardt } from './levenberg-marquardt';
 import { KStatus, kUnit } from './number-format';
 import { projectSpectra, SpectralProjection } from './spectral-projection';
+import { spectralRowBasis } from './spectral-row-basis';
 import { Stoichiometry } from './stoichiometry-model';
 
 /** One mixture of a whole-spectrum fit: its initial concentrations and the path its spectrum is scaled to. */
@@ -41,6 +42,11 @@ export interface SpectralFitOptions {
   nnlsMaxIterations?: number;
   /** Compute the profile-likelihood interval of K. Default true. */
   profile?: boolean;
+  /**
+   * An orthonormal basis of the rows of the absorbance matrix and the held spectra ({@link spectralRowBasis}),
+   * when the caller fits several candidates to one matrix; computed here when omitted. Checked.
+   */
+  rowBasis?: readonly (readonly number[])[];
 }
 
 export type SpeciesRole = 'reactant-a' | 'reactant-b' | 'complex';
@@ -140,7 +146,10 @@ class SpectralEvaluator {
 
   constructor(
     private readonly mixtures: readonly SpectralMixture[],
-    private readonly absorbance: readonly (readonly number[])[],
+    /** Absorbance (or its exact reduction), mixtures × columns. */
+    readonly absorbance: readonly (readonly number[])[],
+    /** The held species' spectra over the same columns. */
+    private readonly heldSpectra: readonly (readonly number[])[],
     private readonly model: Stoichiometry,
     private readonly fitted: readonly Column[],
     private readonly held: readonly Column[],
@@ -167,9 +176,9 @@ class SpectralEvaluator {
     if (this.held.length > 0) {
       y = this.absorbance.map((row, i) => {
         const out = row.slice();
-        for (const col of this.held) {
-          const lc = this.mixtures[i].pathLengthCm * concentrationOf(col, states[i]);
-          const eps = col.held as readonly number[];
+        for (let h = 0; h < this.held.length; h++) {
+          const lc = this.mixtures[i].pathLengthCm * concentrationOf(this.held[h], states[i]);
+          const eps = this.heldSpectra[h];
           for (let j = 0; j < out.length; j++) out[j] -= lc * eps[j];
         }
         return out;
@@ -192,6 +201,23 @@ function concentrationOf(col: Pick<Column, 'role'>, st: EquilibriumState): numbe
 function dConcentrationDLnK(col: Pick<Column, 'role'>, st: EquilibriumState, model: Stoichiometry): number {
   const dx = equilibriumSensitivity(st, model).dProductDLnK;
   return col.role === 'reactant-a' ? -model.a * dx : col.role === 'reactant-b' ? -model.b * dx : dx;
+}
+
+/** A given basis must span every row: ‖x − Q·Qᵀx‖ = ‖x‖² − ‖Qᵀx‖² ≈ 0 for each, Qᵀx already computed. */
+function checkBasis(
+  basis: readonly (readonly number[])[],
+  w: number,
+  rows: readonly (readonly number[])[],
+  reduced: readonly (readonly number[])[],
+): void {
+  if (basis.some((q) => q.length !== w))
+    throw new AnalysisError('invalid-input', 'the row basis needs one value per wavelength');
+  rows.forEach((row, i) => {
+    const full = row.reduce((sum, v) => sum + v * v, 0);
+    const kept = reduced[i].reduce((sum, v) => sum + v * v, 0);
+    if (Math.abs(full - kept) > 1e-9 * Math.max(full, 1e-300))
+      throw new AnalysisError('invalid-input', 'the row basis does not span the absorbance spectra');
+  });
 }
 
 function checkReactant(name: string, r: ReactantSpectrum, w: number): readonly number[] | null {
@@ -326,8 +352,22 @@ export function fitSpectralModel(
   const order = model.a + model.b - 1;
   const lnKOf = (log10u: number): number => log10u * LN10 - order * Math.log(scale);
   const lnKRange: [number, number] = [lnKOf(LOG10_U_RANGE[0]), lnKOf(LOG10_U_RANGE[1])];
-  const evaluator = (): SpectralEvaluator =>
-    new SpectralEvaluator(mixtures, absorbance, model, fitted, held, options);
+  const heldSpectra = held.map((col) => col.held as readonly number[]);
+  const fullEvaluator = (): SpectralEvaluator =>
+    new SpectralEvaluator(mixtures, absorbance, heldSpectra, model, fitted, held, options);
+  // The search runs on the exact reduction Y·Q (Q an orthonormal basis of the rows of Y and the held spectra):
+  // the same S(K) at every K for a fraction of the work. Not for non-negative spectra (ε ≥ 0 is a
+  // constraint over the wavelengths themselves).
+  let evaluator = fullEvaluator;
+  if (!nonNegative && w > m + held.length) {
+    const basis = options.rowBasis ?? spectralRowBasis(absorbance, heldSpectra);
+    const reduce = (rows: readonly (readonly number[])[]): number[][] =>
+      rows.map((row) => basis.map((q) => row.reduce((sum, v, j) => sum + v * q[j], 0)));
+    const reducedY = reduce(absorbance);
+    const reducedHeld = reduce(heldSpectra);
+    checkBasis(basis, w, [...absorbance, ...heldSpectra], [...reducedY, ...reducedHeld]);
+    evaluator = () => new SpectralEvaluator(mixtures, reducedY, reducedHeld, model, fitted, held, options);
+  }
 
   // Start: the best point of a grid over the dimensionless K.
   let lnK0: number;
@@ -349,17 +389,20 @@ export function fitSpectralModel(
 
   // Levenberg–Marquardt on ln K alone: the observations are the absorbances, the prediction at ln K is the
   // projected fit Y − R(K), so the residual it minimises is the projected residual R(K).
-  const observations = new Array<number>(n);
-  for (let i = 0; i < m; i++) for (let j = 0; j < w; j++) observations[i * w + j] = absorbance[i][j];
   const lmEvaluator = evaluator();
+  // Any fixed observations work: the prediction is defined as observations − R(K).
+  const y0 = lmEvaluator.absorbance;
+  const cols = y0[0].length;
+  const observations = new Array<number>(m * cols);
+  for (let i = 0; i < m; i++) for (let j = 0; j < cols; j++) observations[i * cols + j] = y0[i][j];
   const lm = levenbergMarquardt(
     {
       evaluate: (q) => {
         const r = lmEvaluator.at(q[0]).proj.residuals;
-        const f = new Array<number>(n);
+        const f = new Array<number>(m * cols);
         for (let i = 0; i < m; i++) {
           const ri = r[i];
-          for (let j = 0; j < w; j++) f[i * w + j] = observations[i * w + j] - ri[j];
+          for (let j = 0; j < cols; j++) f[i * cols + j] = observations[i * cols + j] - ri[j];
         }
         return f;
       },
@@ -385,7 +428,7 @@ export function fitSpectralModel(
   const warnings: string[] = [];
 
   // The fit at the estimate (for a bound: at the edge of the searched range).
-  const fin = evaluator().at(verdict.lnKHat);
+  const fin = fullEvaluator().at(verdict.lnKHat);
   if (nonNegative && !fin.proj.converged) {
     status = 'not-converged';
     message = 'the non-negative least-squares solver ran out of iterations';
