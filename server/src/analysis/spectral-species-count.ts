@@ -119,10 +119,12 @@ export function estimateSpeciesCount(
   const noiseLevel = Math.max(threshold, floor);
   const speciesCount = singularValues.filter((v) => v > noiseLevel).length;
   if (small === 1) warnings.push('one wavelength or one mixture: the count cannot exceed 1');
-  else if (sd === null && speciesCount >= small / 2)
+  // The median singular value is noise only while the species are fewer than half the smaller dimension;
+  // an undercount would hide itself, so warn as soon as one more species would break that.
+  else if (sd === null && 2 * (speciesCount + 1) > small)
     warnings.push(
-      `${speciesCount} of ${small} singular values are above the estimated noise level: the estimate assumes ` +
-        `most are noise; give the absorbance SD for a count that does not rest on that`,
+      `only ${small} ${m <= w ? 'mixtures' : 'wavelengths'}: the noise level estimated from the median singular value ` +
+        `may hide a species; give the absorbance SD for a count that does not rest on it`,
     );
   return {
     singularValues,
