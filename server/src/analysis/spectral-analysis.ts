@@ -105,7 +105,9 @@ export function analyzeSpectra(
   warnings.push(...count.warnings);
   const reactantA = reactantOption('A', s.reactantA, matrix.mixtures, matrix.absorbance);
   const reactantB = reactantOption('B', s.reactantB, matrix.mixtures, matrix.absorbance);
-  const absorbing = 1 + (s.reactantA === 'none' ? 0 : 1) + (s.reactantB === 'none' ? 0 : 1);
+  // A fitted baseline is one more component of the matrix (a constant "species").
+  const absorbing =
+    1 + (s.reactantA === 'none' ? 0 : 1) + (s.reactantB === 'none' ? 0 : 1) + (s.fitBaseline ? 1 : 0);
   if (count.speciesCount < absorbing)
     warnings.push(
       `the singular values show ${count.speciesCount} absorbing species but the fits take ${absorbing} to absorb: ` +
@@ -121,6 +123,7 @@ export function analyzeSpectra(
       reactantA,
       reactantB,
       nonNegativeSpectra: s.nonNegativeSpectra,
+      fitBaseline: s.fitBaseline,
       maxIterations: s.fit.maxIterations,
       parameterTolerance: s.fit.parameterTolerance,
       solverTolerance: s.solver.tolerance,

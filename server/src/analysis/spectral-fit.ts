@@ -30,6 +30,11 @@ export interface SpectralFitOptions {
   reactantB?: ReactantSpectrum;
   /** Constrain every fitted ε(λ) ≥ 0 (non-negative least squares). Default false. */
   nonNegativeSpectra?: boolean;
+  /**
+   * Also fit an absorbance offset at each wavelength, common to all mixtures (it takes up an error of the
+   * blank, which every mixture shares). Default false. Not with non-negative spectra.
+   */
+  fitBaseline?: boolean;
   /** Start the optimiser here (M^(1−a−b)) instead of at the best point of a grid over K. */
   startK?: number;
   /** Levenberg–Marquardt limits. Defaults 200 and 1e-11. */
@@ -99,6 +104,8 @@ export interface SpectralFitResult {
   aicc: number | null;
   /** The absorbing species: A and B (when they absorb) and the complex. */
   speciesSpectra: SpeciesSpectrum[];
+  /** The fitted absorbance offset at each wavelength and its SE, when asked for; else null. */
+  baseline: { absorbance: number[]; se: (number | null)[] } | null;
   /** Free A, free B and the complex in every mixture at the estimate, mol/L. */
   speciesConcentrations: SpeciesConcentrations[];
   /** Measured − fitted absorbance, mixtures × wavelengths. */
@@ -124,7 +131,7 @@ export function complexSpeciesLabel(model: Stoichiometry): string {
 }
 
 interface Column {
-  role: SpeciesRole;
+  role: SpeciesRole | 'baseline';
   species: string;
   held: readonly number[] | null;
 }
@@ -170,7 +177,9 @@ class SpectralEvaluator {
       return st;
     });
     const c = states.map((st, i) =>
-      this.fitted.map((col) => this.mixtures[i].pathLengthCm * concentrationOf(col, st)),
+      this.fitted.map((col) =>
+        col.role === 'baseline' ? 1 : this.mixtures[i].pathLengthCm * concentrationOf(col, st),
+      ),
     );
     let y = this.absorbance as number[][];
     if (this.held.length > 0) {
@@ -199,6 +208,7 @@ function concentrationOf(col: Pick<Column, 'role'>, st: EquilibriumState): numbe
 }
 
 function dConcentrationDLnK(col: Pick<Column, 'role'>, st: EquilibriumState, model: Stoichiometry): number {
+  if (col.role === 'baseline') return 0;
   const dx = equilibriumSensitivity(st, model).dProductDLnK;
   return col.role === 'reactant-a' ? -model.a * dx : col.role === 'reactant-b' ? -model.b * dx : dx;
 }
@@ -238,7 +248,9 @@ function checkReactant(name: string, r: ReactantSpectrum, w: number): readonly n
  * least squares (variable projection: E = C⁺·Y, or non-negative least squares); ln K is optimised on the
  * projected residual S(K) = ‖Y − C·C⁺·Y‖². The search: a grid over the dimensionless K·C^(a+b−1) from 10⁻³
  * to 10⁷, then Levenberg–Marquardt on ln K (numerical Jacobian of the projected fit). A reactant whose
- * spectrum is held is subtracted first: Y − l·[X]·ε_Xᵀ.
+ * spectrum is held is subtracted first: Y − l·[X]·ε_Xᵀ. With `fitBaseline` a column of ones joins C: an
+ * absorbance offset at each wavelength shared by every mixture, which takes up the error of the mean blank
+ * (subtracted from every mixture alike, so not independent between mixtures).
  *
  * What is known of K comes from the profile of S over θ = log₁₀ K (exactly the variable-projection S,
  * which re-optimises every ε at each K) by the rules of the single-wavelength global fit, with
@@ -300,14 +312,22 @@ export function fitSpectralModel(
   if (roleB !== 'none')
     columns.push({ role: 'reactant-b', species: 'B', held: checkReactant('B', roleB, w) });
   columns.push({ role: 'complex', species: complexSpeciesLabel(model), held: null });
+  const nonNegative = options.nonNegativeSpectra ?? false;
+  if (options.fitBaseline) {
+    if (nonNegative)
+      throw new AnalysisError(
+        'invalid-settings',
+        'a fitted baseline can be negative: not with non-negative spectra',
+      );
+    columns.push({ role: 'baseline', species: 'baseline', held: null });
+  }
   const fitted = columns.filter((c) => c.held === null);
   const held = columns.filter((c) => c.held !== null);
   const n = m * w;
   const p = 1 + fitted.length * w;
   const df = n - p;
   const unit = kUnit(model.a, model.b);
-  const nonNegative = options.nonNegativeSpectra ?? false;
-  const allSpecies: Pick<Column, 'role' | 'species'>[] = [
+  const allSpecies: { role: SpeciesRole; species: string }[] = [
     { role: 'reactant-a', species: 'A' },
     { role: 'reactant-b', species: 'B' },
     { role: 'complex', species: complexSpeciesLabel(model) },
@@ -333,6 +353,7 @@ export function fitSpectralModel(
     aic: null,
     aicc: null,
     speciesSpectra: [],
+    baseline: null,
     speciesConcentrations: [],
     residuals: [],
     rank: 0,
@@ -342,9 +363,7 @@ export function fitSpectralModel(
     warnings: [`${model.label}: ${message}`],
   });
   if (df < 1)
-    return empty(
-      `a fit with ${fitted.length} absorbing species to fit needs more than ${fitted.length} mixtures, got ${m}`,
-    );
+    return empty(`a fit of ${fitted.length} spectra needs more than ${fitted.length} mixtures, got ${m}`);
 
   // ln K ↔ log₁₀ of the dimensionless K·C^(a+b−1), C a typical concentration of the mixtures.
   const scale = mixtures.map((mx) => Math.max(mx.a0M, mx.b0M)).sort((u, v) => u - v)[Math.floor(m / 2)];
@@ -492,23 +511,16 @@ export function fitSpectralModel(
     );
   }
 
-  const speciesSpectra: SpeciesSpectrum[] = columns.map((col) => {
+  const baselineIndex = fitted.findIndex((col) => col.role === 'baseline');
+  const speciesSpectra: SpeciesSpectrum[] = columns.flatMap((col): SpeciesSpectrum[] => {
+    if (col.role === 'baseline') return [];
+    const role = col.role;
     if (col.held)
-      return {
-        species: col.species,
-        role: col.role,
-        source: 'held',
-        epsilon: [...col.held],
-        se: col.held.map(() => null),
-      };
+      return [
+        { species: col.species, role, source: 'held', epsilon: [...col.held], se: col.held.map(() => null) },
+      ];
     const k = fitted.indexOf(col);
-    return {
-      species: col.species,
-      role: col.role,
-      source: 'fitted',
-      epsilon: fin.proj.spectra[k],
-      se: fittedSe[k],
-    };
+    return [{ species: col.species, role, source: 'fitted', epsilon: fin.proj.spectra[k], se: fittedSe[k] }];
   });
   if (!nonNegative) {
     for (const sp of speciesSpectra) {
@@ -562,6 +574,8 @@ export function fitSpectralModel(
     aic,
     aicc,
     speciesSpectra,
+    baseline:
+      baselineIndex < 0 ? null : { absorbance: fin.proj.spectra[baselineIndex], se: fittedSe[baselineIndex] },
     speciesConcentrations: allSpecies.map((sp) => ({
       species: sp.species,
       role: sp.role,

@@ -21,6 +21,7 @@ export interface SpectralSettings extends Pick<
   | 'ruledOutDeltaAic'
   | 'fit'
   | 'solver'
+  | 'fitBaseline'
 > {
   /** Wavelength range analysed, nm (inclusive). Default: every wavelength read. */
   fromNm?: number | null;
@@ -54,6 +55,7 @@ export interface ResolvedSpectralSettings {
   reactantA: ReactantSpectrumSetting;
   reactantB: ReactantSpectrumSetting;
   nonNegativeSpectra: boolean;
+  fitBaseline: boolean;
   minWavelengthCoverage: number;
   profile: boolean;
 }
@@ -101,6 +103,11 @@ export function resolveSpectralSettings(settings: SpectralSettings = {}): Resolv
   const toNm = optionalPositive('the end of the wavelength range', settings.toNm);
   if (fromNm !== null && toNm !== null && fromNm > toNm)
     throw new AnalysisError('invalid-settings', 'the wavelength range starts after it ends');
+  if (settings.fitBaseline && settings.nonNegativeSpectra)
+    throw new AnalysisError(
+      'invalid-settings',
+      'a fitted baseline can be negative: not with non-negative spectra',
+    );
   const coverage = settings.minWavelengthCoverage ?? 0.5;
   if (!(coverage > 0 && coverage <= 1))
     throw new AnalysisError('invalid-settings', 'the wavelength coverage of a mixture must be in (0, 1]');
@@ -119,6 +126,7 @@ export function resolveSpectralSettings(settings: SpectralSettings = {}): Resolv
     reactantA: reactant('reactant A’s spectrum', settings.reactantA),
     reactantB: reactant('reactant B’s spectrum', settings.reactantB),
     nonNegativeSpectra: settings.nonNegativeSpectra ?? false,
+    fitBaseline: settings.fitBaseline ?? false,
     minWavelengthCoverage: coverage,
     profile: settings.profile ?? true,
   };
