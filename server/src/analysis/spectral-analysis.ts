@@ -116,7 +116,8 @@ export function analyzeSpectra(
   else if (count.speciesCount > absorbing)
     warnings.push(
       `the singular values show ${count.speciesCount} absorbing species but the fits hold only ${absorbing}: ` +
-        `another complex, a drifting baseline or scattering may be present`,
+        `another complex, scattering, a drifting baseline, or the error of the mean blank (shared by every ` +
+        `mixture; with few blanks it shows at many wavelengths) may be present — a fitted baseline takes up the last two`,
     );
   const candidates = s.candidates.map((label) =>
     fitSpectralModel(matrix.mixtures, matrix.absorbance, parseStoichiometry(label), {

@@ -57,6 +57,9 @@ export function gavishDonohoOmega(beta: number): number {
  *   fewer species than half the smaller dimension (the median singular value is then noise); give σ
  *   when the batch has only a few mixtures.
  * τ is never below the numerical-rank floor max(m, n)·ε_mach·s₁ (so noise-free data count their rank).
+ * Anything common to every mixture counts as a component too: a baseline drift, and the error of the mean
+ * blank subtracted from every row (singular value about √(m·n/n_blank)·σ, above τ when the blanks are fewer
+ * than about m/2.6).
  * The SVD is ml-matrix's (Golub–Kahan–Reinsch, ported from JAMA).
  *
  * Units: absorbance (dimensionless) for the matrix, σ, sᵢ and τ.
