@@ -7,6 +7,7 @@ import {
   resolveSpectralSettings,
   SpectralSettings,
 } from './spectral-options';
+import { spectralRowBasis } from './spectral-row-basis';
 import { estimateSpeciesCount } from './spectral-species-count';
 import { parseStoichiometry } from './stoichiometry-model';
 import { rankStoichiometries, StoichiometryRanking } from './stoichiometry-ranking';
@@ -119,12 +120,19 @@ export function analyzeSpectra(
         `another complex, scattering, a drifting baseline, or the error of the mean blank (shared by every ` +
         `mixture; with few blanks it shows at many wavelengths) may be present — a fitted baseline takes up the last two`,
     );
+  // One basis of the spectra's row space serves every candidate (the held spectra are the same for all).
+  const heldSpectra = [reactantA, reactantB].flatMap((r) => (typeof r === 'object' ? [r.epsilon] : []));
+  const rowBasis =
+    !s.nonNegativeSpectra && matrix.wavelengthsNm.length > matrix.mixtures.length + heldSpectra.length
+      ? spectralRowBasis(matrix.absorbance, heldSpectra)
+      : undefined;
   const candidates = s.candidates.map((label) =>
     fitSpectralModel(matrix.mixtures, matrix.absorbance, parseStoichiometry(label), {
       reactantA,
       reactantB,
       nonNegativeSpectra: s.nonNegativeSpectra,
       fitBaseline: s.fitBaseline,
+      rowBasis,
       maxIterations: s.fit.maxIterations,
       parameterTolerance: s.fit.parameterTolerance,
       solverTolerance: s.solver.tolerance,

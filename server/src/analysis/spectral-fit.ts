@@ -201,6 +201,30 @@ class SpectralEvaluator {
     this.lastLnK = lnK;
     return this.last;
   }
+
+  /**
+   * ∂(Y − R)/∂ln K by Kaufman's approximation, (I − C·C⁺)·u with u = ∂(C·E)/∂ln K at fixed E (held species
+   * included), one row per observation. It drops a term that lies in the range of C, which is orthogonal to R,
+   * so the gradient Jᵀ·R, and with it the optimum, are exact.
+   */
+  jacobian(lnK: number): number[][] {
+    const ev = this.at(lnK);
+    const cols = this.absorbance[0].length;
+    const u = ev.states.map((st, i) => {
+      const row = new Array<number>(cols).fill(0);
+      const add = (col: Column, eps: readonly number[]): void => {
+        const d = this.mixtures[i].pathLengthCm * dConcentrationDLnK(col, st, this.model);
+        if (d !== 0) for (let j = 0; j < cols; j++) row[j] += d * eps[j];
+      };
+      this.fitted.forEach((col, k) => add(col, ev.proj.spectra[k]));
+      this.held.forEach((col, h) => add(col, this.heldSpectra[h]));
+      return row;
+    });
+    const projected = projectSpectra(ev.c, u).residuals;
+    const out: number[][] = [];
+    for (const row of projected) for (const v of row) out.push([v]);
+    return out;
+  }
 }
 
 function concentrationOf(col: Pick<Column, 'role'>, st: EquilibriumState): number {
@@ -247,7 +271,9 @@ function checkReactant(name: string, r: ReactantSpectrum, w: number): readonly n
  * is part of the model) and E their spectra. For a trial K the equilibrium gives C, and E follows by linear
  * least squares (variable projection: E = C⁺·Y, or non-negative least squares); ln K is optimised on the
  * projected residual S(K) = ‖Y − C·C⁺·Y‖². The search: a grid over the dimensionless K·C^(a+b−1) from 10⁻³
- * to 10⁷, then Levenberg–Marquardt on ln K (numerical Jacobian of the projected fit). A reactant whose
+ * to 10⁷, then Levenberg–Marquardt on ln K (Kaufman's Jacobian of the projected residual; central
+ * differences for non-negative spectra). The search runs on the exact reduction of the spectra onto the row
+ * space of Y ({@link spectralRowBasis}: the same S at every K), the final fit on Y itself. A reactant whose
  * spectrum is held is subtracted first: Y − l·[X]·ε_Xᵀ. With `fitBaseline` a column of ones joins C: an
  * absorbance offset at each wavelength shared by every mixture, which takes up the error of the mean blank
  * (subtracted from every mixture alike, so not independent between mixtures).
@@ -407,7 +433,7 @@ export function fitSpectralModel(
   }
 
   // Levenberg–Marquardt on ln K alone: the observations are the absorbances, the prediction at ln K is the
-  // projected fit Y − R(K), so the residual it minimises is the projected residual R(K).
+  // projected fit Y − R(K), so the residual it minimises is the projected residual R(K); Kaufman's Jacobian.
   const lmEvaluator = evaluator();
   // Any fixed observations work: the prediction is defined as observations − R(K).
   const y0 = lmEvaluator.absorbance;
@@ -425,6 +451,8 @@ export function fitSpectralModel(
         }
         return f;
       },
+      // Non-negative spectra: E is piecewise in K, so central differences (the optimiser's default).
+      jacobian: nonNegative ? undefined : (q) => lmEvaluator.jacobian(q[0]),
     },
     observations,
     [lnK0],
