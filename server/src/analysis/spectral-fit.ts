@@ -290,9 +290,9 @@ function checkReactant(name: string, r: ReactantSpectrum, w: number): readonly n
  *
  * Units: concentrations mol/L, path cm, absorbance dimensionless, ε L·mol⁻¹·cm⁻¹, K M^(1−a−b).
  * Reference: Golub G.H. & Pereyra V. (2003) Inverse Problems 19, R1 (variable projection); Kaufman L. (1975)
- * BIT 15, 49; Maeder M. & Neuhold Y.-M., Practical Data Analysis in Chemistry (Elsevier, 2007), ch. 4
- * (global analysis of spectra of equilibria); Bates D.M. & Watts D.G., Nonlinear Regression Analysis and
- * Its Applications (Wiley, 1988), §6.1; Akaike H. (1974) IEEE Trans. Autom. Control 19, 716.
+ * BIT 15, 49; Maeder M. & Neuhold Y.-M., Practical Data Analysis in Chemistry (Elsevier, 2007)
+ * (model-based global analysis of spectra of equilibria); Bates D.M. & Watts D.G., Nonlinear Regression
+ * Analysis and Its Applications (Wiley, 1988), §6.1; Akaike H. (1974) IEEE Trans. Autom. Control 19, 716.
  *
  * @param mixtures initial concentrations and path length of each mixture (rows of the matrix)
  * @param absorbance blank-corrected absorbance, mixtures × wavelengths

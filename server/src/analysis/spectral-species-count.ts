@@ -66,7 +66,7 @@ export function gavishDonohoOmega(beta: number): number {
  * Reference: Gavish M. & Donoho D.L. (2014) IEEE Trans. Inf. Theory 60, 5040, "The optimal hard threshold for
  * singular values is 4/√3"; Marchenko V.A. & Pastur L.A. (1967) Math. USSR-Sb. 1, 457; Golub G.H. & Van Loan
  * C.F., Matrix Computations, 4th ed., §5.4.1 (numerical rank); Malinowski E.R., Factor Analysis in
- * Chemistry, 3rd ed. (Wiley, 2002), ch. 4 (rank of spectroscopic data).
+ * Chemistry, 3rd ed. (Wiley, 2002) (rank of spectroscopic data).
  *
  * @param absorbance mixtures × wavelengths, blank-corrected
  * @param options the absorbance SD of one entry, when known
