@@ -129,6 +129,7 @@ console.log(
   `Species ${result.speciesCount}; best ${result.best}; K = ${best?.k?.toFixed(1)} L·mol⁻¹ ` +
     `(95 % CI ${best?.kCi95?.map((v) => v?.toFixed(1)).join(' to ')}; true ${K_TRUE})`,
 );
+for (const w of result.warnings) console.log(`  note: ${w}`);
 console.log(`Floor: one SVD of the 40 × 301 matrix (ml-matrix, values only), median of 41: ${both(floor)}`);
 console.log(
   `analyzeSpectra, median of ${repeats}: ${both(total)}  (${(total.wall / floor.wall).toFixed(1)}× floor wall, ` +

@@ -123,7 +123,12 @@ const LN10 = Math.log(10);
 const LOG10_U_RANGE: [number, number] = [-4, 8];
 const SUBSCRIPT = '₀₁₂₃₄₅₆₇₈₉';
 
-/** "AB", "AB₂", "A₂B": the complex of a candidate. */
+/**
+ * The complex of a candidate as a formula: A_aB_b with subscripts, 1 left out.
+ *
+ * @example
+ * complexSpeciesLabel({ a: 1, b: 2, label: '1:2' }); // "AB₂"
+ */
 export function complexSpeciesLabel(model: Stoichiometry): string {
   const sub = (n: number): string =>
     n === 1 ? '' : [...String(n)].map((d) => SUBSCRIPT[Number(d)]).join('');

@@ -197,6 +197,29 @@ describe('a one-wavelength slice agrees with the single-wavelength global fit', 
   );
 });
 
+describe('iteration limits', () => {
+  it('a non-negative solver out of iterations makes the fit "not-converged", never a silent answer', () => {
+    const mixtures = design();
+    const y = synthesise(mixtures, grid(350, 650, 10), '1:1', 800, { noiseSd: 0.002, seed: 5 });
+    const fit = fitSpectralModel(mixtures, y, parseStoichiometry('1:1'), {
+      nonNegativeSpectra: true,
+      nnlsMaxIterations: 1,
+    });
+    expect(fit.kStatus).toBe('not-converged');
+    expect(fit.converged).toBe(false);
+    expect(fit.k).toBeNull();
+    expect(fit.message).toMatch(/ran out of iterations/);
+  });
+
+  it('an optimiser held to one iteration says it did not converge', () => {
+    const mixtures = design();
+    const y = synthesise(mixtures, grid(350, 650, 10), '1:2', 2e6, { noiseSd: 0.002, seed: 5 });
+    const fit = fitSpectralModel(mixtures, y, parseStoichiometry('1:2'), { maxIterations: 1 });
+    expect(fit.kStatus).toBe('not-converged');
+    expect(fit.message).toMatch(/maximum of 1 iterations/);
+  });
+});
+
 describe('what the data do not say', () => {
   const wl = grid(350, 650, 10);
   it('complete binding gives a lower bound on K, not a number', () => {
