@@ -1,11 +1,14 @@
 import { GlobalFitResult } from './global-fit';
 import { KStatistics } from './k-statistics';
 
+/** The parts of a fit the ranking reads (a single-wavelength or a whole-spectrum fit). */
+export type RankableFit = Pick<GlobalFitResult, 'converged' | 'aic' | 'status' | 'message'>;
+
 /** What the ranking needs to know about one candidate. */
 export interface CandidateEvidence {
   model: string;
   kStats: KStatistics | null;
-  fit: GlobalFitResult | null;
+  fit: RankableFit | null;
 }
 
 export interface RankingOptions {
