@@ -45,8 +45,6 @@ const REPLACEMENTS: Record<string, string> = {
   '≥': '>=',
   '≤': '<=',
   '≈': '~',
-  '⁻': '-',
-  '¹': '1',
   '✓': 'yes',
   '✕': 'x',
 };
@@ -54,14 +52,30 @@ const SUBSCRIPT_DIGITS = '₀₁₂₃₄₅₆₇₈₉';
 const SUPERSCRIPT_DIGITS = '⁰¹²³⁴⁵⁶⁷⁸⁹';
 
 function plainer(text: string): string {
-  return text.replace(/[→←≥≤≈⁻✓✕₀-₉⁴-⁹⁰]/g, (c) => {
+  return text.replace(/[→←≥≤≈✓✕₀-₉]/g, (c) => {
     if (REPLACEMENTS[c]) return REPLACEMENTS[c];
     const sub = SUBSCRIPT_DIGITS.indexOf(c);
-    if (sub >= 0) return String(sub);
-    const sup = SUPERSCRIPT_DIGITS.indexOf(c);
-    return sup >= 0 ? `^${sup}` : c;
+    return sub >= 0 ? String(sub) : c;
   });
 }
+
+/** A superscript character (exponents and units such as 10⁻⁶, L·mol⁻¹) as the ordinary one it raises. */
+function superscriptBase(c: string): string | null {
+  if (c === '⁻') return '−';
+  const digit = SUPERSCRIPT_DIGITS.indexOf(c);
+  return digit >= 0 ? String(digit) : null;
+}
+
+/** Superscripts as plain text for wrapped paragraphs: "L·mol⁻¹" → "L·mol^-1", "10⁻⁶" → "10^-6". */
+function caretSuperscripts(text: string): string {
+  return text.replace(
+    /[⁻⁰¹²³⁴-⁹]+/g,
+    (run) => `^${[...run].map((c) => (c === '⁻' ? '-' : superscriptBase(c))).join('')}`,
+  );
+}
+
+/** Superscripts are drawn smaller and top-aligned (pdfkit places a run's top at the line's top). */
+const SUPERSCRIPT_SCALE = 0.68;
 
 const ROLE_COLOURS: Record<string, string> = {
   blank: '#cfd8dc',
@@ -116,17 +130,20 @@ class ReportWriter {
   }
 
   /** Split text into runs that one font subset can draw. */
-  private runs(text: string, weight: Weight): { font: string; text: string }[] {
-    const runs: { font: string; text: string }[] = [];
-    for (const ch of plainer(text)) {
+  private runs(text: string, weight: Weight): { font: string; text: string; sup: boolean }[] {
+    const runs: { font: string; text: string; sup: boolean }[] = [];
+    for (const raw of plainer(text)) {
+      const base = superscriptBase(raw);
+      const ch = base ?? raw;
+      const sup = base !== null;
       const cp = ch.codePointAt(0)!;
       const subset = SUBSETS.find((s) => s.covers(cp));
       const font = `${weight}-${subset ? subset.name : 'latin'}`;
       const last = runs.at(-1);
-      if (last && last.font === font) last.text += ch;
-      else runs.push({ font, text: ch });
+      if (last && last.font === font && last.sup === sup) last.text += ch;
+      else runs.push({ font, text: ch, sup });
     }
-    return runs.length ? runs : [{ font: `${weight}-latin`, text: '' }];
+    return runs.length ? runs : [{ font: `${weight}-latin`, text: '', sup: false }];
   }
 
   /** Draw text at a place, falling back to another Noto Sans subset for characters Latin lacks. */
@@ -138,24 +155,45 @@ class ReportWriter {
   ): void {
     const { weight = 'regular', size = 9, color = INK, ...rest } = options;
     const doc = this.doc.fontSize(size).fillColor(color);
-    const runs = this.runs(value, weight);
+    let runs = this.runs(value, weight);
+    if (runs.some((r) => r.sup)) {
+      // Raised runs keep their place only on one line: text that wraps writes exponents as ^-1 instead.
+      const oneLine = !value.includes('\n') && (!rest.width || this.lineWidth(runs, size) <= rest.width);
+      if (!oneLine && rest.lineBreak !== false) runs = this.runs(caretSuperscripts(value), weight);
+    }
     if (runs.length > 1 && rest.lineBreak === false && rest.width && rest.align && rest.align !== 'left') {
       // pdfkit aligns each continued run on its own: place the runs of one line by hand instead.
-      const widths = runs.map((run) => doc.font(run.font).widthOfString(run.text));
+      const sized = (sup: boolean) => doc.fontSize(sup ? size * SUPERSCRIPT_SCALE : size);
+      const widths = runs.map((run) => sized(run.sup).font(run.font).widthOfString(run.text));
       const total = widths.reduce((sum, w) => sum + w, 0);
       let cx = rest.align === 'right' ? x + rest.width - total : x + (rest.width - total) / 2;
       runs.forEach((run, i) => {
-        doc.font(run.font).text(run.text, cx, y, { lineBreak: false });
+        sized(run.sup).font(run.font).text(run.text, cx, y, { lineBreak: false });
         cx += widths[i];
       });
+      doc.fontSize(size);
       return;
     }
     runs.forEach((run, i) => {
-      doc.font(run.font);
+      doc.font(run.font).fontSize(run.sup ? size * SUPERSCRIPT_SCALE : size);
       const continued = i < runs.length - 1;
       if (i === 0) doc.text(run.text, x, y, { ...rest, continued });
       else doc.text(run.text, { ...rest, continued });
     });
+    doc.fontSize(size);
+  }
+
+  /** Width of runs drawn on one line. */
+  private lineWidth(runs: readonly { font: string; text: string; sup: boolean }[], size: number): number {
+    return runs.reduce(
+      (sum, run) =>
+        sum +
+        this.doc
+          .font(run.font)
+          .fontSize(run.sup ? size * SUPERSCRIPT_SCALE : size)
+          .widthOfString(run.text),
+      0,
+    );
   }
 
   /** Height of wrapped text (measured in the Latin font). */
@@ -530,11 +568,13 @@ export function renderBatchReport(input: BatchReportInput, options: PdfOptions =
     w.y += 4;
     const verdict = r.stoichiometry.verdict;
     const kLine = r.headline ? `K (${r.headline.model}) = ${r.headline.text}` : null;
-    const boxText = kLine ? `${verdict}\n${kLine}` : verdict;
-    const h = w.heightOf(boxText, w.width - 16, 10, 'bold') + 12;
+    const verdictHeight = w.heightOf(verdict, w.width - 16, 10, 'bold');
+    const h = verdictHeight + (kLine ? 14 : 0) + 12;
     w.ensure(h + 6);
     doc.rect(w.left, w.y, w.width, h).fillColor('#e3f2fd').fill();
-    w.text(boxText, w.left + 8, w.y + 6, { width: w.width - 16, weight: 'bold', size: 10, color: '#0d47a1' });
+    const boxStyle = { width: w.width - 16, weight: 'bold' as const, size: 10, color: '#0d47a1' };
+    w.text(verdict, w.left + 8, w.y + 6, boxStyle);
+    if (kLine) w.text(kLine, w.left + 8, w.y + 6 + verdictHeight + 2, boxStyle);
     w.y += h + 6;
   }
 

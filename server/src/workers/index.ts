@@ -80,6 +80,11 @@ function pool(name: PoolName): Piscina {
       maxQueue: MAX_QUEUED_TASKS,
       workerData: { nice: name === 'analyses' ? ANALYSIS_NICE : 0 },
     });
+    // An answer that arrives after its pool was destroyed (a shutdown while a task ran) has no task to go
+    // to; piscina reports it as an 'error' event, which must not take the process down.
+    found.on('error', (err: Error) => {
+      if (!/Unexpected message from Worker/.test(err.message)) console.error('worker pool:', err);
+    });
     pools.set(name, found);
   }
   return found;
