@@ -3,6 +3,7 @@ import { EquilibriumState, equilibriumSensitivity, solveEquilibrium } from './eq
 import { invertSpd } from './linear-algebra';
 import { levenbergMarquardt } from './levenberg-marquardt';
 import { KStatus, kUnit } from './number-format';
+import { kStatusNote } from './k-profile-verdict';
 import { profileInterval } from './profile-likelihood';
 import { Stoichiometry } from './stoichiometry-model';
 import { studentTQuantile } from './student-t';
@@ -382,19 +383,8 @@ export function fitEquilibriumModel(
       message = 'these mixtures do not constrain K at all';
     }
   }
-  if (status === 'not-converged') warnings.push(`${model.label}: the fit did not converge (${message})`);
-  if (status === 'lower-bound')
-    warnings.push(
-      `${model.label}: K is too large to determine from these concentrations (binding is complete); ` +
-        `redesign the mixtures to measure K — the Planner shows which concentrations would`,
-    );
-  if (status === 'upper-bound')
-    warnings.push(
-      `${model.label}: K is too small to determine from these concentrations (binding is barely seen)`,
-    );
-  if (status === 'poorly-determined')
-    warnings.push(`${model.label}: K is poorly determined (its 95 % interval spans more than a decade)`);
-  if (status === 'not-determined') warnings.push(`${model.label}: ${message}`);
+  const statusNote = kStatusNote(model.label, status, message);
+  if (statusNote) warnings.push(statusNote);
 
   // The fitted curve at the estimate (for a bound: at the edge of the searched range).
   const finalSolver = new MixtureSolver(points, model, options);

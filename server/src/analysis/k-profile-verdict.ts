@@ -117,3 +117,30 @@ export function kFromProfile(input: KProfileInput): KProfileVerdict {
   }
   return verdict('not-determined', 'these mixtures do not constrain K at all');
 }
+
+/**
+ * The note a fit adds for what is known of its K (nothing for a determined K). One wording for the
+ * single-wavelength and the whole-spectrum fits.
+ *
+ * @example
+ * kStatusNote('1:2', 'lower-bound', ''); // "1:2: K is too large to determine from these concentrations …"
+ */
+export function kStatusNote(model: string, status: KStatus, message: string): string | null {
+  switch (status) {
+    case 'not-converged':
+      return `${model}: the fit did not converge (${message})`;
+    case 'lower-bound':
+      return (
+        `${model}: K is too large to determine from these concentrations (binding is complete); ` +
+        `redesign the mixtures to measure K — the Planner shows which concentrations would`
+      );
+    case 'upper-bound':
+      return `${model}: K is too small to determine from these concentrations (binding is barely seen)`;
+    case 'poorly-determined':
+      return `${model}: K is poorly determined (its 95 % interval spans more than a decade)`;
+    case 'not-determined':
+      return `${model}: ${message}`;
+    default:
+      return null;
+  }
+}

@@ -1,6 +1,6 @@
 import { AnalysisError } from './errors';
 import { EquilibriumState, equilibriumSensitivity, solveEquilibrium } from './equilibrium-solve';
-import { kFromProfile } from './k-profile-verdict';
+import { kFromProfile, kStatusNote } from './k-profile-verdict';
 import { invertSpd } from './linear-algebra';
 import { levenbergMarquardt } from './levenberg-marquardt';
 import { KStatus, kUnit } from './number-format';
@@ -569,19 +569,8 @@ export function fitSpectralModel(
         );
     }
   }
-  if (status === 'not-converged') warnings.push(`${model.label}: the fit did not converge (${message})`);
-  if (status === 'lower-bound')
-    warnings.push(
-      `${model.label}: K is too large to determine from these concentrations (binding is complete); ` +
-        `redesign the mixtures to measure K — the Planner shows which concentrations would`,
-    );
-  if (status === 'upper-bound')
-    warnings.push(
-      `${model.label}: K is too small to determine from these concentrations (binding is barely seen)`,
-    );
-  if (status === 'poorly-determined')
-    warnings.push(`${model.label}: K is poorly determined (its 95 % interval spans more than a decade)`);
-  if (status === 'not-determined') warnings.push(`${model.label}: ${message}`);
+  const statusNote = kStatusNote(model.label, status, message);
+  if (statusNote) warnings.push(statusNote);
 
   const k = Math.exp(verdict.lnKHat);
   const aic = rssMin > 0 ? n * Math.log(rssMin / n) + 2 * p : null;
