@@ -65,6 +65,11 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     http.expectOne('/api/batches/7/epsilon-sources').flush(candidates);
     http.expectOne('/api/layouts/3').flush({ id: 3, format: 'cuvette' });
     await fixture.whenStable();
+    // The what-if panel and its analysis fields render in idle moments (two nested deferred blocks).
+    for (let i = 0; i < 2; i++) {
+      await wait(5);
+      await fixture.whenStable();
+    }
     const el = fixture.nativeElement as HTMLElement;
     return { fixture, el };
   }

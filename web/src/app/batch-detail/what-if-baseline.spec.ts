@@ -40,6 +40,9 @@ describe('what-if: a constant baseline in the fits', () => {
     const emitted: boolean[] = [];
     fixture.componentInstance.fitBaselineChange.subscribe((v) => emitted.push(v));
     await fixture.whenStable();
+    // The analysis fields render in an idle moment after the rest of the panel.
+    await new Promise((resolve) => setTimeout(resolve, 5));
+    await fixture.whenStable();
     const el = fixture.nativeElement as HTMLElement;
     const box = el.querySelector<HTMLInputElement>('[data-testid="what-if-baseline"] input[type="checkbox"]');
     expect(box).not.toBeNull();
