@@ -83,13 +83,13 @@ export interface EquilightApp {
 export function createApp({ config, dataSource, log = console.error, engine }: AppContext): EquilightApp {
   configureWorkers(config.workers);
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
-  const users = new UsersService(dataSource, store);
+  const audit = new AuditService(dataSource);
+  const users = new UsersService(dataSource, store, audit);
   const passport = createPassport(users);
   const events = new EventBus();
   // Sign-out, deactivation and role changes end live connections (events/live-events.ts).
   store.on('ended', (sessionId: string) => events.publishAccessChange({ kind: 'session-ended', sessionId }));
   users.onAccessChange((userId) => events.publishAccessChange({ kind: 'person-changed', userId }));
-  const audit = new AuditService(dataSource);
   const instruments = new InstrumentsService(dataSource, audit);
   const queue = new SqliteJobQueue<IngestJobData>('ingest', dataSource);
   const ingest = new IngestService(

@@ -14,7 +14,7 @@ export function usersRouter(users: UsersService, publicUrl: string): Router {
   });
 
   router.post('/', validateBody(createUserSchema), async (req, res) => {
-    const created = await users.create(req.body);
+    const created = await users.create(req.body, { id: req.user!.id, email: req.user!.email });
     res.status(201).json({
       user: created.user,
       setPasswordUrl: created.setPasswordToken
@@ -24,7 +24,8 @@ export function usersRouter(users: UsersService, publicUrl: string): Router {
   });
 
   router.patch('/:id', validateBody(updateUserSchema), async (req, res) => {
-    res.json(await users.update(idParam(req.params['id'], 'Person'), req.body, req.user!.id));
+    const actor = { id: req.user!.id, email: req.user!.email };
+    res.json(await users.update(idParam(req.params['id'], 'Person'), req.body, actor));
   });
 
   return router;

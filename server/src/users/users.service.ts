@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import bcrypt from 'bcryptjs';
-import type { DataSource, Repository } from 'typeorm';
+import type { DataSource, EntityManager, Repository } from 'typeorm';
+import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
 import { normaliseEmail } from './email-address';
 import { type PublicUser, type Role, User, toPublicUser } from './user.entity';
@@ -40,10 +41,23 @@ export class UsersService {
   private readonly accessListeners: ((userId: number) => void)[] = [];
 
   constructor(
-    dataSource: DataSource,
+    private readonly dataSource: DataSource,
     private readonly sessions?: SessionEnder,
+    private readonly audit?: AuditService,
   ) {
     this.users = dataSource.getRepository(User);
+  }
+
+  /** Runs a change with its audit entry in one transaction (no entry without an actor, e.g. the demo seed). */
+  private async audited<T>(
+    actor: Actor | undefined,
+    change: (manager: EntityManager) => Promise<{ value: T; entry: AuditEntryOf | null }>,
+  ): Promise<T> {
+    return this.dataSource.transaction(async (manager) => {
+      const { value, entry } = await change(manager);
+      if (actor && entry && this.audit) await this.audit.record({ actor, entity: 'user', ...entry }, manager);
+      return value;
+    });
   }
 
   async list(): Promise<PublicUser[]> {
@@ -72,7 +86,8 @@ export class UsersService {
     return user;
   }
 
-  async create(input: CreateUserInput): Promise<CreatedUser> {
+  /** A new person; `actor` (the admin) is named in the audit trail: `create` or `invite`. */
+  async create(input: CreateUserInput, actor?: Actor): Promise<CreatedUser> {
     const email = normaliseEmail(input.email);
     if (await this.users.existsBy({ email })) {
       throw AppError.conflict(`A person with e-mail ${email} already exists.`);
@@ -92,7 +107,17 @@ export class UsersService {
       user.setPasswordTokenHash = sha256(setPasswordToken);
       user.setPasswordExpiresAt = Date.now() + SET_PASSWORD_TTL_MS;
     }
-    await this.users.save(user);
+    await this.audited(actor, async (manager) => {
+      await manager.getRepository(User).save(user);
+      const summary = setPasswordToken
+        ? `Invited ${email} as ${user.role} (set-password link sent)`
+        : `Added ${email} as ${user.role}`;
+      const after = { email, displayName: user.displayName, role: user.role, active: true };
+      return {
+        value: undefined,
+        entry: { action: setPasswordToken ? 'invite' : 'create', entityId: user.id, summary, after },
+      };
+    });
     if (setPasswordToken)
       for (const listener of this.invitationListeners) listener(toPublicUser(user), setPasswordToken);
     return { user: toPublicUser(user), setPasswordToken };
@@ -123,7 +148,9 @@ export class UsersService {
     return { user: toPublicUser(user), token };
   }
 
-  async update(id: number, input: UpdateUserInput, actingUserId: number): Promise<PublicUser> {
+  /** Name, role or active state; role changes and (de)activations are audited with before and after. */
+  async update(id: number, input: UpdateUserInput, actor: Actor): Promise<PublicUser> {
+    const actingUserId = actor.id;
     const user = await this.findById(id);
     if (!user) throw AppError.notFound(`No person with id ${id}.`);
     const losesAdmin =
@@ -137,11 +164,15 @@ export class UsersService {
       if (id === actingUserId && input.active === false)
         throw AppError.conflict('You cannot deactivate your own account.');
     }
-    const before = { role: user.role, active: user.active };
+    const before = { displayName: user.displayName, role: user.role, active: user.active };
     if (input.displayName !== undefined) user.displayName = input.displayName;
     if (input.role !== undefined) user.role = input.role as Role;
     if (input.active !== undefined) user.active = input.active;
-    await this.users.save(user);
+    const after = { displayName: user.displayName, role: user.role, active: user.active };
+    await this.audited(actor, async (manager) => {
+      await manager.getRepository(User).save(user);
+      return { value: undefined, entry: personChange(user.id, user.email, before, after) };
+    });
     if (user.role !== before.role || user.active !== before.active)
       for (const listener of this.accessListeners) listener(user.id);
     return toPublicUser(user);
@@ -171,4 +202,30 @@ export class UsersService {
     await this.sessions?.destroyAllOf(user.id, keepSessionId);
     return toPublicUser({ ...user, passwordHash, setPasswordTokenHash: null, setPasswordExpiresAt: null });
   }
+}
+
+type AuditEntryOf = { action: string; entityId: number; summary: string; before?: unknown; after?: unknown };
+type PersonState = { displayName: string; role: Role; active: boolean };
+
+/** The audit entry of a change to a person, or null when nothing changed. */
+function personChange(
+  id: number,
+  email: string,
+  before: PersonState,
+  after: PersonState,
+): AuditEntryOf | null {
+  const parts: string[] = [];
+  let action = 'update';
+  if (before.active !== after.active) {
+    action = after.active ? 'reactivate' : 'deactivate';
+    parts.push(after.active ? 'reactivated' : 'deactivated');
+  }
+  if (before.role !== after.role) {
+    if (action === 'update') action = 'change_role';
+    parts.push(`role ${before.role} → ${after.role}`);
+  }
+  if (before.displayName !== after.displayName)
+    parts.push(`name "${before.displayName}" → "${after.displayName}"`);
+  if (!parts.length) return null;
+  return { action, entityId: id, summary: `${email}: ${parts.join(', ')}`, before, after };
 }

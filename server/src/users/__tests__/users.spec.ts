@@ -160,6 +160,47 @@ describe('people API', () => {
     expect(again.body.error.message).toMatch(/deactivated/);
   });
 
+  it('adding, inviting, changing the role of and deactivating a person write audit entries', async () => {
+    const admin = await as('admin');
+    const stamp = Date.now();
+    const added = await admin.post('/api/users').send({
+      email: `audited-${stamp}@lab.test`,
+      displayName: 'Audited Added',
+      role: 'scientist',
+      password: 'a-long-enough-password',
+    });
+    expect(added.status).toBe(201);
+    const invited = await admin
+      .post('/api/users')
+      .send({ email: `invited-${stamp}@lab.test`, displayName: 'Audited Invited', role: 'lab_manager' });
+    expect(invited.status).toBe(201);
+    const id = added.body.user.id as number;
+    expect((await admin.patch(`/api/users/${id}`).send({ role: 'lab_manager' })).status).toBe(200);
+    expect((await admin.patch(`/api/users/${id}`).send({ active: false })).status).toBe(200);
+    expect((await admin.patch(`/api/users/${id}`).send({ active: false })).status).toBe(200); // no change
+
+    const trail = await admin.get('/api/audit').query({ entity: 'user', pageSize: 100 });
+    expect(trail.status).toBe(200);
+    const mine = (
+      trail.body.items as { action: string; entityId: number; summary: string; actorName: string }[]
+    )
+      .filter((e) => e.summary.includes(String(stamp)))
+      .map((e) => [e.action, e.entityId, e.actorName]);
+    expect(mine).toEqual(
+      expect.arrayContaining([
+        ['create', id, DEMO_EMAILS.admin],
+        ['invite', invited.body.user.id, DEMO_EMAILS.admin],
+        ['change_role', id, DEMO_EMAILS.admin],
+        ['deactivate', id, DEMO_EMAILS.admin],
+      ]),
+    );
+    expect(mine).toHaveLength(4);
+    const roleChange = (trail.body.items as { action: string; before: unknown; after: unknown }[]).find(
+      (e) => e.action === 'change_role',
+    );
+    expect(roleChange).toMatchObject({ before: { role: 'scientist' }, after: { role: 'lab_manager' } });
+  });
+
   it('when the last admin would be demoted then 409', async () => {
     const fresh = await startTestApp();
     try {
