@@ -102,7 +102,9 @@ export function resolvePositions(
   for (const r of readings) {
     if (wavelengthNm === null || Math.abs(r.wavelengthNm - wavelengthNm) > s.wavelengthToleranceNm) continue;
     const pos = r.position.toUpperCase();
-    readsByPosition.set(pos, [...(readsByPosition.get(pos) ?? []), r]);
+    const list = readsByPosition.get(pos);
+    if (list) list.push(r);
+    else readsByPosition.set(pos, [r]);
   }
   const exclusionByPosition = new Map(s.exclusions.map((e) => [e.position, e.reason]));
   for (const e of s.exclusions) {

@@ -14,7 +14,11 @@ import { K_CONCENTRATION_CONSTANT_NOTE } from './number-format';
 import { AnalysisSettings, resolveAnalysisSettings } from './options';
 import { Reading, SampleDefinition } from './types';
 
-/** Optional timing hook for benchmarks: `timings` receives milliseconds per step. */
+/**
+ * Optional timing hook for benchmarks: `timings` receives the clock's units (milliseconds) per step:
+ * positions, blank, replicates, calibration, unknowns, mixtures, stoichiometry, uncertainty, monteCarlo,
+ * jobAndBenesiHildebrand, qc.
+ */
 export interface BatchInstrumentation {
   clock: () => number;
   timings: Record<string, number>;
