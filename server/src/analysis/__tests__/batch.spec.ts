@@ -1,68 +1,7 @@
 import fc from 'fast-check';
 import { analyzeBatch } from '../batch';
-import { solveEquilibrium } from '../equilibrium-solve';
 import { seededRandom } from '../random';
-import { parseStoichiometry } from '../stoichiometry-model';
-import { Reading, SampleDefinition } from '../types';
-
-/** Invented cuvette batch: 1:1 complex, K = 850 M⁻¹, ε = 1250 L/(mol·cm), background 0.04. */
-function makeBatch(noiseSd = 0.002, seed = 5): { readings: Reading[]; samples: SampleDefinition[] } {
-  const rng = seededRandom(seed);
-  const model = parseStoichiometry('1:1');
-  const samples: SampleDefinition[] = [];
-  const readings: Reading[] = [];
-  let n = 0;
-  const add = (s: Omit<SampleDefinition, 'position'>, complexM: number): string => {
-    const position = `C${++n}`;
-    samples.push({ position, ...s });
-    readings.push({
-      position,
-      wavelengthNm: 640,
-      absorbance: 0.04 + 1250 * complexM + noiseSd * rng.normal(),
-    });
-    return position;
-  };
-  add({ sampleId: 'BLK', role: 'blank', replicateGroup: 'B' }, 0);
-  add({ sampleId: 'BLK', role: 'blank', replicateGroup: 'B' }, 0);
-  for (const c of [1e-4, 2e-4, 3e-4, 4e-4, 5e-4, 6e-4])
-    add({ sampleId: `S${c}`, role: 'standard', concentrationM: c }, c);
-  add({ sampleId: 'U1', role: 'unknown', dilutionFactor: 10, replicateGroup: 'U1' }, 3e-4);
-  add({ sampleId: 'U1', role: 'unknown', dilutionFactor: 10, replicateGroup: 'U1' }, 3e-4);
-  for (let i = 1; i <= 9; i++) {
-    const vb = 0.4 * i;
-    const a0 = (5e-3 * (4 - vb)) / 10;
-    const b0 = (5e-3 * vb) / 10;
-    add(
-      {
-        sampleId: `J${i}`,
-        role: 'mixture',
-        stockAM: 5e-3,
-        volumeAMl: 4 - vb,
-        stockBM: 5e-3,
-        volumeBMl: vb,
-        totalVolumeMl: 10,
-      },
-      solveEquilibrium(850, a0, b0, model).productM,
-    );
-  }
-  for (const vb of [0.4, 0.8, 1.2, 1.6]) {
-    const a0 = (5e-3 * 0.4) / 10;
-    const b0 = (5e-2 * vb) / 10;
-    add(
-      {
-        sampleId: `X${vb}`,
-        role: 'mixture',
-        stockAM: 5e-3,
-        volumeAMl: 0.4,
-        stockBM: 5e-2,
-        volumeBMl: vb,
-        totalVolumeMl: 10,
-      },
-      solveEquilibrium(850, a0, b0, model).productM,
-    );
-  }
-  return { readings, samples };
-}
+import { makeBatch } from './batch-fixtures';
 
 describe('analyzeBatch', () => {
   const { readings, samples } = makeBatch();

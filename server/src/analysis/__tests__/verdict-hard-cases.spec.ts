@@ -3,77 +3,15 @@ import { BatchResult } from '../batch-types';
 import { solveEquilibrium } from '../equilibrium-solve';
 import { fitEquilibriumModel } from '../global-fit';
 import { formatK } from '../number-format';
-import { seededRandom } from '../random';
 import { parseStoichiometry } from '../stoichiometry-model';
 import { stoichiometryCrossChecks } from '../stoichiometry-cross-checks';
-import { Reading, SampleDefinition } from '../types';
+import { Design, jobSeries, moleRatioSeriesA, moleRatioSeriesB, simulate } from './batch-fixtures';
 import { readJson } from './reference-data';
 
 /** Job's maxima b/(a+b) for a complex A_aB_b (shared/reference/other_facts.json, a mathematical fact). */
 const jobMaxima = readJson<{ jobs_method_max_mole_fraction: { cases: Record<string, number> } }>(
   'other_facts.json',
 ).jobs_method_max_mole_fraction.cases;
-
-interface Design {
-  model: string;
-  k: number;
-  epsilon: number;
-  /** [A₀, B₀] per mixture, mol/L (stocks 1 mM, 10 mL flasks). */
-  mixtures: [number, number][];
-  noiseSd: number;
-  seed?: number;
-  standards?: boolean;
-}
-
-/** Invented batch: blanks, optional standards of the complex, and the given mixtures. */
-function simulate(d: Design): { readings: Reading[]; samples: SampleDefinition[] } {
-  const rng = seededRandom(d.seed ?? 3);
-  const model = parseStoichiometry(d.model);
-  const readings: Reading[] = [];
-  const samples: SampleDefinition[] = [];
-  let n = 0;
-  const add = (s: Omit<SampleDefinition, 'position'>, complexM: number): void => {
-    const position = `C${++n}`;
-    samples.push({ position, ...s });
-    readings.push({
-      position,
-      wavelengthNm: 500,
-      absorbance: 0.03 + d.epsilon * complexM + d.noiseSd * rng.normal(),
-    });
-  };
-  add({ sampleId: 'BLK', role: 'blank', replicateGroup: 'BLK' }, 0);
-  add({ sampleId: 'BLK', role: 'blank', replicateGroup: 'BLK' }, 0);
-  if (d.standards) {
-    for (const c of [2e-5, 5e-5, 1e-4, 1.5e-4, 2e-4, 2.5e-4])
-      add({ sampleId: `S${c}`, role: 'standard', concentrationM: c }, c);
-  }
-  const stock = 1e-3;
-  d.mixtures.forEach(([a0, b0], i) => {
-    add(
-      {
-        sampleId: `M${i + 1}`,
-        role: 'mixture',
-        stockAM: stock,
-        volumeAMl: (a0 / stock) * 10,
-        stockBM: stock,
-        volumeBMl: (b0 / stock) * 10,
-        totalVolumeMl: 10,
-      },
-      solveEquilibrium(d.k, a0, b0, model).productM,
-    );
-  });
-  return { readings, samples };
-}
-
-/** Continuous variation at A₀ + B₀ = 5×10⁻⁴ M, 11 points x_B = 0 … 1 (the ends hold one reactant only). */
-const jobSeries = (): [number, number][] =>
-  Array.from({ length: 11 }, (_, i) => [5e-4 * (1 - i / 10), 5e-4 * (i / 10)] as [number, number]);
-/** A held at 10⁻⁴ M, B rising to four-fold. */
-const moleRatioSeriesB = (): [number, number][] =>
-  [0.25, 0.5, 0.75, 1, 1.25, 1.5, 1.75, 2, 2.5, 3, 3.5, 4].map((r) => [1e-4, r * 1e-4] as [number, number]);
-/** B held at 10⁻⁴ M, A rising to four-fold. */
-const moleRatioSeriesA = (): [number, number][] =>
-  [0.25, 0.5, 0.75, 1, 1.25, 1.5, 1.75, 2, 2.5, 3, 3.5, 4].map((r) => [r * 1e-4, 1e-4] as [number, number]);
 
 const errors = (r: BatchResult): string[] => r.qc.filter((f) => f.severity === 'error').map((f) => f.message);
 const best = (r: BatchResult) => r.stoichiometry?.candidates.find((c) => c.model === r.stoichiometry?.best);
