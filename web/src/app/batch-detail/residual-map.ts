@@ -8,8 +8,7 @@ import {
   viewChild,
 } from '@angular/core';
 import { colourFor } from './colour-scale';
-import { formatNumber } from './number-format';
-import { type ResidualGrid, residualLegend } from './spectra-model';
+import { type ResidualGrid, nmText, residualLegend } from './spectra-model';
 
 /**
  * A heat grid of residuals, mixtures (rows, in the table's order) × wavelengths (columns): one canvas pixel
@@ -98,7 +97,7 @@ export class ResidualMap {
   protected readonly legend = computed(() => residualLegend(this.grid()));
   protected readonly ends = computed(() => {
     const w = this.grid().wavelengthsNm;
-    return { from: formatNumber(w[0], 4), to: formatNumber(w[w.length - 1], 4) };
+    return { from: nmText(w[0]), to: nmText(w[w.length - 1]) };
   });
 
   constructor() {

@@ -60,6 +60,11 @@ export function spectraSettings(base: AnalysisSettings, o: SpectraOptions): Spec
   };
 }
 
+/** A wavelength as the page writes it elsewhere: "450", "632.8" (no trailing zeros). */
+export function nmText(wavelengthNm: number): string {
+  return String(Number(wavelengthNm.toFixed(2)));
+}
+
 /** A colour per series along viridis, stopping short of its pale end (kept readable on white). */
 function seriesColour(i: number, n: number): string {
   return viridis(n <= 1 ? 0 : (0.85 * i) / (n - 1));
@@ -83,7 +88,7 @@ export function overlayChart(r: SpectralAnalysisResult): ScatterChartModel {
     xTitle: 'Wavelength (nm)',
     yTitle: 'Corrected absorbance (AU)',
     summary:
-      `Spectra of ${n} mixtures from ${formatNumber(lo, 4)} to ${formatNumber(hi, 4)} nm, blank-corrected; ` +
+      `Spectra of ${n} mixtures from ${nmText(lo)} to ${nmText(hi)} nm, blank-corrected; ` +
       `absorbance from ${formatNumber(Math.min(...all))} to ${formatNumber(Math.max(...all))}.`,
   };
 }
@@ -142,7 +147,7 @@ export function speciesChart(fit: SpectralFitResult, wavelengthsNm: readonly num
   });
   const peaks = fit.speciesSpectra.map((s) => {
     const j = s.epsilon.reduce((best, v, k) => (v > s.epsilon[best] ? k : best), 0);
-    return `${s.species} peaks at ${formatNumber(wavelengthsNm[j], 4)} nm (ε ${formatNumber(s.epsilon[j])})`;
+    return `${s.species} peaks at ${nmText(wavelengthsNm[j])} nm (ε ${formatNumber(s.epsilon[j])})`;
   });
   return {
     series,
@@ -181,7 +186,7 @@ export function residualGrid(r: SpectralAnalysisResult, fit: SpectralFitResult):
     summary:
       `Residuals (measured − fitted absorbance) of the ${fit.model} fit, ${rows.length} mixtures × ` +
       `${r.wavelengthsNm.length} wavelengths: residual SD ${formatNumber(fit.residualSd)}, largest ` +
-      `${formatNumber(maxAbs)} (${rows[worst.i] ?? DASH} at ${formatNumber(r.wavelengthsNm[worst.j], 4)} nm).`,
+      `${formatNumber(maxAbs)} (${rows[worst.i] ?? DASH} at ${nmText(r.wavelengthsNm[worst.j])} nm).`,
   };
 }
 

@@ -19,6 +19,7 @@ import {
   type SpectraOptions,
   candidateRows,
   hasSpectra,
+  nmText,
   overlayChart,
   residualGrid,
   screeChart,
@@ -148,7 +149,7 @@ export class SpectraPanel {
   });
   protected readonly range = computed(() => {
     const w = this.result()?.wavelengthsNm ?? [];
-    return w.length ? `${formatNumber(w[0], 4)}–${formatNumber(w[w.length - 1], 4)} nm` : '';
+    return w.length ? `${nmText(w[0])}–${nmText(w[w.length - 1])} nm` : '';
   });
 
   protected readonly statusDisplay = K_STATUS_DISPLAY;
