@@ -6,7 +6,12 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
-import type { AnalysisSettings, ReactantSpectrumSetting, Reading, SampleDefinition } from '@equilight/analysis';
+import type {
+  AnalysisSettings,
+  ReactantSpectrumSetting,
+  Reading,
+  SampleDefinition,
+} from '@equilight/analysis';
 import { debounceTime, map, of, scan, startWith, switchMap } from 'rxjs';
 import { K_STATUS_DISPLAY } from './equilibrium-panel';
 import { formatNumber } from './number-format';

@@ -46,8 +46,7 @@ export class WhatIfRunner {
       (id) => ({ id, readings, samples, saved, edits }),
       (r) => ('outcome' in r ? r.outcome : null),
       (error) => ({ result: null, error, elapsedMs: 0 }),
-      () =>
-        import('./what-if-compute').then(({ runWhatIf }) => runWhatIf(readings, samples, saved, edits)),
+      () => import('./what-if-compute').then(({ runWhatIf }) => runWhatIf(readings, samples, saved, edits)),
     );
   }
 
