@@ -1,11 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import {
-  SPECTRA_K,
-  SPECTRA_WAVELENGTHS,
-  spectraPlate,
-} from '../src/app/batch-detail/spectra-fixture';
+import { SPECTRA_K, SPECTRA_WAVELENGTHS, spectraPlate } from '../src/app/batch-detail/spectra-fixture';
 import { launchChromium } from './support/browser';
 import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
 
@@ -178,10 +174,7 @@ describe('a batch read as spectra shows its Spectra section with K from every wa
     await page.getByTestId('spectra-from').fill('450');
     await page.getByTestId('spectra-to').fill('560');
     await page.getByTestId('spectra-to').press('Enter');
-    await page
-      .getByTestId('spectra-k')
-      .getByText('23 wavelengths (450–560 nm)')
-      .waitFor({ timeout: 60_000 });
+    await page.getByTestId('spectra-k').getByText('23 wavelengths (450–560 nm)').waitFor({ timeout: 60_000 });
     await page.getByTestId('spectra-from').fill('');
     await page.getByTestId('spectra-to').fill('');
     await page.getByTestId('spectra-to').press('Enter');

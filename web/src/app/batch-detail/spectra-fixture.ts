@@ -1,6 +1,23 @@
 // Test helper: an invented titration read as spectra (an invented system: A and its 1:1 complex absorb,
 // B is transparent), for the Spectra section's tests. Not demo data.
-import type { Reading, SampleDefinition } from '@equilight/analysis';
+
+// Plain shapes (assignable to the analysis module's Reading and SampleDefinition) so that the browser test,
+// type-checked without the web app's path alias, can build its upload from the same plate.
+interface Reading {
+  position: string;
+  wavelengthNm: number;
+  absorbance: number;
+}
+interface SampleDefinition {
+  position: string;
+  sampleId: string;
+  role: 'blank' | 'mixture';
+  stockAM?: number;
+  volumeAMl?: number;
+  stockBM?: number;
+  volumeBMl?: number;
+  totalVolumeMl?: number;
+}
 
 /** The invented truth the tests recover. */
 export const SPECTRA_K = 2500; // L/mol, 1:1
