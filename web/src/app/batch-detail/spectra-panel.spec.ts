@@ -121,6 +121,24 @@ describe('Spectra panel (an invented titration read as spectra)', () => {
     expect(el.querySelector('[data-testid="spectra-candidates"]')).not.toBeNull();
   });
 
+  it('runs again when a what-if edit touches the fit (an exclusion), not for one that does not', async () => {
+    const fixture = await render(plate.readings, plate.samples, settings);
+    await analysed(fixture);
+    const runs = jest.spyOn(TestBed.inject(WhatIfRunner), 'runSpectra');
+    fixture.componentRef.setInput('settings', { ...settings, wavelengthNm: 510 });
+    await settle(SPECTRA_DEBOUNCE_MS * 2);
+    await fixture.whenStable();
+    expect(runs).not.toHaveBeenCalled();
+    fixture.componentRef.setInput('settings', {
+      ...settings,
+      exclusions: [{ position: 'A5', reason: 'bubble in the well' }],
+    });
+    await settle(SPECTRA_DEBOUNCE_MS * 2);
+    await fixture.whenStable();
+    expect(runs).toHaveBeenCalledTimes(1);
+    expect(runs.mock.calls[0][2].exclusions).toEqual([{ position: 'A5', reason: 'bubble in the well' }]);
+  });
+
   it('hides itself for a batch read at one wavelength', async () => {
     const one = plate.readings.filter((r) => r.wavelengthNm === 510);
     const fixture = await render(one, plate.samples, settings);

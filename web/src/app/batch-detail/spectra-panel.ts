@@ -12,7 +12,7 @@ import type {
   Reading,
   SampleDefinition,
 } from '@equilight/analysis';
-import { debounceTime, map, of, scan, startWith, switchMap } from 'rxjs';
+import { debounceTime, distinctUntilChanged, map, of, scan, startWith, switchMap } from 'rxjs';
 import { K_STATUS_DISPLAY } from './equilibrium-panel';
 import { formatNumber } from './number-format';
 import { ResidualMap } from './residual-map';
@@ -99,6 +99,13 @@ export class SpectraPanel {
   private readonly state = toSignal(
     toObservable(this.request).pipe(
       debounceTime(SPECTRA_DEBOUNCE_MS),
+      // What-if edits that do not touch the whole-spectrum fit (a single wavelength, ε) cost nothing.
+      distinctUntilChanged(
+        (a, b) =>
+          a?.readings === b?.readings &&
+          a?.samples === b?.samples &&
+          JSON.stringify(a?.settings) === JSON.stringify(b?.settings),
+      ),
       switchMap((r) =>
         r
           ? this.runner.runSpectra(r.readings, r.samples, r.settings).pipe(
