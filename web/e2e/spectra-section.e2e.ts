@@ -149,6 +149,10 @@ describe('a batch read as spectra shows its Spectra section with K from every wa
     page.on('worker', (w) => workers.push(w.url()));
     await page.goto(`${server.url}/batches/${batchId}`);
     await page.getByTestId('batch-name').waitFor();
+    // The scan is parsed on the server's worker after the upload's receipt: it lands live.
+    await page.getByTestId('file-count').getByText('1 of 1').waitFor({ timeout: 60_000 });
+    // The tabs render when scrolled to (deferred); the Spectra tab is there for a batch read as spectra.
+    await page.locator('.eq-bd__tabs').first().scrollIntoViewIfNeeded();
     await page.getByRole('tab', { name: 'Spectra' }).click();
     const k = page.getByTestId('spectra-k-text');
     await k.waitFor({ timeout: 60_000 });
