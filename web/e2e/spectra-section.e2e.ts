@@ -187,17 +187,28 @@ describe('a batch read as spectra shows its Spectra section with K from every wa
 
   it('has no serious accessibility faults and fits a laptop and a phone (screenshots)', async () => {
     expect(await axeSerious(page, '[data-testid="spectra-section"]')).toEqual([]);
-    const section = page.getByTestId('spectra-section');
-    await page.waitForTimeout(300);
-    await section.screenshot({ path: path.join(SCREENSHOT_DIR, 'spectra-section-1280x800.png') });
-    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'spectra-tab-1280x800.png') });
+    // The page scrolls inside the app's shell: each part is scrolled to the top and shot in the viewport.
+    const shoot = async (size: string) => {
+      for (const [part, selector] of [
+        ['top', '[data-testid="spectra-section"]'],
+        ['charts', '.eq-spectra__charts'],
+        ['species', '[data-testid="spectra-model"]'],
+        ['residuals', '[data-testid="residual-map"]'],
+      ]) {
+        await page
+          .locator(selector)
+          .first()
+          .evaluate((el) => el.scrollIntoView({ block: 'start' }));
+        await page.waitForTimeout(300);
+        await page.screenshot({ path: path.join(SCREENSHOT_DIR, `spectra-${part}-${size}.png`) });
+      }
+    };
+    await shoot('1280x800');
     await page.setViewportSize({ width: 390, height: 844 });
     await page.waitForTimeout(500);
-    // Nothing wider than the phone's screen but the scrollable table.
+    // Nothing wider than the phone's screen (the table scrolls in its own region).
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth);
     expect(overflow).toBeLessThanOrEqual(390);
-    await section.screenshot({ path: path.join(SCREENSHOT_DIR, 'spectra-section-390x844.png') });
-    await section.scrollIntoViewIfNeeded();
-    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'spectra-tab-390x844.png') });
+    await shoot('390x844');
   });
 });
