@@ -127,6 +127,11 @@ describe('a batch read as spectra shows its Spectra section with K from every wa
       },
     });
     expect(res.status()).toBe(202);
+    // The scan is parsed on the server's worker after the receipt: wait until it is stored.
+    for (let i = 0; i < 240; i++) {
+      if ((await scientist.call('GET', `/api/batches/${batchId}`))['fileCount'] === 1) break;
+      await new Promise((r) => setTimeout(r, 250));
+    }
     await scientist.ctx.close();
     await admin.ctx.close();
 
@@ -149,7 +154,6 @@ describe('a batch read as spectra shows its Spectra section with K from every wa
     page.on('worker', (w) => workers.push(w.url()));
     await page.goto(`${server.url}/batches/${batchId}`);
     await page.getByTestId('batch-name').waitFor();
-    // The scan is parsed on the server's worker after the upload's receipt: it lands live.
     await page.getByTestId('file-count').getByText('1 of 1').waitFor({ timeout: 60_000 });
     // The tabs render when scrolled to (deferred); the Spectra tab is there for a batch read as spectra.
     await page.locator('.eq-bd__tabs').first().scrollIntoViewIfNeeded();
