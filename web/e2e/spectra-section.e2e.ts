@@ -195,6 +195,7 @@ describe('a batch read as spectra shows its Spectra section with K from every wa
     const shoot = async (size: string) => {
       for (const [part, selector] of [
         ['top', '[data-testid="spectra-section"]'],
+        ['table', '[data-testid="spectra-candidates"]'],
         ['charts', '.eq-spectra__charts'],
         ['species', '[data-testid="spectra-model"]'],
         ['residuals', '[data-testid="residual-map"]'],
