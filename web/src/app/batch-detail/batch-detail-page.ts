@@ -36,6 +36,8 @@ import { EquilibriumPanel } from './equilibrium-panel';
 import { formatNumber, kUnitOf } from './number-format';
 import { PlateMap } from './plate-map';
 import { QcPanel } from './qc-panel';
+import { SpectraPanel } from './spectra-panel';
+import { hasSpectra } from './spectra-presence';
 import type { ReasonDialogData } from './reason-dialog';
 import { UnknownsTable } from './unknowns-table';
 import {
@@ -47,6 +49,7 @@ import {
   hasEdits,
   settingsPatch,
   wavelengthsOf,
+  whatIfSettings,
   withExclusion,
   withoutExclusion,
 } from './what-if';
@@ -85,6 +88,7 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
     UnknownsTable,
     EquilibriumPanel,
     QcPanel,
+    SpectraPanel,
     WhatIfPanel,
     ApprovalRecordPanel,
   ],
@@ -216,6 +220,13 @@ export class BatchDetailPage {
       .map((p) => ({ position: p.position, sampleId: p.sampleId, role: p.role })),
   );
   protected readonly wavelengths = computed(() => wavelengthsOf(this.data()?.readings ?? []));
+  /** A batch read as spectra (many wavelengths per position) gets the Spectra section. */
+  protected readonly spectra = computed(() => hasSpectra(this.data()?.readings ?? []));
+  /** The settings the Spectra section starts from: the saved ones with the what-if edits on top. */
+  protected readonly spectraBase = computed(() => {
+    const d = this.data();
+    return d ? whatIfSettings(d.settings, this.edits()) : null;
+  });
   protected readonly effective = computed(() => {
     const saved = this.batch()?.settings;
     const e = this.edits();

@@ -16,6 +16,12 @@ export interface ChartSeries {
   label: string;
   kind: 'points' | 'flagged' | 'line';
   points: XY[];
+  /** A colour of its own (e.g. one per spectrum); default by kind. */
+  colour?: string;
+  /** Drawn dashed and thin (a noise level, a ± SE bound). */
+  dashed?: boolean;
+  /** Left out of the legend (the second bound of a pair, one of many spectra). */
+  hideInLegend?: boolean;
 }
 
 export interface ScatterChartModel {
@@ -24,6 +30,8 @@ export interface ScatterChartModel {
   yTitle: string;
   /** One sentence describing the chart for a screen reader; the tables beside it carry the numbers. */
   summary: string;
+  /** Show the legend (default true). */
+  legend?: boolean;
 }
 
 /** Standards (flagged ones apart) and the fitted line A = S·c + b over the standards' range. */

@@ -24,7 +24,7 @@ const COLOURS: Record<ChartSeries['kind'], string> = {
 type ScatterDataset = ChartDataset<'scatter', { x: number; y: number }[]>;
 
 export function toDataset(s: ChartSeries): ScatterDataset {
-  const colour = COLOURS[s.kind];
+  const colour = s.colour ?? COLOURS[s.kind];
   return {
     label: s.label,
     data: s.points,
@@ -33,8 +33,8 @@ export function toDataset(s: ChartSeries): ScatterDataset {
     showLine: s.kind === 'line',
     pointRadius: s.kind === 'line' ? 0 : 5,
     pointStyle: s.kind === 'flagged' ? 'triangle' : 'circle',
-    borderWidth: 2,
-    borderDash: s.label === 'Zero' ? [4, 4] : undefined,
+    borderWidth: s.dashed ? 1 : 2,
+    borderDash: s.label === 'Zero' || s.dashed ? [4, 4] : undefined,
   };
 }
 
@@ -99,7 +99,15 @@ export class ScatterChart {
       animation: false,
       scales: { x: axis(this.model().xTitle), y: axis(this.model().yTitle) },
       plugins: {
-        legend: { labels: { color: ink, usePointStyle: true } },
+        legend: {
+          display: this.model().legend ?? true,
+          labels: {
+            color: ink,
+            usePointStyle: true,
+            filter: (item: { datasetIndex?: number }) =>
+              !this.model().series[item.datasetIndex ?? -1]?.hideInLegend,
+          },
+        },
         tooltip: { enabled: true },
       },
     };

@@ -4,7 +4,7 @@ import { firstValueFrom } from 'rxjs';
 import { FIXTURE_K, fixtureAnalysis } from './analysis-fixture';
 import { NO_EDITS, type WhatIfEdits, type WhatIfOutcome, withExclusion } from './what-if';
 import { runWhatIf } from './what-if-compute';
-import { type WhatIfRequest, type WhatIfResponse, answerWhatIf } from './what-if-protocol';
+import { type WhatIfRequest, type WorkerResponse, answerWhatIf } from './what-if-protocol';
 import { WHAT_IF_WORKER, WhatIfRunner } from './what-if-runner';
 import type { WhatIfWorker } from './what-if-worker';
 
@@ -31,10 +31,10 @@ function channel(answer: (request: WhatIfRequest, far: MessagePort) => void): Ch
   });
   const worker: WhatIfWorker = {
     postMessage: (message) => port1.postMessage(message),
-    set onmessage(handler: ((event: MessageEvent<WhatIfResponse>) => void) | null) {
+    set onmessage(handler: ((event: MessageEvent<WorkerResponse>) => void) | null) {
       port1.removeAllListeners('message');
       if (handler)
-        port1.on('message', (data: WhatIfResponse) => handler({ data } as MessageEvent<WhatIfResponse>));
+        port1.on('message', (data: WorkerResponse) => handler({ data } as MessageEvent<WorkerResponse>));
     },
     get onmessage() {
       return null;

@@ -1,7 +1,9 @@
 import { DestroyRef, Injectable, InjectionToken, inject } from '@angular/core';
-import type { AnalysisSettings, Reading, SampleDefinition } from '@equilight/analysis';
+import type { AnalysisSettings, Reading, SampleDefinition, SpectralSettings } from '@equilight/analysis';
 import { Observable } from 'rxjs';
+import type { SpectraOutcome } from './spectra-compute';
 import type { WhatIfEdits, WhatIfOutcome } from './what-if';
+import type { WorkerRequest, WorkerResponse } from './what-if-protocol';
 import { type WhatIfWorker, startWhatIfWorker } from './what-if-worker';
 
 /** Starts the what-if worker; null where the platform has none, and the analysis runs in-thread. */
@@ -10,16 +12,22 @@ export const WHAT_IF_WORKER = new InjectionToken<() => WhatIfWorker | null>('wha
   factory: () => startWhatIfWorker,
 });
 
+/** A request waiting for the worker: what to do with its answer, or with the worker's failure. */
+interface Waiting {
+  answer(response: WorkerResponse): void;
+  fail(error: string): void;
+}
+
 /**
- * Runs what-if analyses in a Web Worker, one worker per page, started on the first edit. An answer that
- * arrives after its caller unsubscribed (a newer edit) is dropped.
+ * Runs what-if and whole-spectrum analyses in a Web Worker, one worker per page, started on the first
+ * request. An answer that arrives after its caller unsubscribed (a newer edit) is dropped.
  */
 @Injectable()
 export class WhatIfRunner {
   private readonly startWorker = inject(WHAT_IF_WORKER);
   private worker: WhatIfWorker | null | undefined;
   private nextId = 1;
-  private readonly waiting = new Map<number, (outcome: WhatIfOutcome) => void>();
+  private readonly waiting = new Map<number, Waiting>();
 
   constructor() {
     inject(DestroyRef).onDestroy(() => {
@@ -34,20 +42,51 @@ export class WhatIfRunner {
     saved: AnalysisSettings,
     edits: WhatIfEdits,
   ): Observable<WhatIfOutcome> {
-    return new Observable<WhatIfOutcome>((subscriber) => {
+    return this.ask<WhatIfOutcome>(
+      (id) => ({ id, readings, samples, saved, edits }),
+      (r) => ('outcome' in r ? r.outcome : null),
+      (error) => ({ result: null, error, elapsedMs: 0 }),
+      () => import('./what-if-compute').then(({ runWhatIf }) => runWhatIf(readings, samples, saved, edits)),
+    );
+  }
+
+  /** The whole-spectrum analysis of the batch's readings with these settings, off the page's thread. */
+  runSpectra(
+    readings: readonly Reading[],
+    samples: readonly SampleDefinition[],
+    settings: SpectralSettings,
+  ): Observable<SpectraOutcome> {
+    return this.ask<SpectraOutcome>(
+      (id) => ({ kind: 'spectra', id, readings, samples, settings }),
+      (r) => ('spectra' in r ? r.spectra : null),
+      (error) => ({ result: null, error, elapsedMs: 0 }),
+      () => import('./spectra-compute').then(({ runSpectra }) => runSpectra(readings, samples, settings)),
+    );
+  }
+
+  private ask<T>(
+    request: (id: number) => WorkerRequest,
+    read: (response: WorkerResponse) => T | null,
+    failed: (error: string) => T,
+    inThread: () => Promise<T>,
+  ): Observable<T> {
+    return new Observable<T>((subscriber) => {
       const id = this.nextId++;
-      const done = (outcome: WhatIfOutcome) => {
-        subscriber.next(outcome);
+      const done = (value: T) => {
+        subscriber.next(value);
         subscriber.complete();
       };
       const worker = this.ensureWorker();
       if (worker) {
-        this.waiting.set(id, done);
-        worker.postMessage({ id, readings, samples, saved, edits });
+        this.waiting.set(id, {
+          answer: (response) => done(read(response) ?? failed('The worker answered another question.')),
+          fail: (error) => done(failed(error)),
+        });
+        worker.postMessage(request(id));
       } else {
         // No Worker here: the same analysis in this thread, loaded only when needed.
-        void import('./what-if-compute').then(({ runWhatIf }) => {
-          if (!subscriber.closed) done(runWhatIf(readings, samples, saved, edits));
+        void inThread().then((value) => {
+          if (!subscriber.closed) done(value);
         });
       }
       return () => this.waiting.delete(id);
@@ -59,18 +98,18 @@ export class WhatIfRunner {
     const worker = this.startWorker();
     if (worker) {
       worker.onmessage = ({ data }) => {
-        const done = this.waiting.get(data.id);
+        const waiting = this.waiting.get(data.id);
         this.waiting.delete(data.id);
-        done?.(data.outcome);
+        waiting?.answer(data);
       };
       worker.onerror = (event) => {
         const error = `The what-if analysis stopped: ${event.message || 'worker error'}`;
         const waiting = [...this.waiting.values()];
         this.waiting.clear();
-        // A broken worker is replaced on the next edit rather than left to swallow requests.
+        // A broken worker is replaced on the next request rather than left to swallow requests.
         worker.terminate?.();
         this.worker = undefined;
-        for (const done of waiting) done({ result: null, error, elapsedMs: 0 });
+        for (const w of waiting) w.fail(error);
       };
     }
     this.worker = worker;

@@ -1,9 +1,9 @@
-import type { WhatIfRequest, WhatIfResponse } from './what-if-protocol';
+import type { WorkerRequest, WorkerResponse } from './what-if-protocol';
 
 /** The part of a Worker the what-if runner uses (a MessagePort in tests). */
 export interface WhatIfWorker {
-  postMessage(message: WhatIfRequest): void;
-  onmessage: ((event: MessageEvent<WhatIfResponse>) => void) | null;
+  postMessage(message: WorkerRequest): void;
+  onmessage: ((event: MessageEvent<WorkerResponse>) => void) | null;
   onerror?: ((event: ErrorEvent) => void) | null;
   terminate?(): void;
 }

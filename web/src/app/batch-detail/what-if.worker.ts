@@ -1,7 +1,8 @@
 /// <reference lib="webworker" />
-import { type WhatIfRequest, answerWhatIf } from './what-if-protocol';
+import { type WorkerRequest, answerWorker } from './what-if-protocol';
 
-// The what-if analysis (fits, Monte Carlo draws) runs here, so the batch page stays responsive.
-addEventListener('message', ({ data }: MessageEvent<WhatIfRequest>) => {
-  postMessage(answerWhatIf(data));
+// The what-if analysis (fits, Monte Carlo draws) and the whole-spectrum analysis run here, so the batch
+// page stays responsive.
+addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
+  postMessage(answerWorker(data));
 });
