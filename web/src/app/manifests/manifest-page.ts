@@ -53,43 +53,25 @@ import {
   COLUMN_UNITS,
   MANIFEST_COLUMNS,
   type Manifest,
-  type ManifestCheck,
   type ManifestColumn,
-  type ManifestMismatch,
   type ManifestProblem,
   type ManifestRow,
   type SampleDefinition,
   emptyRow,
-  manifestRefusal,
   sampleToRow,
   templateCsv,
 } from './manifest';
 import { ManifestProblemList } from './manifest-problem-list';
+import {
+  type ManifestReview,
+  NOT_CHECKED,
+  changedReview,
+  checkedReview,
+  refusedReview,
+} from './manifest-review';
 import { type ManifestInput, ManifestsService } from './manifests.service';
 
 type RowGroup = FormGroup<Record<ManifestColumn, FormControl<string>>>;
-
-/** What the last check (or refused save) found, and whether the inputs changed since. */
-interface Review {
-  /** The last check's answer; its samples are shown on the map. */
-  result: ManifestCheck | null;
-  problems: ManifestProblem[];
-  mismatches: ManifestMismatch[];
-  /** Whether the problem list reflects a check at all. */
-  checked: boolean;
-  stale: boolean;
-  /** The server refused only for mismatches with the layout: offer to save accepting them. */
-  offerAccept: boolean;
-}
-
-const NOT_CHECKED: Review = {
-  result: null,
-  problems: [],
-  mismatches: [],
-  checked: false,
-  stale: false,
-  offerAccept: false,
-};
 
 /** The mapped view: each layout position with its role and group, labelled with the manifest's sample id. */
 export function mapOntoLayout(
@@ -172,7 +154,7 @@ export class ManifestPage {
   protected readonly manifest = signal<Manifest | null>(null);
   /** An older version shown read-only, or null for the current one. */
   protected readonly viewed = signal<Manifest | null>(null);
-  private readonly review = signal<Review>(NOT_CHECKED);
+  private readonly review = signal<ManifestReview>(NOT_CHECKED);
   /** Older versions asked for; null for the current one. A later request replaces one still running. */
   private readonly versionRequests = new Subject<{ id: number; version: number } | null>();
 
@@ -253,10 +235,7 @@ export class ManifestPage {
   }
 
   private markChanged(): void {
-    const r = this.review();
-    if (r.offerAccept || (r.checked && !r.stale)) {
-      this.review.set({ ...r, stale: r.stale || r.checked, offerAccept: false });
-    }
+    this.review.update(changedReview);
   }
 
   // ---- the typed table ----
@@ -365,14 +344,7 @@ export class ManifestPage {
     this.manifests.check(input).subscribe({
       next: (result) => {
         this.busy.set(false);
-        this.review.set({
-          result,
-          problems: result.problems,
-          mismatches: result.mismatches,
-          checked: true,
-          stale: false,
-          offerAccept: false,
-        });
+        this.review.set(checkedReview(result));
       },
       error: (err: unknown) => {
         this.busy.set(false);
@@ -413,21 +385,7 @@ export class ManifestPage {
 
   private showRefusal(err: unknown): void {
     this.error.set(apiErrorMessage(err));
-    const refusal = manifestRefusal(err);
-    if (refusal?.code === 'invalid_manifest') {
-      const { problems, mismatches } = refusal;
-      this.review.update((r) => ({ ...r, problems, mismatches, checked: true, stale: false }));
-    } else if (refusal?.code === 'manifest_mismatch') {
-      const { mismatches } = refusal;
-      this.review.update((r) => ({
-        ...r,
-        problems: [],
-        mismatches,
-        checked: true,
-        stale: false,
-        offerAccept: true,
-      }));
-    }
+    this.review.update((review) => refusedReview(review, err));
   }
 
   // ---- versions ----
