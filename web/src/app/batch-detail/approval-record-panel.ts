@@ -3,7 +3,7 @@ import { ChangeDetectionStrategy, Component, computed, input } from '@angular/co
 import { MatIconModule } from '@angular/material/icon';
 import type { BatchResultSummary } from '../batches/batch';
 import type { ApprovalRecord, EngineCheck } from './batch-analysis';
-import { formatNumber, kUnitOf } from './number-format';
+import { formatNumber, kUnitOf } from '../shared/format/number-format';
 
 /**
  * "K (1:1) = 612 L·mol⁻¹ (95 % CI 590 to 635)" — the K text every screen and report uses — or what stands

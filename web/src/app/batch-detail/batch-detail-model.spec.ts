@@ -1,7 +1,12 @@
-import { VIRIDIS_CONTROL_POINTS, relativeLuminance, textColourOn, viridis } from './colour-scale';
+import {
+  VIRIDIS_CONTROL_POINTS,
+  relativeLuminance,
+  textColourOn,
+  viridis,
+} from '../shared/chart/colour-scale';
 import { fixtureBatch } from './analysis-fixture';
-import { formatNumber, kUnit } from './number-format';
-import { QC_GUIDANCE } from './qc-guidance';
+import { formatNumber, kUnit } from '../shared/format/number-format';
+import { QC_GUIDANCE } from '../shared/qc/qc-guidance';
 import {
   NO_EDITS,
   describeEdits,

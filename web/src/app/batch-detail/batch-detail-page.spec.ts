@@ -15,8 +15,8 @@ import { WhatIfPanel } from './what-if-panel';
 import { BatchDetailPage, LIVE_REFRESH_DEBOUNCE_MS, WHAT_IF_DEBOUNCE_MS } from './batch-detail-page';
 import { CalibrationPanel } from './calibration-panel';
 import { EquilibriumPanel } from './equilibrium-panel';
-import { ScatterChart } from './scatter-chart';
-import { ScatterChartStub } from './scatter-chart-stub';
+import { ScatterChart } from '../shared/chart/scatter-chart';
+import { ScatterChartStub } from '../shared/chart/scatter-chart-stub';
 
 const ANALYSIS_URL = '/api/batches/7/analysis?engineCheck=true';
 const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));

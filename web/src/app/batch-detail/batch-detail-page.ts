@@ -24,7 +24,7 @@ import {
   switchMap,
 } from 'rxjs';
 import type { PlateFormat } from '../batches/batch';
-import { BatchStateLabel } from '../batches/batch-state-label';
+import { BatchStateLabel } from '../shared/batch-state/batch-state-label';
 import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
@@ -33,7 +33,7 @@ import { ApprovalRecordPanel } from './approval-record-panel';
 import { BatchDetailService } from './batch-detail.service';
 import { CalibrationPanel } from './calibration-panel';
 import { EquilibriumPanel } from './equilibrium-panel';
-import { formatNumber, kUnitOf } from './number-format';
+import { formatNumber, kUnitOf } from '../shared/format/number-format';
 import { PlateMap } from './plate-map';
 import { QcPanel } from './qc-panel';
 import { SpectraPanel } from './spectra-panel';

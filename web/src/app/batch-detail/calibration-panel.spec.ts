@@ -3,9 +3,9 @@ import { calibrate, type CalibrationResult } from '@equilight/analysis';
 import { fixtureAnalysis } from './analysis-fixture';
 import { curvedCalibrationAnalysis } from './analysis-variants-fixture';
 import { CalibrationPanel } from './calibration-panel';
-import { EPSILON_UNIT, formatNumber, formatQuantity } from './number-format';
-import { ScatterChart } from './scatter-chart';
-import { ScatterChartStub } from './scatter-chart-stub';
+import { EPSILON_UNIT, formatNumber, formatQuantity } from '../shared/format/number-format';
+import { ScatterChart } from '../shared/chart/scatter-chart';
+import { ScatterChartStub } from '../shared/chart/scatter-chart-stub';
 
 const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();
 

@@ -1,15 +1,15 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import type { CalibrationResult } from '@equilight/analysis';
 import { MatIconModule } from '@angular/material/icon';
-import { calibrationChart, residualChart } from './chart-data';
+import { calibrationChart, residualChart } from '../shared/chart/chart-data';
 import {
   EPSILON_UNIT,
   formatAbsorbance,
   formatNumber,
   formatQuantity,
   significantDigits,
-} from './number-format';
-import { ScatterChart } from './scatter-chart';
+} from '../shared/format/number-format';
+import { ScatterChart } from '../shared/chart/scatter-chart';
 
 /** Beer–Lambert calibration: the statistics, the line and residual plots, and the standards as a table. */
 @Component({

@@ -7,11 +7,11 @@ import {
   notConvergedAnalysis,
   poorlyDeterminedAnalysis,
 } from './analysis-variants-fixture';
-import { moleRatioChart } from './chart-data';
+import { moleRatioChart } from '../shared/chart/chart-data';
 import { EquilibriumPanel } from './equilibrium-panel';
-import { EPSILON_UNIT, formatKValue, formatNumber } from './number-format';
-import { ScatterChart } from './scatter-chart';
-import { ScatterChartStub } from './scatter-chart-stub';
+import { EPSILON_UNIT, formatKValue, formatNumber } from '../shared/format/number-format';
+import { ScatterChart } from '../shared/chart/scatter-chart';
+import { ScatterChartStub } from '../shared/chart/scatter-chart-stub';
 
 const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();
 

@@ -12,7 +12,7 @@ import {
   type KStatus,
   type MixtureResult,
 } from '@equilight/analysis';
-import { jobChart, moleRatioChart } from './chart-data';
+import { jobChart, moleRatioChart } from '../shared/chart/chart-data';
 import {
   DASH,
   EPSILON_UNIT,
@@ -24,8 +24,8 @@ import {
   formatQuantity,
   kUnitOf,
   significantDigits,
-} from './number-format';
-import { ScatterChart } from './scatter-chart';
+} from '../shared/format/number-format';
+import { ScatterChart } from '../shared/chart/scatter-chart';
 
 export interface IceTable {
   mixture: MixtureResult;

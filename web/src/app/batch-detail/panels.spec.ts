@@ -2,12 +2,12 @@ import { TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { fixtureAnalysis } from './analysis-fixture';
 import { CalibrationPanel } from './calibration-panel';
-import { calibrationChart, jobChart, residualChart } from './chart-data';
+import { calibrationChart, jobChart, residualChart } from '../shared/chart/chart-data';
 import { EquilibriumPanel } from './equilibrium-panel';
-import { formatKValue, formatNumber } from './number-format';
+import { formatKValue, formatNumber } from '../shared/format/number-format';
 import { QcPanel } from './qc-panel';
-import { ScatterChart } from './scatter-chart';
-import { ScatterChartStub } from './scatter-chart-stub';
+import { ScatterChart } from '../shared/chart/scatter-chart';
+import { ScatterChartStub } from '../shared/chart/scatter-chart-stub';
 import { UnknownsTable } from './unknowns-table';
 
 const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();

@@ -1,7 +1,7 @@
 import type { PositionResult, PositionStatus, QcFlag, SampleRole } from '@equilight/analysis';
 import type { PlateFormat } from '../batches/batch';
-import { type ScaleRange, colourFor, scaleRange, textColourOn } from './colour-scale';
-import { formatAbsorbance } from './number-format';
+import { type ScaleRange, colourFor, scaleRange, textColourOn } from '../shared/chart/colour-scale';
+import { formatAbsorbance } from '../shared/format/number-format';
 
 export const ROLE_LETTERS: Record<SampleRole, string> = {
   blank: 'B',

@@ -10,8 +10,8 @@ import {
 } from '@angular/core';
 import type { PositionResult, QcFlag } from '@equilight/analysis';
 import type { PlateFormat } from '../batches/batch';
-import { VIRIDIS_NAME, legendGradient } from './colour-scale';
-import { formatAbsorbance } from './number-format';
+import { VIRIDIS_NAME, legendGradient } from '../shared/chart/colour-scale';
+import { formatAbsorbance } from '../shared/format/number-format';
 import {
   type CellMarker,
   MARKERS,

@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { QcFlag } from '@equilight/analysis';
-import { SEVERITY_DISPLAY, guidanceFor } from './qc-guidance';
+import { SEVERITY_DISPLAY, guidanceFor } from '../shared/qc/qc-guidance';
 
 /** Every QC flag, worst first, with what it means and what to do; severity as icon and word. */
 @Component({

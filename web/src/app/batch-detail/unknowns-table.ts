@@ -1,8 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { UnknownResult } from '@equilight/analysis';
-import { formatAbsorbance, formatNumber } from './number-format';
-import { guidanceFor } from './qc-guidance';
+import { formatAbsorbance, formatNumber } from '../shared/format/number-format';
+import { guidanceFor } from '../shared/qc/qc-guidance';
 
 /** Concentrations of the unknowns (and controls) read from the calibration, with SE and QC marks. */
 @Component({

@@ -17,7 +17,7 @@ import { MatSelectModule } from '@angular/material/select';
 import type { Exclusion } from '@equilight/analysis';
 import { CANDIDATE_STOICHIOMETRIES } from '../batches/batch';
 import type { EpsilonCandidate } from './batch-analysis';
-import { formatNumber } from './number-format';
+import { formatNumber } from '../shared/format/number-format';
 import { REASON_MIN_LENGTH } from './reason-dialog';
 
 export interface ExclusionRow extends Exclusion {

@@ -8,7 +8,7 @@ import { auditTime, catchError, filter, merge, of, startWith, switchMap } from '
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { LiveEventsService } from '../core/live/live-events.service';
 import type { Batch } from './batch';
-import { BatchStateLabel } from './batch-state-label';
+import { BatchStateLabel } from '../shared/batch-state/batch-state-label';
 import { BATCHES_LIVE_DEBOUNCE_MS } from './batches-page';
 import { BatchesService } from './batches.service';
 

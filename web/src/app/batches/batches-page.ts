@@ -15,8 +15,8 @@ import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { LiveEventsService } from '../core/live/live-events.service';
 import { BATCH_STATE_DISPLAY, type Batch } from './batch';
-import { BatchStateLabel } from './batch-state-label';
-import { summaryK } from './summary-k';
+import { BatchStateLabel } from '../shared/batch-state/batch-state-label';
+import { summaryK } from '../shared/format/summary-k';
 import { BatchesService } from './batches.service';
 
 /** Quiet time after the last live event before the list is fetched again; a burst costs one request. */

@@ -1,13 +1,5 @@
 import { DatePipe } from '@angular/common';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  type OnInit,
-  effect,
-  inject,
-  signal,
-  viewChild,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, type OnInit, inject, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -16,10 +8,13 @@ import { MatInputModule } from '@angular/material/input';
 import { MatMenuModule } from '@angular/material/menu';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSort, MatSortModule } from '@angular/material/sort';
-import { MatTableDataSource, MatTableModule } from '@angular/material/table';
+import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { filter, switchMap } from 'rxjs';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
+import { LoadState } from '../shared/page/load-state';
+import { PageHeader } from '../shared/page/page-header';
+import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { ConfirmDialog, type ConfirmDialogData } from './confirm-dialog';
 import {
   FILE_FORMAT_LABELS,
@@ -44,6 +39,7 @@ import { TokenDialog, type TokenDialogData } from './token-dialog';
     MatIconModule,
     MatMenuModule,
     MatTooltipModule,
+    PageHeader,
   ],
   templateUrl: './instruments-page.html',
   styleUrl: './instruments-page.scss',
@@ -64,10 +60,9 @@ export class InstrumentsPage implements OnInit {
     'active',
     'actions',
   ];
-  protected readonly dataSource = new MatTableDataSource<InstrumentProfile>([]);
-  protected readonly loading = signal(true);
-  protected readonly error = signal<string | null>(null);
   private readonly sort = viewChild(MatSort);
+  protected readonly dataSource = sortedDataSource<InstrumentProfile>(this.sort);
+  protected readonly state = new LoadState();
 
   constructor() {
     this.dataSource.filterPredicate = (p, text) =>
@@ -101,10 +96,6 @@ export class InstrumentsPage implements OnInit {
           return p.name.toLowerCase();
       }
     };
-    effect(() => {
-      const sort = this.sort();
-      if (sort) this.dataSource.sort = sort;
-    });
   }
 
   ngOnInit(): void {
@@ -112,18 +103,7 @@ export class InstrumentsPage implements OnInit {
   }
 
   protected load(): void {
-    this.loading.set(true);
-    this.instruments.list().subscribe({
-      next: (profiles) => {
-        this.dataSource.data = profiles;
-        this.error.set(null);
-        this.loading.set(false);
-      },
-      error: (err: unknown) => {
-        this.error.set(apiErrorMessage(err));
-        this.loading.set(false);
-      },
-    });
+    this.state.load(this.instruments.list(), (profiles) => (this.dataSource.data = profiles));
   }
 
   protected kindLabel(p: InstrumentProfile): string {

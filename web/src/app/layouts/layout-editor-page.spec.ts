@@ -217,6 +217,70 @@ describe('LayoutEditorPage', () => {
     expect(label('D4')).toBe('D4, empty');
   });
 
+  describe('the last request wins', () => {
+    const OTHER: Layout = {
+      ...SAVED,
+      id: 8,
+      name: 'Job series plate',
+      positions: [{ position: 'H12', role: 'blank' }],
+    };
+
+    it('shows the layout of the last id when the answer for an earlier id comes late', async () => {
+      const { fixture, el, http, label } = await setup({ id: '7' });
+      fixture.componentRef.setInput('id', '9');
+      await fixture.whenStable();
+      const earlier = http.expectOne('/api/layouts/9');
+      fixture.componentRef.setInput('id', '8');
+      await fixture.whenStable();
+      const later = http.expectOne('/api/layouts/8');
+
+      later.flush(OTHER);
+      await fixture.whenStable();
+      // The earlier request was given up when the later id came: its answer has nowhere to land.
+      expect(earlier.cancelled).toBe(true);
+      expect(() => earlier.flush({ ...SAVED, id: 9, name: 'Stale plate' })).toThrow(/cancelled/);
+      await fixture.whenStable();
+
+      expect(el.querySelector('h1')!.textContent).toContain('Job series plate');
+      expect(el.querySelector<HTMLInputElement>('[data-testid="layout-name"]')!.value).toBe(
+        'Job series plate',
+      );
+      expect(label('H12')).toBe('H12, blank');
+      expect(label('A1')).toBe('A1, empty');
+      expect(el.textContent).not.toContain('Loading…');
+    });
+
+    it('shows the version asked for last when an earlier version answers late', async () => {
+      const { fixture, el, http } = await setup({ id: '7' });
+      const SAVED3 = {
+        ...SAVED,
+        currentVersion: 3,
+        version: 3,
+        versions: [...SAVED.versions, { version: 3, createdAt: '2025-03-03T08:00:00.000Z', createdById: 2 }],
+      };
+      fixture.componentRef.setInput('id', '70');
+      await fixture.whenStable();
+      http.expectOne('/api/layouts/70').flush({ ...SAVED3, id: 70 });
+      await fixture.whenStable();
+      const view = (version: number) =>
+        [...el.querySelectorAll<HTMLElement>('[data-testid="layout-versions"] li')]
+          .find((li) => li.textContent!.includes(`v${version}`))!
+          .querySelector('button')!
+          .click();
+
+      view(1);
+      const v1 = http.expectOne('/api/layouts/70/versions/1');
+      view(2);
+      const v2 = http.expectOne('/api/layouts/70/versions/2');
+      v2.flush({ ...SAVED3, id: 70, version: 2 });
+      expect(v1.cancelled).toBe(true);
+      await fixture.whenStable();
+      expect(el.querySelector('[data-testid="viewing-version"]')!.textContent).toContain(
+        'Viewing version 2 of 3',
+      );
+    });
+  });
+
   it('is read-only for scientists: no role buttons and no save', async () => {
     const { el, click, label } = await setup({ role: 'scientist', id: '7' });
     expect(el.querySelector('[data-testid="assign-blank"]')).toBeNull();

@@ -1,15 +1,5 @@
-import { DatePipe } from '@angular/common';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  effect,
-  inject,
-  input,
-  signal,
-  untracked,
-} from '@angular/core';
-import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
@@ -17,8 +7,8 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { Router, RouterLink } from '@angular/router';
-import { startWith } from 'rxjs';
+import { Router } from '@angular/router';
+import { EMPTY, Subject, catchError, finalize, of, startWith, switchMap } from 'rxjs';
 import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { PlateGrid } from '../shared/plate-grid/plate-grid';
@@ -33,7 +23,9 @@ import {
   comparePositions,
   plateGeometry,
 } from '../shared/plate-grid/plate-geometry';
+import { PageHeader } from '../shared/page/page-header';
 import { PlateLegend } from '../shared/plate-grid/plate-legend';
+import { VersionHistory } from '../shared/version-history/version-history';
 import type { Layout, LayoutPosition } from './layout';
 import { LayoutsService } from './layouts.service';
 
@@ -64,10 +56,10 @@ export function cellsToPositions(cells: Readonly<Record<string, PlateCell>>): La
     MatButtonModule,
     MatButtonToggleModule,
     MatIconModule,
-    RouterLink,
-    DatePipe,
     PlateGrid,
     PlateLegend,
+    PageHeader,
+    VersionHistory,
   ],
   templateUrl: './layout-editor-page.html',
   styleUrl: './layout-editor-page.scss',
@@ -137,38 +129,52 @@ export class LayoutEditorPage {
   protected readonly usedCount = computed(
     () => Object.values(this.shownCells()).filter((cell) => cell.role).length,
   );
-  protected readonly versions = computed(() => [...(this.layout()?.versions ?? [])].reverse());
+  /** Older versions asked for; null for the working copy. A later request replaces one still running. */
+  private readonly versionRequests = new Subject<{ id: number; version: number } | null>();
 
   constructor() {
-    effect(() => {
-      const id = this.layoutId();
-      untracked(() => {
-        if (id !== null) this.load(id);
-      });
-    });
+    // The layout of the route's id; a later id replaces a request still running, so the last one wins.
+    toObservable(this.layoutId)
+      .pipe(
+        switchMap((id) => (id === null ? EMPTY : this.fetch(id))),
+        takeUntilDestroyed(),
+      )
+      .subscribe((layout) => this.applyLayout(layout));
+    this.versionRequests
+      .pipe(
+        switchMap((request) =>
+          request === null
+            ? of(null)
+            : this.layouts.get(request.id, request.version).pipe(
+                catchError((err: unknown) => {
+                  this.error.set(apiErrorMessage(err));
+                  return EMPTY;
+                }),
+              ),
+        ),
+        takeUntilDestroyed(),
+      )
+      .subscribe((older) => this.viewed.set(older));
     // A smaller plate or a shorter sequence drops the positions it no longer has.
     this.form.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.dropPositionsOffThePlate());
     if (!this.canEdit) this.form.disable();
   }
 
-  private load(id: number): void {
+  private fetch(id: number) {
     this.loading.set(true);
-    this.layouts.get(id).subscribe({
-      next: (layout) => {
-        this.applyLayout(layout);
-        this.loading.set(false);
-      },
-      error: (err: unknown) => {
+    return this.layouts.get(id).pipe(
+      catchError((err: unknown) => {
         this.error.set(apiErrorMessage(err));
-        this.loading.set(false);
-      },
-    });
+        return EMPTY;
+      }),
+      finalize(() => this.loading.set(false)),
+    );
   }
 
   private applyLayout(layout: Layout): void {
     this.applying = true;
     this.layout.set(layout);
-    this.viewed.set(null);
+    this.versionRequests.next(null);
     this.cells.set(positionsToCells(layout.positions));
     this.form.patchValue({
       name: layout.name,
@@ -228,14 +234,7 @@ export class LayoutEditorPage {
   protected viewVersion(version: number): void {
     const layout = this.layout();
     if (!layout) return;
-    if (version === layout.currentVersion) {
-      this.viewed.set(null);
-      return;
-    }
-    this.layouts.get(layout.id, version).subscribe({
-      next: (older) => this.viewed.set(older),
-      error: (err: unknown) => this.error.set(apiErrorMessage(err)),
-    });
+    this.versionRequests.next(version === layout.currentVersion ? null : { id: layout.id, version });
   }
 
   /** Takes the older version's positions into the working copy, to be saved as a new version. */
@@ -243,7 +242,7 @@ export class LayoutEditorPage {
     const viewed = this.viewed();
     if (!viewed) return;
     this.cells.set(positionsToCells(viewed.positions));
-    this.viewed.set(null);
+    this.versionRequests.next(null);
     this.dirty.set(true);
     this.status.set(`Started from version ${viewed.version}; save to make it the current version.`);
   }

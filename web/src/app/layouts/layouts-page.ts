@@ -1,20 +1,14 @@
 import { DatePipe } from '@angular/common';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  type OnInit,
-  effect,
-  inject,
-  signal,
-  viewChild,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, type OnInit, inject, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSort, MatSortModule } from '@angular/material/sort';
-import { MatTableDataSource, MatTableModule } from '@angular/material/table';
+import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { AuthService } from '../core/auth/auth.service';
-import { apiErrorMessage } from '../core/http/auth.interceptor';
+import { LoadState } from '../shared/page/load-state';
+import { PageHeader } from '../shared/page/page-header';
+import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { FORMAT_LABELS, ROLE_INFO, SAMPLE_ROLES } from '../shared/plate-grid/plate-geometry';
 import type { LayoutSummary } from './layout';
 import { LayoutsService } from './layouts.service';
@@ -22,7 +16,7 @@ import { LayoutsService } from './layouts.service';
 /** Every layout, its format, what it holds and its current version. */
 @Component({
   selector: 'eq-layouts-page',
-  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe],
+  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
   templateUrl: './layouts-page.html',
   styleUrl: './layouts-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -32,29 +26,12 @@ export class LayoutsPage implements OnInit {
   protected readonly canEdit = inject(AuthService).hasRole('admin', 'lab_manager');
 
   protected readonly columns = ['name', 'format', 'positionCount', 'roles', 'currentVersion', 'updatedAt'];
-  protected readonly dataSource = new MatTableDataSource<LayoutSummary>([]);
-  protected readonly loading = signal(true);
-  protected readonly error = signal<string | null>(null);
   private readonly sort = viewChild(MatSort);
-
-  constructor() {
-    effect(() => {
-      const sort = this.sort();
-      if (sort) this.dataSource.sort = sort;
-    });
-  }
+  protected readonly dataSource = sortedDataSource<LayoutSummary>(this.sort);
+  protected readonly state = new LoadState();
 
   ngOnInit(): void {
-    this.layouts.list().subscribe({
-      next: (rows) => {
-        this.dataSource.data = rows;
-        this.loading.set(false);
-      },
-      error: (err: unknown) => {
-        this.error.set(apiErrorMessage(err));
-        this.loading.set(false);
-      },
-    });
+    this.state.load(this.layouts.list(), (rows) => (this.dataSource.data = rows));
   }
 
   protected formatLabel(layout: LayoutSummary): string {

@@ -302,6 +302,88 @@ describe('ManifestPage', () => {
     await fixture.whenStable();
     expect(el.querySelector('h1')!.textContent).toContain('v2');
   });
+
+  describe('the last request wins', () => {
+    const OTHER: Manifest = {
+      ...SAVED,
+      id: 10,
+      name: 'Azo run 13',
+      samples: [{ position: 'A1', sampleId: 'BLK-9', role: 'blank' }],
+    };
+
+    it('shows the manifest of the last id when the answer for an earlier id comes late', async () => {
+      const { fixture, el, http } = await setup({ id: '9' });
+      fixture.componentRef.setInput('id', '11');
+      await fixture.whenStable();
+      const earlier = http.expectOne('/api/manifests/11');
+      fixture.componentRef.setInput('id', '10');
+      await fixture.whenStable();
+      const later = http.expectOne('/api/manifests/10');
+
+      later.flush(OTHER);
+      await fixture.whenStable();
+      // The earlier request was given up when the later id came: its answer has nowhere to land.
+      expect(earlier.cancelled).toBe(true);
+      expect(() => earlier.flush({ ...SAVED, id: 11, name: 'Stale run' })).toThrow(/cancelled/);
+      await fixture.whenStable();
+
+      expect(el.querySelector('h1')!.textContent).toContain('Azo run 13');
+      expect(el.querySelector<HTMLInputElement>('[data-testid="manifest-name"]')!.value).toBe('Azo run 13');
+      expect((el.querySelector('#mf-0-sample_id') as HTMLInputElement).value).toBe('BLK-9');
+      expect(el.querySelector('#mf-1-sample_id')).toBeNull();
+    });
+
+    it('maps onto the layout chosen last when an earlier choice answers late', async () => {
+      const { fixture, page, el, http } = await setup();
+      const form = page['form'];
+      form.controls.layoutId.setValue(5);
+      await fixture.whenStable();
+      const earlier = http.expectOne('/api/layouts/5');
+      form.controls.layoutId.setValue(6);
+      await fixture.whenStable();
+      const later = http.expectOne('/api/layouts/6');
+
+      later.flush({ ...LAYOUT, id: 6, name: 'Job series plate' });
+      expect(earlier.cancelled).toBe(true);
+      await fixture.whenStable();
+      expect(el.querySelector('#mapped-heading')!.textContent).toContain('Job series plate');
+    });
+
+    it('shows the version asked for last when an earlier version answers late', async () => {
+      const { fixture, el, http } = await setup({ id: '9' });
+      fixture.componentRef.setInput('id', '12');
+      await fixture.whenStable();
+      http.expectOne('/api/manifests/12').flush({
+        ...SAVED,
+        id: 12,
+        currentVersion: 3,
+        version: 3,
+        versions: [1, 2, 3].map((version) => ({
+          version,
+          createdAt: `2025-03-0${version}T08:00:00.000Z`,
+          createdById: 2,
+          source: 'form',
+        })),
+      });
+      await fixture.whenStable();
+      const view = (version: number) =>
+        [...el.querySelectorAll<HTMLElement>('[data-testid="manifest-versions"] li')]
+          .find((li) => li.textContent!.includes(`v${version}`))!
+          .querySelector('button')!
+          .click();
+
+      view(1);
+      const v1 = http.expectOne('/api/manifests/12/versions/1');
+      view(2);
+      const v2 = http.expectOne('/api/manifests/12/versions/2');
+      v2.flush({ ...SAVED, id: 12, currentVersion: 3, version: 2 });
+      expect(v1.cancelled).toBe(true);
+      await fixture.whenStable();
+      expect(el.querySelector('[data-testid="viewing-version"]')!.textContent).toContain(
+        'Viewing version 2 of 3',
+      );
+    });
+  });
 });
 
 describe('templateCsv', () => {

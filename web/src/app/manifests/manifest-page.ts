@@ -1,16 +1,14 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import {
   ChangeDetectionStrategy,
   Component,
   ElementRef,
   computed,
-  effect,
   inject,
   input,
   signal,
-  untracked,
 } from '@angular/core';
-import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import {
   FormArray,
   FormBuilder,
@@ -26,12 +24,22 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { Router, RouterLink } from '@angular/router';
-import { startWith } from 'rxjs';
+import { Router } from '@angular/router';
+import {
+  EMPTY,
+  type Observable,
+  Subject,
+  catchError,
+  distinctUntilChanged,
+  of,
+  startWith,
+  switchMap,
+} from 'rxjs';
 import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
-import type { Layout, LayoutSummary } from '../layouts/layout';
+import type { Layout } from '../layouts/layout';
 import { LayoutsService } from '../layouts/layouts.service';
+import { PageHeader } from '../shared/page/page-header';
 import { PlateGrid } from '../shared/plate-grid/plate-grid';
 import {
   FORMAT_LABELS,
@@ -40,22 +48,27 @@ import {
   comparePositions,
 } from '../shared/plate-grid/plate-geometry';
 import { PlateLegend } from '../shared/plate-grid/plate-legend';
+import { VersionHistory } from '../shared/version-history/version-history';
 import {
   COLUMN_UNITS,
   MANIFEST_COLUMNS,
   type Manifest,
-  type ManifestCheck,
   type ManifestColumn,
-  type ManifestMismatch,
   type ManifestProblem,
   type ManifestRow,
   type SampleDefinition,
   emptyRow,
-  manifestRefusal,
   sampleToRow,
   templateCsv,
 } from './manifest';
 import { ManifestProblemList } from './manifest-problem-list';
+import {
+  type ManifestReview,
+  NOT_CHECKED,
+  changedReview,
+  checkedReview,
+  refusedReview,
+} from './manifest-review';
 import { type ManifestInput, ManifestsService } from './manifests.service';
 
 type RowGroup = FormGroup<Record<ManifestColumn, FormControl<string>>>;
@@ -85,12 +98,12 @@ export function mapOntoLayout(
     MatButtonModule,
     MatButtonToggleModule,
     MatIconModule,
-    RouterLink,
-    DatePipe,
     DecimalPipe,
     PlateGrid,
     PlateLegend,
     ManifestProblemList,
+    PageHeader,
+    VersionHistory,
   ],
   templateUrl: './manifest-page.html',
   styleUrl: './manifest-page.scss',
@@ -133,22 +146,34 @@ export class ManifestPage {
     { requireSync: true },
   );
 
-  protected readonly layoutList = signal<LayoutSummary[]>([]);
-  protected readonly layout = signal<Layout | null>(null);
-  protected readonly manifest = signal<Manifest | null>(null);
-  protected readonly viewed = signal<Manifest | null>(null);
+  protected readonly error = signal<string | null>(null);
+  protected readonly busy = signal(false);
   protected readonly file = signal<File | null>(null);
   protected readonly rowCount = signal(0);
+  /** The manifest of the route's id, or the one just saved. */
+  protected readonly manifest = signal<Manifest | null>(null);
+  /** An older version shown read-only, or null for the current one. */
+  protected readonly viewed = signal<Manifest | null>(null);
+  private readonly review = signal<ManifestReview>(NOT_CHECKED);
+  /** Older versions asked for; null for the current one. A later request replaces one still running. */
+  private readonly versionRequests = new Subject<{ id: number; version: number } | null>();
 
-  protected readonly result = signal<ManifestCheck | null>(null);
-  protected readonly problems = signal<ManifestProblem[]>([]);
-  protected readonly mismatches = signal<ManifestMismatch[]>([]);
-  /** Whether the problem list reflects the current inputs. */
-  protected readonly checked = signal(false);
-  protected readonly stale = signal(false);
-  protected readonly offerAccept = signal(false);
-  protected readonly busy = signal(false);
-  protected readonly error = signal<string | null>(null);
+  protected readonly layoutList = toSignal(this.orError(this.layoutsApi.list()), { initialValue: [] });
+  /** The chosen layout; choosing another replaces a request still running, so the last choice wins. */
+  protected readonly layout = toSignal(
+    toObservable(this.layoutIdValue).pipe(
+      distinctUntilChanged(),
+      switchMap((id) => (id ? this.orError(this.layoutsApi.get(id)) : of(null))),
+    ),
+    { initialValue: null },
+  );
+
+  protected readonly result = computed(() => this.review().result);
+  protected readonly problems = computed(() => this.review().problems);
+  protected readonly mismatches = computed(() => this.review().mismatches);
+  protected readonly checked = computed(() => this.review().checked);
+  protected readonly stale = computed(() => this.review().stale);
+  protected readonly offerAccept = computed(() => this.review().offerAccept);
 
   protected readonly readonly = computed(() => !this.canEdit || this.viewed() !== null);
   protected readonly shownSamples = computed(
@@ -160,7 +185,6 @@ export class ManifestPage {
   protected readonly sortedSamples = computed(() =>
     [...(this.viewed()?.samples ?? [])].sort((a, b) => comparePositions(a.position, b.position)),
   );
-  protected readonly versions = computed(() => [...(this.manifest()?.versions ?? [])].reverse());
   protected readonly layoutName = computed(
     () => this.layoutList().find((l) => l.id === this.layoutIdValue())?.name ?? '',
   );
@@ -170,65 +194,48 @@ export class ManifestPage {
   });
 
   constructor() {
-    this.layoutsApi
-      .list()
-      .pipe(takeUntilDestroyed())
-      .subscribe({
-        next: (list) => this.layoutList.set(list),
-        error: (err: unknown) => this.error.set(apiErrorMessage(err)),
-      });
-    effect(() => {
-      const id = this.manifestId();
-      untracked(() => {
-        if (id !== null) this.load(id);
-      });
-    });
-    effect(() => {
-      const layoutId = this.layoutIdValue();
-      untracked(() => this.loadLayout(layoutId));
-    });
+    // The manifest of the route's id; a later id replaces a request still running, so the last one wins.
+    toObservable(this.manifestId)
+      .pipe(
+        switchMap((id) => (id === null ? EMPTY : this.orError(this.manifests.get(id)))),
+        takeUntilDestroyed(),
+      )
+      .subscribe((m) => this.applyManifest(m));
+    this.versionRequests
+      .pipe(
+        switchMap((request) =>
+          request === null ? of(null) : this.orError(this.manifests.get(request.id, request.version)),
+        ),
+        takeUntilDestroyed(),
+      )
+      .subscribe((older) => this.viewed.set(older));
     this.form.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.markChanged());
     this.rows.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.markChanged());
     if (!this.canEdit) this.form.disable();
   }
 
-  private load(id: number): void {
-    this.manifests.get(id).subscribe({
-      next: (m) => this.applyManifest(m),
-      error: (err: unknown) => this.error.set(apiErrorMessage(err)),
-    });
+  /** A failed request shows its message and answers nothing, keeping what is on screen. */
+  private orError<T>(request: Observable<T>): Observable<T> {
+    return request.pipe(
+      catchError((err: unknown) => {
+        this.error.set(apiErrorMessage(err));
+        return EMPTY;
+      }),
+    );
   }
 
   private applyManifest(m: Manifest): void {
     this.manifest.set(m);
-    this.viewed.set(null);
+    this.versionRequests.next(null);
     this.form.patchValue({ name: m.name, layoutId: m.layoutId, source: 'form', reason: '' });
     this.form.controls.name.disable();
     this.setRows(m.samples.map(sampleToRow));
     this.file.set(null);
-    this.result.set(null);
-    this.problems.set([]);
-    this.mismatches.set([]);
-    this.checked.set(false);
-    this.stale.set(false);
-    this.offerAccept.set(false);
-  }
-
-  private loadLayout(layoutId: number): void {
-    if (!layoutId) {
-      this.layout.set(null);
-      return;
-    }
-    if (this.layout()?.id === layoutId) return;
-    this.layoutsApi.get(layoutId).subscribe({
-      next: (layout) => this.layout.set(layout),
-      error: (err: unknown) => this.error.set(apiErrorMessage(err)),
-    });
+    this.review.set(NOT_CHECKED);
   }
 
   private markChanged(): void {
-    if (this.checked()) this.stale.set(true);
-    this.offerAccept.set(false);
+    this.review.update(changedReview);
   }
 
   // ---- the typed table ----
@@ -337,12 +344,7 @@ export class ManifestPage {
     this.manifests.check(input).subscribe({
       next: (result) => {
         this.busy.set(false);
-        this.result.set(result);
-        this.problems.set(result.problems);
-        this.mismatches.set(result.mismatches);
-        this.checked.set(true);
-        this.stale.set(false);
-        this.offerAccept.set(false);
+        this.review.set(checkedReview(result));
       },
       error: (err: unknown) => {
         this.busy.set(false);
@@ -383,19 +385,7 @@ export class ManifestPage {
 
   private showRefusal(err: unknown): void {
     this.error.set(apiErrorMessage(err));
-    const refusal = manifestRefusal(err);
-    if (refusal?.code === 'invalid_manifest') {
-      this.problems.set(refusal.problems);
-      this.mismatches.set(refusal.mismatches);
-      this.checked.set(true);
-      this.stale.set(false);
-    } else if (refusal?.code === 'manifest_mismatch') {
-      this.problems.set([]);
-      this.mismatches.set(refusal.mismatches);
-      this.checked.set(true);
-      this.stale.set(false);
-      this.offerAccept.set(true);
-    }
+    this.review.update((review) => refusedReview(review, err));
   }
 
   // ---- versions ----
@@ -403,13 +393,6 @@ export class ManifestPage {
   protected viewVersion(version: number): void {
     const m = this.manifest();
     if (!m) return;
-    if (version === m.currentVersion) {
-      this.viewed.set(null);
-      return;
-    }
-    this.manifests.get(m.id, version).subscribe({
-      next: (older) => this.viewed.set(older),
-      error: (err: unknown) => this.error.set(apiErrorMessage(err)),
-    });
+    this.versionRequests.next(version === m.currentVersion ? null : { id: m.id, version });
   }
 }

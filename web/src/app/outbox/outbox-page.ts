@@ -6,13 +6,22 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatPaginatorModule, type PageEvent } from '@angular/material/paginator';
 import { MatTableModule } from '@angular/material/table';
 import { MatTabsModule } from '@angular/material/tabs';
-import { apiErrorMessage } from '../core/http/auth.interceptor';
+import { LoadState } from '../shared/page/load-state';
+import { PageHeader } from '../shared/page/page-header';
 import { type OutboxMessage, OutboxService } from './outbox.service';
 
 /** Admins: every mail the local SMTP stand-in received, newest first, and one message in full. */
 @Component({
   selector: 'eq-outbox-page',
-  imports: [DatePipe, MatTableModule, MatPaginatorModule, MatTabsModule, MatButtonModule, MatIconModule],
+  imports: [
+    DatePipe,
+    MatTableModule,
+    MatPaginatorModule,
+    MatTabsModule,
+    MatButtonModule,
+    MatIconModule,
+    PageHeader,
+  ],
   templateUrl: './outbox-page.html',
   styleUrl: './outbox-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -26,8 +35,7 @@ export class OutboxPage implements OnInit {
   protected readonly pageIndex = signal(0);
   protected readonly pageSize = signal(25);
   protected readonly selected = signal<OutboxMessage | null>(null);
-  protected readonly loading = signal(true);
-  protected readonly error = signal<string | null>(null);
+  protected readonly state = new LoadState();
   /** The server runs no stand-in: there is nothing to show. */
   protected readonly noStandIn = signal(false);
 
@@ -36,23 +44,21 @@ export class OutboxPage implements OnInit {
   }
 
   protected load(): void {
-    this.loading.set(true);
-    this.outbox.list(this.pageIndex(), this.pageSize()).subscribe({
-      next: (page) => {
+    this.state.load(
+      this.outbox.list(this.pageIndex(), this.pageSize()),
+      (page) => {
         this.messages.set(page.items);
         this.total.set(page.total);
         const selected = this.selected();
         if (selected) this.selected.set(page.items.find((m) => m.id === selected.id) ?? selected);
-        this.error.set(null);
         this.noStandIn.set(false);
-        this.loading.set(false);
       },
-      error: (err: unknown) => {
-        if (err instanceof HttpErrorResponse && err.status === 404) this.noStandIn.set(true);
-        else this.error.set(apiErrorMessage(err));
-        this.loading.set(false);
+      (err) => {
+        const missing = err instanceof HttpErrorResponse && err.status === 404;
+        if (missing) this.noStandIn.set(true);
+        return missing;
       },
-    });
+    );
   }
 
   protected page(event: PageEvent): void {

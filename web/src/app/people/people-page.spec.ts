@@ -56,4 +56,21 @@ describe('PeoplePage', () => {
     await fixture.whenStable();
     expect(rows(el)[0]).toContain('Mika Manager');
   });
+
+  it('lists what the last reload answered when an earlier reload answers late', async () => {
+    const { fixture, el } = await setup();
+    const http = TestBed.inject(HttpTestingController);
+    const reload = () => (fixture.componentInstance as unknown as { load(): void }).load();
+    reload();
+    const earlier = http.expectOne('/api/users');
+    reload();
+    const later = http.expectOne('/api/users');
+    later.flush(PEOPLE.slice(0, 2));
+    // The earlier request was given up when the later one started: its answer has nowhere to land.
+    expect(earlier.cancelled).toBe(true);
+    expect(() => earlier.flush(PEOPLE)).toThrow(/cancelled/);
+    await fixture.whenStable();
+    expect(rows(el)).toHaveLength(2);
+    expect(rows(el).join('\n')).not.toContain('Fay Former');
+  });
 });

@@ -1,12 +1,4 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  type OnInit,
-  effect,
-  inject,
-  signal,
-  viewChild,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, type OnInit, inject, signal, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatChipsModule } from '@angular/material/chips';
 import { MatDialog } from '@angular/material/dialog';
@@ -15,9 +7,11 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSort, MatSortModule } from '@angular/material/sort';
-import { MatTableDataSource, MatTableModule } from '@angular/material/table';
+import { MatTableModule } from '@angular/material/table';
 import { ROLE_LABELS, type User } from '../core/auth/user';
-import { apiErrorMessage } from '../core/http/auth.interceptor';
+import { LoadState } from '../shared/page/load-state';
+import { PageHeader } from '../shared/page/page-header';
+import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { PeopleService } from './people.service';
 import { PersonDialog, type PersonDialogData, type PersonDialogResult } from './person-dialog';
 
@@ -32,6 +26,7 @@ import { PersonDialog, type PersonDialogData, type PersonDialogResult } from './
     MatButtonModule,
     MatIconModule,
     MatChipsModule,
+    PageHeader,
   ],
   templateUrl: './people-page.html',
   styleUrl: './people-page.scss',
@@ -43,21 +38,16 @@ export class PeoplePage implements OnInit {
   private readonly snackBar = inject(MatSnackBar);
 
   protected readonly columns = ['displayName', 'email', 'role', 'active', 'actions'];
-  protected readonly dataSource = new MatTableDataSource<User>([]);
-  protected readonly loading = signal(true);
-  protected readonly error = signal<string | null>(null);
-  protected readonly inviteLink = signal<string | null>(null);
   private readonly sort = viewChild(MatSort);
+  protected readonly dataSource = sortedDataSource<User>(this.sort);
+  protected readonly state = new LoadState();
+  protected readonly inviteLink = signal<string | null>(null);
 
   constructor() {
     this.dataSource.filterPredicate = (user, filter) =>
       `${user.displayName} ${user.email} ${ROLE_LABELS[user.role]} ${user.active ? 'active' : 'deactivated'}`
         .toLowerCase()
         .includes(filter);
-    effect(() => {
-      const sort = this.sort();
-      if (sort) this.dataSource.sort = sort;
-    });
   }
 
   ngOnInit(): void {
@@ -65,18 +55,7 @@ export class PeoplePage implements OnInit {
   }
 
   protected load(): void {
-    this.loading.set(true);
-    this.people.list().subscribe({
-      next: (users) => {
-        this.dataSource.data = users;
-        this.error.set(null);
-        this.loading.set(false);
-      },
-      error: (err: unknown) => {
-        this.error.set(apiErrorMessage(err));
-        this.loading.set(false);
-      },
-    });
+    this.state.load(this.people.list(), (users) => (this.dataSource.data = users));
   }
 
   protected roleLabel(user: User): string {

@@ -1,4 +1,4 @@
-import type { ScatterChartModel } from '../batch-detail/chart-data';
+import type { ScatterChartModel } from '../shared/chart/chart-data';
 
 /** GET /api/temperatures: one chemical system's K across batches and its van 't Hoff fit. */
 export interface TemperaturePoint {

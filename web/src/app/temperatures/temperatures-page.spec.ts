@@ -4,8 +4,8 @@ import { TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { provideRouter } from '@angular/router';
 import { formatK, vantHoff } from '@equilight/analysis';
-import { ScatterChart } from '../batch-detail/scatter-chart';
-import { ScatterChartStub } from '../batch-detail/scatter-chart-stub';
+import { ScatterChart } from '../shared/chart/scatter-chart';
+import { ScatterChartStub } from '../shared/chart/scatter-chart-stub';
 import { type SystemTemperatures, inverseKelvin, vantHoffChart } from './temperature-system';
 import { TemperaturesPage } from './temperatures-page';
 

@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import { BATCH_STATE_DISPLAY, type BatchState } from './batch';
+import { BATCH_STATE_DISPLAY, type BatchState } from '../../batches/batch';
 
 /** A batch state as icon and word. */
 @Component({

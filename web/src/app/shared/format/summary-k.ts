@@ -1,5 +1,5 @@
-import { DASH, formatKValue, kUnitOf } from '../batch-detail/number-format';
-import type { BatchResultSummary } from './batch';
+import { DASH, formatKValue, kUnitOf } from './number-format';
+import type { BatchResultSummary } from '../../batches/batch';
 
 /** The K of a batch for a list cell, and its full statement for a tooltip or screen reader. */
 export interface SummaryK {

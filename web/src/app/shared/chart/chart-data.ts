@@ -4,7 +4,7 @@ import type {
   MixtureResult,
   MoleRatioBatchResult,
 } from '@equilight/analysis';
-import { formatNumber } from './number-format';
+import { formatNumber } from '../format/number-format';
 
 /** A point of a scatter chart; `flagged` points are drawn as triangles (shape, not colour alone). */
 export interface XY {
