@@ -7,7 +7,7 @@ import {
   input,
   viewChild,
 } from '@angular/core';
-import { colourFor } from './colour-scale';
+import { colourFor } from '../shared/chart/colour-scale';
 import { type ResidualGrid, nmText, residualLegend } from './spectra-model';
 
 /**

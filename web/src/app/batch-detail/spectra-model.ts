@@ -7,9 +7,9 @@ import type {
   SpectralFitResult,
   SpectralSettings,
 } from '@equilight/analysis';
-import type { ChartSeries, ScatterChartModel } from './chart-data';
-import { type ScaleRange, VIRIDIS_CONTROL_POINTS, viridis } from './colour-scale';
-import { DASH, EPSILON_UNIT, formatK, formatNumber } from './number-format';
+import type { ChartSeries, ScatterChartModel } from '../shared/chart/chart-data';
+import { type ScaleRange, VIRIDIS_CONTROL_POINTS, viridis } from '../shared/chart/colour-scale';
+import { DASH, EPSILON_UNIT, formatK, formatNumber } from '../shared/format/number-format';
 
 export { MIN_SPECTRUM_WAVELENGTHS, hasSpectra } from './spectra-presence';
 

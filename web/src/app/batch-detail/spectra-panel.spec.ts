@@ -1,8 +1,8 @@
 import { TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import type { AnalysisSettings, Reading, SampleDefinition } from '@equilight/analysis';
-import { ScatterChart } from './scatter-chart';
-import { ScatterChartStub } from './scatter-chart-stub';
+import { ScatterChart } from '../shared/chart/scatter-chart';
+import { ScatterChartStub } from '../shared/chart/scatter-chart-stub';
 import { SPECTRA_K, spectraPlate } from './spectra-fixture';
 import { SPECTRA_DEBOUNCE_MS, SpectraPanel } from './spectra-panel';
 import { WHAT_IF_WORKER, WhatIfRunner } from './what-if-runner';

@@ -14,9 +14,9 @@ import type {
 } from '@equilight/analysis';
 import { debounceTime, distinctUntilChanged, map, of, scan, startWith, switchMap } from 'rxjs';
 import { K_STATUS_DISPLAY } from './equilibrium-panel';
-import { formatNumber } from './number-format';
+import { formatNumber } from '../shared/format/number-format';
 import { ResidualMap } from './residual-map';
-import { ScatterChart } from './scatter-chart';
+import { ScatterChart } from '../shared/chart/scatter-chart';
 import type { SpectraOutcome } from './spectra-compute';
 import {
   DEFAULT_SPECTRA_OPTIONS,
