@@ -4,7 +4,7 @@ import { analyzeBatch } from '../../analysis';
 import type { AnalysisEngine } from '../../analysis-engine/analysis-engine';
 import { readEngineVersion } from '../../analysis-engine/engine-version';
 import { type EquilightApp, createApp } from '../../app';
-import { extractPdfText } from '../../reports/pdf-text';
+import { extractPdfText } from '../../testing/pdf-text';
 import { type AnalysedBatch, createAnalysedBatch } from '../../reports/__tests__/analysed-batch';
 import { signedInAgent, startTestApp, type TestApp } from '../../testing/test-app';
 

@@ -1,5 +1,5 @@
 import { createAnalysedBatch, type AnalysedBatch } from '../../reports/__tests__/analysed-batch';
-import { extractPdfText } from '../../reports/pdf-text';
+import { extractPdfText } from '../../testing/pdf-text';
 import { startTestApp, type TestApp } from '../../testing/test-app';
 
 const SYSTEM = 'Ferric thiocyanate (invented demo)';
