@@ -97,6 +97,11 @@ const col = (
 ): ReportColumn => ({ key, header, width, ...more });
 const right = { align: 'right' as const };
 
+/** The positions a finding names (a replicate group's finding names all of them, space-separated). */
+function positionsOf(f: QcFlag): string[] {
+  return f.position ? f.position.split(/[\s,;]+/).filter(Boolean) : [];
+}
+
 /** The QC findings that concern one row: its sample id or one of its positions. */
 export function ownFindings(
   qc: readonly QcFlag[],
@@ -105,8 +110,7 @@ export function ownFindings(
 ): QcFlag[] {
   return qc.filter(
     (f) =>
-      (sampleId !== null && f.sampleId === sampleId) ||
-      (f.position !== null && positions.includes(f.position)),
+      (sampleId !== null && f.sampleId === sampleId) || positionsOf(f).some((p) => positions.includes(p)),
   );
 }
 
@@ -286,7 +290,7 @@ function positionsSection(a: BatchAnalysisDto): ReportSection {
           num(p.pathLengthCm, 6),
           text(p.status),
           text(p.exclusionReason),
-          findingsCell(qc.filter((f) => f.position === p.position).map((f) => f.code)),
+          findingsCell(ownFindings(qc, null, [p.position]).map((f) => f.code)),
         ]),
       },
     ],
@@ -453,7 +457,7 @@ function iceSection(a: BatchAnalysisDto): ReportSection {
     notes: r.mixtures.length
       ? [
           {
-            text: 'Initial, change, equilibrium for aA + bB ⇌ AₐB_b: [A] = A₀ − a·x, [B] = B₀ − b·x, K = x/([A]^a·[B]^b), with x = A/(ε·l) the complex measured. A candidate is impossible for a mixture where a reactant would go to zero or below.',
+            text: 'Initial, change, equilibrium for a A + b B forming the complex (a:b): x = A/(ε·l) is the complex measured, [A] = A₀ − a·x, [B] = B₀ − b·x, K = x/([A]^a·[B]^b). A candidate is impossible for a mixture where a reactant would go to zero or below.',
             style: 'muted',
             in: PDF,
           },
@@ -515,7 +519,7 @@ function jobSection(a: BatchAnalysisDto): ReportSection {
     title: "Job's method",
     details: [],
     figures: [{ kind: 'job', job, mixtures: a.result.mixtures.filter((m) => members.has(m.sampleId)) }],
-    notes: [{ text: job.message }],
+    notes: [{ text: job.message.charAt(0).toUpperCase() + job.message.slice(1) }],
     tables: [
       {
         title: "Job's method",
@@ -594,7 +598,7 @@ function stoichiometrySection(a: BatchAnalysisDto): ReportSection {
           col('K', 'K (global fit)', 56, right),
           col('K_unit', 'Unit', 30, { in: SHEETS }),
           col('K_se', 'SE of K', 0, { in: SHEETS }),
-          col('K_ci', '95 % CI', 100, { in: PDF, ...right }),
+          col('K_ci', '95 % CI', 90, { in: PDF, ...right }),
           col('K_ci95_low', '95 % CI low', 0, { in: SHEETS }),
           col('K_ci95_high', '95 % CI high', 0, { in: SHEETS }),
           col('K_lower_bound_95', '95 % lower bound', 0, { in: SHEETS }),
@@ -604,9 +608,9 @@ function stoichiometrySection(a: BatchAnalysisDto): ReportSection {
           col('AIC', 'AIC', 44, right),
           col('delta_AIC', 'ΔAIC', 36, right),
           col('akaike_weight', 'Weight', 38, right),
-          col('unit', 'Unit', 30, { in: PDF }),
+          col('unit', 'Unit', 46, { in: PDF }),
           col('ruled_out', 'Ruled out', 0, { in: SHEETS }),
-          col('reason', 'Note', 120),
+          col('reason', 'Note', 110),
         ],
         rows: (r.stoichiometry?.candidates ?? []).map((c) => {
           const fit = c.fit;
@@ -632,7 +636,9 @@ function stoichiometrySection(a: BatchAnalysisDto): ReportSection {
             { text: fit ? (fit.epsilonFixed ? 'yes' : 'no') : DASH, value: fit?.epsilonFixed ?? null },
             decimals(fit?.aic, 3, 2),
             decimals(c.deltaAic, 3, 2),
-            num(c.akaikeWeight, 3, 2),
+            c.akaikeWeight !== null && c.akaikeWeight < 0.001
+              ? { text: '< 0.001', value: roundSignificant(c.akaikeWeight, 3) }
+              : num(c.akaikeWeight, 3, 2),
             text(kUnitOf(c.model)),
             { text: c.ruledOut ? 'yes' : 'no', value: c.ruledOut },
             { text: c.ruledOut ? `ruled out: ${c.reason}` : c.reason, value: c.reason },

@@ -124,11 +124,16 @@ describe('batch reports', () => {
         engine_version: t.services.batches.engineVersion,
       });
       // A reader told that # starts a comment sees only the tables.
-      const tables = parse(res.text, { bom: true, comment: '#', relax_column_count: true }) as string[][];
+      const tables = parse(res.text, {
+        bom: true,
+        comment: '#',
+        relax_column_count: true,
+        skip_empty_lines: true,
+      }) as string[][];
       expect(tables[0]).toEqual(['Positions']);
     });
 
-    it('when the results are exported then numbers carry their significance, AIC is named one way and each sample has its own QC', async () => {
+    it('when the results are exported then numbers carry their significance and AIC is named one way', async () => {
       const res = await (
         await t.agent('scientist')
       ).get(`/api/batches/${batch.batchId}/export.csv?content=results`);
@@ -137,32 +142,55 @@ describe('batch reports', () => {
       for (const row of rows)
         for (const cell of row) {
           if (cell === '' || Number.isNaN(Number(cell)) || /^(true|false)$/.test(cell)) continue;
-          const mantissa = cell.replace(/^-/, '').replace(/e.*$/, '').replace('.', '').replace(/^0+/, '');
-          expect(mantissa.length).toBeLessThanOrEqual(6);
+          // Significant digits: no sign, exponent or leading zeros; an integer's trailing zeros only place it.
+          let mantissa = cell.replace(/^-/, '').replace(/e.*$/, '');
+          if (!mantissa.includes('.')) mantissa = mantissa.replace(/0+$/, '');
+          mantissa = mantissa.replace('.', '').replace(/^0+/, '');
+          expect(`${cell}: ${mantissa.length}`).toBe(`${cell}: ${Math.min(mantissa.length, 6)}`);
         }
       const header = rows.find((r) => r[0] === 'model' && r.includes('K_unit'))!;
       expect(header).toEqual(expect.arrayContaining(['AIC', 'delta_AIC', 'akaike_weight']));
       expect(header.filter((h) => /aic/i.test(h))).toEqual(['AIC', 'delta_AIC']);
-      // Per-sample QC: every finding that names a sample or position shows in that sample's row.
-      const unknownsHeader = rows.find((r) => r[0] === 'sample_id' && r.includes('concentration_M'))!;
-      const mixturesHeader = rows.find((r) => r[0] === 'sample_id' && r.includes('mole_fraction_b'))!;
-      const flagsOf = (sampleId: string): string[] => {
-        const row = rows.find(
-          (r) =>
-            r[0] === sampleId && (r.length === unknownsHeader.length || r.length === mixturesHeader.length),
+    });
+
+    it("when samples have QC findings then each sample's row and each position's row lists its own", async () => {
+      const scientist = await t.agent('scientist');
+      const url = `/api/batches/${batch.batchId}/export.csv?content=results`;
+      // A replicate CV limit no duplicate meets: every unknown's pair is flagged.
+      const strict = await scientist
+        .put(`/api/batches/${batch.batchId}/settings`)
+        .send({ settings: { replicateCvMax: 0.00001 }, reason: 'test: flag every replicate group' });
+      expect(strict.status).toBe(200);
+      try {
+        const flagged = await t.services.batches.analysis(batch.batchId);
+        const rows = parse((await scientist.get(url)).text, {
+          bom: true,
+          comment: '#',
+          relax_column_count: true,
+        }) as string[][];
+        const unknownsHeader = rows.find((r) => r[0] === 'sample_id' && r.includes('concentration_M'))!;
+        const positionsHeader = rows.find((r) => r[0] === 'position' && r.includes('qc'))!;
+        const unknownRow = (id: string) =>
+          rows.find((r) => r[0] === id && r[1] === 'unknown' && r.length === unknownsHeader.length)!;
+        const positionRow = (p: string) =>
+          rows.find((r) => r[0] === p && r.length === positionsHeader.length)!;
+        const own = flagged.result.qc.filter(
+          (f) =>
+            f.code === 'replicate-cv-high' && flagged.result.unknowns.some((u) => u.sampleId === f.sampleId),
         );
-        const h = row?.length === unknownsHeader.length ? unknownsHeader : mixturesHeader;
-        return row ? row[h.indexOf('flags')].split(' ').filter(Boolean) : [];
-      };
-      const own = analysis.result.qc.filter((f) => f.sampleId !== null);
-      expect(own.length).toBeGreaterThan(0);
-      for (const f of own)
-        if (
-          [...analysis.result.unknowns, ...analysis.result.controls, ...analysis.result.mixtures].some(
-            (u) => u.sampleId === f.sampleId,
-          )
-        )
-          expect(flagsOf(f.sampleId!)).toContain(f.code);
+        expect(own.length).toBe(flagged.result.unknowns.length);
+        for (const f of own) {
+          expect(unknownRow(f.sampleId!)[unknownsHeader.indexOf('flags')].split(' ')).toContain(f.code);
+          for (const p of f.position!.split(' '))
+            expect(positionRow(p)[positionsHeader.indexOf('qc')].split(' ')).toContain(f.code);
+        }
+        // A sample without findings keeps an empty cell.
+        expect(positionRow('C3')[positionsHeader.indexOf('qc')]).toBe('');
+      } finally {
+        await scientist
+          .put(`/api/batches/${batch.batchId}/settings`)
+          .send({ settings: { replicateCvMax: 0.05 }, reason: 'test: back to the default limit' });
+      }
     });
 
     it('when a person typed a formula into an exclusion reason then the exported cell is defused', async () => {
@@ -293,7 +321,7 @@ describe('batch reports', () => {
         expect(pdf.toString('latin1')).toMatch(/NotoSans/);
       }
       expect((await request(t.app).get(`/api/batches/${batch.batchId}/report.pdf`)).status).toBe(401);
-    });
+    }, 30_000);
 
     it('when the batch is not approved yet then the report says so, and has the ICE tables, the Job plot and QC in words', async () => {
       const report = await t.services.batches.analysis(batch.batchId);
@@ -314,7 +342,7 @@ describe('batch reports', () => {
       for (const f of report.result.qc) expect(text).toContain(guidanceFor(f.code).title);
       // Codes are said in words, not shown bare.
       for (const f of report.result.qc) expect(text).not.toContain(f.code);
-    });
+    }, 30_000);
 
     it('when the batch has been reviewed and approved then the trail and the approval are in the report', async () => {
       const scientist = await t.agent('scientist');
@@ -342,6 +370,6 @@ describe('batch reports', () => {
       expect(text).toContain('open -> reviewed');
       expect(text).toContain('ε ± SE');
       expect(text).toMatch(/C1 B/); // the layout map labels cuvettes with their role
-    });
+    }, 30_000);
   });
 });

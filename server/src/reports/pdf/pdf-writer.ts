@@ -97,9 +97,17 @@ export class ReportWriter {
     return this.doc.font(`${weight}-latin`).fontSize(size).heightOfString(value, { width });
   }
 
-  /** Width of one line of text (in the Latin font of that weight). */
+  private readonly widths = new Map<string, number>();
+
+  /** Width of one line of text as `text()` draws it (measured once per text, size and weight). */
   widthOf(value: string, size = 9, weight: Weight = 'regular'): number {
-    return this.lineWidth(this.runs(value, weight), size);
+    const key = `${weight}|${size}|${value}`;
+    let width = this.widths.get(key);
+    if (width === undefined) {
+      width = this.lineWidth(this.runs(value, weight), size);
+      this.widths.set(key, width);
+    }
+    return width;
   }
 
   ensure(height: number): void {
@@ -141,18 +149,26 @@ export class ReportWriter {
     }
   }
 
-  /** A table whose left-aligned cells wrap (the row grows) and right-aligned cells stay on one line. */
+  /**
+   * A table. A cell that fits its column stays on one line (numbers keep raised exponents); one that
+   * does not wraps, header cells too, and its row grows: no cell runs into the next column.
+   */
   table(columns: Column[], rows: string[][], empty = 'None.'): void {
     const size = 7.5;
     const minRow = 13;
     const total = columns.reduce((sum, c) => sum + c.width, 0);
     const scale = total > this.width ? this.width / total : 1;
     const widths = columns.map((c) => c.width * scale);
+    // No glyph of Noto Sans is wider than 1.1 em: a short cell fits without measuring it.
+    const fits = (cell: string, i: number, weight: Weight): boolean =>
+      [...cell].length * size * 1.1 <= widths[i] - 4 || this.widthOf(cell, size, weight) <= widths[i] - 4;
     const drawRow = (cells: string[], header: boolean): void => {
+      const weight: Weight = header ? 'bold' : 'regular';
+      const single = cells.map((cell, i) => !cell.includes('\n') && fits(cell, i, weight));
       const height = Math.max(
         minRow,
         ...cells.map((cell, i) =>
-          columns[i].align === 'right' || header ? minRow : this.heightOf(cell, widths[i] - 4, size) + 4,
+          single[i] ? minRow : this.heightOf(caretSuperscripts(cell), widths[i] - 4, size, weight) + 4,
         ),
       );
       if (this.y + height > this.bottom) {
@@ -166,13 +182,12 @@ export class ReportWriter {
       if (header) this.doc.rect(this.left, this.y - 2, this.width, height).fill('#eceff1');
       let x = this.left;
       cells.forEach((cell, i) => {
-        const single = header || columns[i].align === 'right';
-        this.text(cell, x + 2, this.y, {
+        this.text(single[i] ? cell : caretSuperscripts(cell), x + 2, this.y, {
           width: widths[i] - 4,
-          weight: header ? 'bold' : 'regular',
+          weight,
           size,
           align: columns[i].align ?? 'left',
-          ...(single ? { lineBreak: false, height: minRow, ellipsis: true } : {}),
+          ...(single[i] ? { lineBreak: false } : {}),
         });
         x += widths[i];
       });
