@@ -146,7 +146,7 @@ describe('approved means frozen: the approval record', () => {
     };
     expect((await pointOf(laterAgent))?.k).toBe(signed.record.summary.k);
     expect((await pointOf(nowAgent))?.k).toBe(signed.record.summary.k);
-  });
+  }, 30_000);
 
   it('when the batch is reopened then its record stays in the history; a new approval stores a new one', async () => {
     const manager = await signedInAgent(later.app, 'lab_manager');

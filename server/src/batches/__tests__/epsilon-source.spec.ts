@@ -106,7 +106,7 @@ describe('ε from another batch', () => {
       .put(`/api/batches/${target.batchId}/settings`)
       .send({ settings: { epsilonLPerMolCm: null }, reason: 'Own standards again' });
     expect(own.body.settings).toMatchObject({ epsilonLPerMolCm: null, epsilonSource: null });
-  });
+  }, 30_000);
 
   it('when the batch named is another system, another wavelength, without files, itself or missing then 400 says why and nothing changes', async () => {
     const scientist = await t.agent('scientist');
