@@ -132,7 +132,7 @@ export function drawLayoutMap(
       .fillColor(colour)
       .fill();
     w.text(`${ROLE_LETTERS[role]} ${role}`, lx + 11, w.y, { size: 7, lineBreak: false });
-    lx += 70;
+    lx += 62;
   }
   w.text('× excluded · red edge saturated · dashed edge missing', lx, w.y, {
     size: 7,
