@@ -403,8 +403,9 @@ export function stoichiometrySection(a: BatchAnalysisDto): ReportSection {
             text(c.kUnit),
             num(fit?.kSe, 2),
             text(ci(c)),
-            num(fit?.kCi95?.[0], 3),
-            num(fit?.kCi95?.[1], 3),
+            // The interval to the same decimal place as K itself.
+            measured(fit?.kCi95?.[0], fit?.kSe),
+            measured(fit?.kCi95?.[1], fit?.kSe),
             num(fit?.kLowerBound95, 3),
             num(fit?.kUpperBound95, 3),
             text(formatK(fit)),
@@ -451,7 +452,8 @@ export function qcSection(a: BatchAnalysisDto): ReportSection {
             text(f.severity),
             text(f.code),
             { text: `${g.title}. ${g.meaning}`, value: g.title },
-            text([f.position, f.sampleId].filter(Boolean).join(' ') || null),
+            // The page names position and sample together; the spreadsheets keep them apart.
+            { text: [f.position, f.sampleId].filter(Boolean).join(' '), value: f.position },
             text(f.sampleId),
             num(f.value, 4),
             num(f.threshold, 4),

@@ -184,6 +184,12 @@ describe('batch reports', () => {
           for (const p of f.position!.split(' '))
             expect(positionRow(p)[positionsHeader.indexOf('qc')].split(' ')).toContain(f.code);
         }
+        // The QC table keeps position and sample id in their own columns.
+        const qcHeader = rows.find((r) => r[0] === 'severity' && r.includes('code'))!;
+        const qcRows = rows.filter((r) => r.length === qcHeader.length && r[1] === 'replicate-cv-high');
+        expect(
+          qcRows.map((r) => [r[qcHeader.indexOf('position')], r[qcHeader.indexOf('sample_id')]]),
+        ).toEqual(own.map((f) => [f.position, f.sampleId]));
         // A sample without findings keeps an empty cell.
         expect(positionRow('C3')[positionsHeader.indexOf('qc')]).toBe('');
       } finally {
