@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { extractPdfText } from '../../server/src/reports/pdf-text';
+import { extractPdfText } from '../../server/src/testing/pdf-text';
 import { parseWatcherConfig } from '../../watcher/src/config';
 import { silentLogger } from '../../watcher/src/logger';
 import { createWatcher, type DropFolderWatcher } from '../../watcher/src/watcher';
@@ -238,12 +238,13 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     await page.getByTestId('batch-state').getByText('Reviewed').waitFor();
   });
 
-  it('offers the CSV and PDF exports, with the batch name and K in the report', async () => {
+  it('offers the CSV, PDF and XLSX exports, with the batch name and K in the report', async () => {
     const bodies: Record<string, Buffer> = {};
     for (const [testId, type] of [
       ['export-readings', 'text/csv'],
       ['export-results', 'text/csv'],
       ['export-pdf', 'application/pdf'],
+      ['export-xlsx', 'spreadsheetml'],
     ]) {
       const href = await page.getByTestId(testId).getAttribute('href');
       const res = await page.request.get(`${server.url}${href}`);
@@ -253,6 +254,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     }
     expect(bodies['export-readings'].toString('utf8')).toMatch(/JOB-5/);
     expect(bodies['export-results'].toString('utf8')).toMatch(/1:1/);
+    expect(bodies['export-xlsx'].subarray(0, 2).toString('latin1')).toBe('PK');
     const text = extractPdfText(bodies['export-pdf']).replace(/\s+/g, ' ');
     expect(text).toContain(BATCH_NAME);
     // K as the page shows it (the one number format) is in the report's text too

@@ -428,7 +428,8 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     method: 'get',
     path: '/api/batches/{id}/export.csv',
     tag: 'reports',
-    summary: 'CSV export of readings or results (content=readings|results); formula-like text is escaped',
+    summary:
+      'CSV export of readings or results (content=readings|results; results open with `# key,value` batch details); formula-like text is escaped',
     access: ALL,
     success: [200, 'text/csv attachment'],
   },
@@ -437,9 +438,17 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     path: '/api/batches/{id}/report.pdf',
     tag: 'reports',
     summary:
-      'PDF report: metadata, layout map, calibration plot, tables, verdict, QC flags, file hashes, review trail',
+      "PDF report: metadata, layout map, calibration plot, tables, ICE tables, Job's plot, verdict, QC findings, file hashes, review and approval",
     access: ALL,
     success: [200, 'application/pdf'],
+  },
+  {
+    method: 'get',
+    path: '/api/batches/{id}/report.xlsx',
+    tag: 'reports',
+    summary: 'XLSX workbook of the report: a Batch sheet of details, then one sheet per table of the results',
+    access: ALL,
+    success: [200, 'XLSX attachment'],
   },
   {
     method: 'post',

@@ -30,5 +30,13 @@ export function reportsRouter(reports: ReportsService): Router {
     res.setHeader('Cache-Control', 'no-store');
     res.send(pdf);
   });
+  router.get('/:id/report.xlsx', EVERYONE, async (req, res) => {
+    const id = idParam(req.params['id'], 'Batch');
+    const xlsx = await reports.xlsx(id);
+    res.setHeader('Content-Type', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet');
+    res.setHeader('Content-Disposition', `attachment; filename="batch-${id}-report.xlsx"`);
+    res.setHeader('Cache-Control', 'no-store');
+    res.send(xlsx);
+  });
   return router;
 }

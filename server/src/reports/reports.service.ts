@@ -1,12 +1,14 @@
 import type { AuditDto, AuditService } from '../audit/audit.service';
 import type { BatchesService } from '../batches/batches.service';
-import { toCsv } from './csv';
-import { type PdfOptions, renderBatchReport } from './pdf-report';
-import { readingsTable, resultsTable } from './report-tables';
+import { buildBatchReport, readingsTable } from './batch-report';
+import { reportToCsv, tableToCsv } from './csv';
+import { type PdfOptions, renderReportPdf } from './pdf/render-pdf';
+import type { BatchReport } from './report-model';
+import { renderReportXlsx } from './xlsx';
 
 export type CsvContent = 'readings' | 'results';
 
-/** Exports of one batch: CSV tables and the PDF report. */
+/** Exports of one batch: CSV tables, the XLSX workbook and the PDF report, all from one report model. */
 export class ReportsService {
   constructor(
     private readonly batches: BatchesService,
@@ -14,13 +16,26 @@ export class ReportsService {
   ) {}
 
   async csv(batchId: number, content: CsvContent): Promise<string> {
-    const analysis = await this.batches.analysis(batchId);
-    return toCsv(content === 'readings' ? readingsTable(analysis) : resultsTable(analysis));
+    if (content === 'readings') return tableToCsv(readingsTable(await this.batches.analysis(batchId)));
+    return reportToCsv(await this.report(batchId));
+  }
+
+  async xlsx(batchId: number): Promise<Buffer> {
+    return renderReportXlsx(await this.report(batchId));
   }
 
   async pdf(batchId: number, options: PdfOptions = {}): Promise<Buffer> {
+    return renderReportPdf(await this.report(batchId), options);
+  }
+
+  /** The report of a batch, from `BatchesService.analysis` (an approved batch: its approval record). */
+  async report(batchId: number): Promise<BatchReport> {
     const analysis = await this.batches.analysis(batchId);
-    return renderBatchReport({ analysis, trail: await this.trail(batchId) }, options);
+    return buildBatchReport({
+      analysis,
+      trail: await this.trail(batchId),
+      engineVersion: this.batches.engineVersion,
+    });
   }
 
   /** Every audit entry of the batch, oldest first. */

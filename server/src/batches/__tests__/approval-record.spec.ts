@@ -4,7 +4,7 @@ import { analyzeBatch } from '../../analysis';
 import type { AnalysisEngine } from '../../analysis-engine/analysis-engine';
 import { readEngineVersion } from '../../analysis-engine/engine-version';
 import { type EquilightApp, createApp } from '../../app';
-import { extractPdfText } from '../../reports/pdf-text';
+import { extractPdfText } from '../../testing/pdf-text';
 import { type AnalysedBatch, createAnalysedBatch } from '../../reports/__tests__/analysed-batch';
 import { signedInAgent, startTestApp, type TestApp } from '../../testing/test-app';
 
@@ -146,7 +146,7 @@ describe('approved means frozen: the approval record', () => {
     };
     expect((await pointOf(laterAgent))?.k).toBe(signed.record.summary.k);
     expect((await pointOf(nowAgent))?.k).toBe(signed.record.summary.k);
-  });
+  }, 30_000);
 
   it('when the batch is reopened then its record stays in the history; a new approval stores a new one', async () => {
     const manager = await signedInAgent(later.app, 'lab_manager');

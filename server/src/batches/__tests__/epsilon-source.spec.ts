@@ -1,5 +1,5 @@
 import { createAnalysedBatch, type AnalysedBatch } from '../../reports/__tests__/analysed-batch';
-import { extractPdfText } from '../../reports/pdf-text';
+import { extractPdfText } from '../../testing/pdf-text';
 import { startTestApp, type TestApp } from '../../testing/test-app';
 
 const SYSTEM = 'Ferric thiocyanate (invented demo)';
@@ -106,7 +106,7 @@ describe('ε from another batch', () => {
       .put(`/api/batches/${target.batchId}/settings`)
       .send({ settings: { epsilonLPerMolCm: null }, reason: 'Own standards again' });
     expect(own.body.settings).toMatchObject({ epsilonLPerMolCm: null, epsilonSource: null });
-  });
+  }, 30_000);
 
   it('when the batch named is another system, another wavelength, without files, itself or missing then 400 says why and nothing changes', async () => {
     const scientist = await t.agent('scientist');

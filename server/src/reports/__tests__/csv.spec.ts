@@ -1,5 +1,6 @@
 import { parse } from 'csv-parse/sync';
-import { csvField, escapeFormula, toCsv } from '../csv';
+import { csvField, escapeFormula, reportToCsv, toCsv } from '../csv';
+import type { BatchReport } from '../report-model';
 
 describe('CSV writer', () => {
   it.each([
@@ -47,5 +48,63 @@ describe('CSV writer', () => {
     // No field of the file starts with a formula character.
     for (const row of rows)
       for (const cell of row) if (Number.isNaN(Number(cell))) expect(cell).not.toMatch(/^[=+\-@\t\r]/);
+  });
+
+  it('when a report model is written then its details lead as # key,value lines and only the CSV columns follow', () => {
+    const report: BatchReport = {
+      title: 'Batch report: test',
+      subtitle: '',
+      verdict: null,
+      footer: 'test',
+      sections: [
+        {
+          title: 'Batch',
+          details: [
+            { key: 'run_id', label: 'Run id', text: 'RUN, 7', value: 'RUN, 7' },
+            { key: 'wavelength_nm', label: 'Wavelength', text: '640 nm', value: 640 },
+            { key: 'thresholds', label: 'Thresholds', text: 'R² ≥ 0.99', value: null, in: ['pdf'] },
+          ],
+          figures: [],
+          tables: [],
+          notes: [],
+        },
+        {
+          title: 'Results',
+          details: [],
+          figures: [],
+          notes: [{ text: 'A note for the CSV' }, { text: 'Only on paper', in: ['pdf'] }],
+          tables: [
+            {
+              title: 'Results',
+              columns: [
+                { key: 'sample_id', header: 'Sample', width: 10 },
+                { key: 'x', header: 'x', width: 10 },
+                { key: 'range', header: 'Range', width: 10, in: ['pdf'] },
+              ],
+              rows: [
+                [
+                  { text: 'S1', value: 'S1' },
+                  { text: '0.3', value: 0.1 + 0.2 },
+                  { text: '1–2', value: null },
+                ],
+              ],
+            },
+          ],
+        },
+      ],
+    };
+    const csv = reportToCsv(report);
+    expect(
+      csv.startsWith('\uFEFF# Equilight batch results\r\n# run_id,"RUN, 7"\r\n# wavelength_nm,640\r\n\r\n'),
+    ).toBe(true);
+    expect(csv).not.toContain('thresholds');
+    expect(csv).not.toContain('0.30000000000000004');
+    // A reader that knows # comments gets the tables alone.
+    expect(parse(csv, { bom: true, comment: '#', relax_column_count: true, skip_empty_lines: true })).toEqual(
+      [['Results'], ['sample_id', 'x'], ['S1', '0.3'], ['Results notes'], ['A note for the CSV']],
+    );
+    // Any CSV reader reads the lead lines as two fields each.
+    const plain = parse(csv, { bom: true, relax_column_count: true }) as string[][];
+    expect(plain[1]).toEqual(['# run_id', 'RUN, 7']);
   });
 });

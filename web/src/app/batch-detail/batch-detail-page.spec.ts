@@ -195,6 +195,9 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     expect(el.querySelector('[data-testid="export-results"]')!.getAttribute('href')).toBe(
       '/api/batches/7/export.csv?content=results',
     );
+    expect(el.querySelector('[data-testid="export-xlsx"]')!.getAttribute('href')).toBe(
+      '/api/batches/7/report.xlsx',
+    );
   });
 
   it('a scientist marks an open batch reviewed but cannot approve', async () => {
