@@ -80,12 +80,14 @@ export class IngestTestServer {
 
   private async handle(req: http.IncomingMessage, res: http.ServerResponse): Promise<void> {
     this.requests++;
-    this.active++;
+    // Uploads only: the watcher's reports and state questions are not uploads.
+    const upload = req.url === '/api/ingest';
+    if (upload) this.active++;
     this.maxActive = Math.max(this.maxActive, this.active);
     try {
       await this.respond(req, res);
     } finally {
-      this.active--;
+      if (upload) this.active--;
     }
   }
 
