@@ -129,7 +129,7 @@ describe('a watcher joins a new profile live; a lab manager assigns its unassign
       (text) => /Watched/.test(text),
       30_000,
     );
-    expect(watched).toMatch(/Watched · (just now|\d+ s ago)/);
+    expect(watched).toMatch(/Watched\s+(just now|\d+ s ago) · v0\.1\.0/);
     expect(watched).toContain('v0.1.0');
     expect(fs.existsSync(path.join(dropDir, FOLDER))).toBe(true);
     await expect(page.getByTestId('watchers').innerText()).resolves.toContain('Bench PC 4');
@@ -237,6 +237,8 @@ describe('a watcher joins a new profile live; a lab manager assigns its unassign
     // Intake row → batch; batch's file → Intake row.
     await row.getByTestId('batch-link').click();
     await page.waitForURL(`**/batches/${batch['id']}`);
+    // The sections load when they scroll into view.
+    await page.locator('.eq-bd__tabs').first().scrollIntoViewIfNeeded();
     await page.getByRole('tab', { name: 'Files' }).click();
     const link = page.getByTestId('file-intake-link');
     await link.waitFor();

@@ -112,7 +112,7 @@ describe('InstrumentsPage', () => {
     expect(cuvette).toContain('None');
     expect(cuvette).toContain('Inactive');
     // Whether a watcher watches each drop folder, and when it last reported.
-    expect(reader).toMatch(/Watched · 2 min ago\s*v0\.1\.0/);
+    expect(reader).toMatch(/Watched\s*2 min ago · v0\.1\.0/);
     expect(cuvette).toContain('No watcher has reported');
   });
 
