@@ -40,6 +40,8 @@ import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
 import { serveWebApp } from './web-app/serve-web-app';
 import { closeWorkers, configureWorkers } from './workers';
+import { watcherApiRouter, watchersRouter } from './watchers/watchers.router';
+import { WatchersService } from './watchers/watchers.service';
 import { createWebhooksModule, type WebhooksModule } from './webhooks/webhooks.module';
 
 export const SESSION_COOKIE = 'equilight.sid';
@@ -64,6 +66,7 @@ export interface EquilightApp {
     layouts: LayoutsService;
     manifests: ManifestsService;
     batches: BatchesService;
+    watchers: WatchersService;
   };
   events: EventBus;
   /** E-mail: sender, local SMTP stand-in and outbox, notification settings. */
@@ -107,6 +110,11 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   });
   const mail = createMailModule({ config, dataSource, users, batches, events, log });
   const reports = new ReportsService(batches, audit);
+  const watchers = new WatchersService(dataSource, instruments, audit, mail.mail, {
+    silentMs: config.instrumentSilentMs,
+    publicUrl: config.publicUrl,
+    log,
+  });
   const webhooks = createWebhooksModule({
     config,
     dataSource,
@@ -181,7 +189,9 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   api.use('/auth', authRouter(passport, users, config.loginRateLimit, csrf.issue));
   api.use('/users', usersRouter(users, config.publicUrl));
   api.use('/instruments', instrumentsRouter(instruments, config.uploadMaxBytes));
-  api.use('/ingest', ingestRouter(ingest, instruments, config.uploadMaxBytes));
+  api.use('/ingest', ingestRouter(ingest, instruments, config.uploadMaxBytes, watchers));
+  api.use('/watcher', watcherApiRouter(watchers));
+  api.use('/watchers', watchersRouter(watchers));
   api.use('/intake', intakeRouter(ingest, batches));
   api.use('/layouts', layoutsRouter(layouts));
   api.use('/manifests', manifestsRouter(manifests, config.uploadMaxBytes));
@@ -201,7 +211,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   return {
     app,
     sessionParser,
-    services: { users, instruments, ingest, audit, layouts, manifests, batches },
+    services: { users, instruments, ingest, audit, layouts, manifests, batches, watchers },
     events,
     mail,
     webhooks,
@@ -213,8 +223,10 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
       await webhooks.start();
       await worker.start();
       await ingest.recoverUnqueued();
+      watchers.start();
     },
     async close() {
+      await watchers.stop();
       await worker.close();
       await closeWorkers();
       await queue.close();

@@ -73,6 +73,7 @@ const envSchema = z.object({
   WEBHOOK_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(6),
   WEBHOOK_TIMEOUT_SECONDS: z.coerce.number().positive().max(120).default(10),
   WEBHOOK_RETRY_BASE_SECONDS: z.coerce.number().positive().max(3600).default(30),
+  INSTRUMENT_SILENT_MINUTES: z.coerce.number().positive().max(10080).default(10),
 });
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
@@ -101,6 +102,8 @@ export interface AppConfig {
   /** Lab policy: whoever approves a batch did not create it nor mark it reviewed. */
   fourEyesApproval: boolean;
   webhooks: WebhooksConfig;
+  /** An active instrument whose watcher has not reported for this long is "silent": admins get a mail. */
+  instrumentSilentMs: number;
 }
 
 export interface WebhooksConfig {
@@ -178,5 +181,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       timeoutMs: Math.round(e.WEBHOOK_TIMEOUT_SECONDS * 1000),
       retryBaseMs: Math.round(e.WEBHOOK_RETRY_BASE_SECONDS * 1000),
     },
+    instrumentSilentMs: Math.round(e.INSTRUMENT_SILENT_MINUTES * 60_000),
   };
 }

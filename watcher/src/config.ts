@@ -11,8 +11,10 @@ import { z } from 'zod';
 const FOLDER_RE = /^[A-Za-z0-9][A-Za-z0-9_-]{0,79}$/;
 /** Same shape the server accepts in `Authorization: Bearer …`. */
 const TOKEN_RE = /^eqt_[A-Za-z0-9_-]{20,100}$/;
+/** A watcher credential (Instruments page → Watchers): one for every folder the server names. */
+const WATCHER_TOKEN_RE = /^eqw_[A-Za-z0-9_-]{20,100}$/;
 /** Folder names the watcher itself writes into inside an instrument folder. */
-export const RESERVED_FOLDERS = ['done', 'rejected'] as const;
+export const RESERVED_FOLDERS = ['done', 'rejected', 'quarantined'] as const;
 
 const instrumentSchema = z.strictObject({
   folder: z
@@ -20,7 +22,7 @@ const instrumentSchema = z.strictObject({
     .trim()
     .regex(FOLDER_RE, 'must be one folder name of letters, digits, - or _ (no slashes or dots)')
     .refine((f) => !(RESERVED_FOLDERS as readonly string[]).includes(f.toLowerCase()), {
-      message: 'must not be "done" or "rejected" (the watcher writes those)',
+      message: 'must not be "done", "rejected" or "quarantined" (the watcher writes those)',
     }),
   // The message never echoes the value: it is a secret.
   token: z.string().trim().regex(TOKEN_RE, 'must be an instrument token (eqt_…) from the Instruments page'),
@@ -52,9 +54,25 @@ const configSchema = z
     shutdownGraceMs: z.number().int().min(0).max(600_000).default(5000),
     /** Poll the file system instead of native events (network shares that send no events). */
     usePolling: z.boolean().default(false),
-    instruments: z
-      .array(instrumentSchema, expecting('a list of { "folder": …, "token": … }'))
-      .min(1, 'needs at least one { folder, token }'),
+    instruments: z.array(instrumentSchema, expecting('a list of { "folder": …, "token": … }')).default([]),
+    /**
+     * A watcher credential: the watcher asks the server which folders to watch (every
+     * `folderPollMs`) and sends their files with it. Folders in `instruments` keep their own token.
+     */
+    watcherToken: z
+      .string()
+      .trim()
+      .regex(WATCHER_TOKEN_RE, 'must be a watcher credential (eqw_…) from the Instruments page')
+      .optional(),
+    folderPollMs: z.number().int().min(200).max(3_600_000).default(5000),
+    /** How often the watcher reports itself to the server (version, folders watched). */
+    heartbeatMs: z.number().int().min(200).max(3_600_000).default(60_000),
+    /** How often to ask for the final state of a file the server is still parsing. */
+    statusPollMs: z.number().int().min(50).max(600_000).default(2000),
+  })
+  .refine((c) => c.instruments.length > 0 || c.watcherToken !== undefined, {
+    message: 'needs at least one { folder, token }, or a watcherToken',
+    path: ['instruments'],
   })
   .refine((c) => c.retryMaxMs >= c.retryInitialMs, {
     message: 'must be at least retryInitialMs',
@@ -187,6 +205,8 @@ export function loadWatcherConfig(env: NodeJS.ProcessEnv = process.env, cwd = pr
   if (env['EQUILIGHT_USE_POLLING']?.trim()) {
     merged['usePolling'] = ['1', 'true', 'yes'].includes(env['EQUILIGHT_USE_POLLING'].trim().toLowerCase());
   }
+  const watcherToken = env['EQUILIGHT_WATCHER_TOKEN']?.trim();
+  if (watcherToken) merged['watcherToken'] = watcherToken;
   const instruments = env['EQUILIGHT_INSTRUMENTS']?.trim();
   if (instruments) merged['instruments'] = parseInstrumentList(instruments);
   return parseWatcherConfig(merged, cwd, source);

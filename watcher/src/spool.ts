@@ -15,6 +15,10 @@ const outcomeSchema = z.discriminatedUnion('kind', [
     status: z.string(),
     duplicateOfId: z.number().optional(),
     at: z.string(),
+    /** The file's final state on the server, once known (parsing may finish after the 202). */
+    final: z
+      .object({ status: z.string(), error: z.string().nullable().optional(), at: z.string() })
+      .optional(),
   }),
   z.object({
     kind: z.literal('rejected'),

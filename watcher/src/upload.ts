@@ -28,6 +28,8 @@ export interface UploadRequest {
   fileName: string;
   /** Path inside the drop folder, for display on the Intake page. */
   sourcePath: string;
+  /** With a watcher credential: the drop sub-folder, which names the instrument profile. */
+  folder?: string;
   timeoutMs: number;
   signal: AbortSignal;
 }
@@ -55,6 +57,7 @@ export async function uploadFile(req: UploadRequest): Promise<UploadResult> {
   const type = MEDIA_TYPES[path.extname(req.fileName).toLowerCase()] ?? 'application/octet-stream';
   const form = new FormData();
   form.append('sourcePath', req.sourcePath);
+  if (req.folder !== undefined) form.append('folder', req.folder);
   form.append('file', await fs.openAsBlob(req.file, { type }), req.fileName);
   const timeout = AbortSignal.timeout(req.timeoutMs);
   let response: Response;

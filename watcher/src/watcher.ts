@@ -1,14 +1,16 @@
 import { EventEmitter } from 'node:events';
 import fsp from 'node:fs/promises';
+import os from 'node:os';
 import path from 'node:path';
 import { type FSWatcher, watch } from 'chokidar';
 import { backoffDelayMs } from './backoff';
-import type { WatcherConfig } from './config';
+import { RESERVED_FOLDERS, type WatcherConfig } from './config';
 import { classifyDropPath } from './drop-paths';
 import { hashFile, moveLinkWithoutOverwrite, placeWithoutOverwrite, writeFileAtomic } from './file-moves';
 import { consoleLogger, type WatcherLogger } from './logger';
 import { SettleTracker } from './settle';
 import { Spool, type SpoolEntry } from './spool';
+import { FINAL_STATES, fetchFileStatus, fetchFolders, sendHeartbeat, watcherVersion } from './server-api';
 import { uploadFile } from './upload';
 
 export interface WatcherEvents {
@@ -19,7 +21,13 @@ export interface WatcherEvents {
   /** The server acknowledged the file (202). */
   uploaded: [entry: SpoolEntry, ack: { intakeId: number; status: string; duplicateOfId?: number }];
   /** The original went to done/ (movedTo null when it had already left the drop folder) and the spool entry is gone. */
-  done: [entry: SpoolEntry, result: { movedTo: string | null }];
+  done: [entry: SpoolEntry, result: { movedTo: string | null; status: string }];
+  /** The server took the file but could not read it: it is in quarantined/ with a .reason.txt. */
+  quarantined: [entry: SpoolEntry, result: { message: string; movedTo: string }];
+  /** The folders watched changed (a watcher credential learnt them from the server). */
+  folders: [info: { folders: string[]; added: string[]; removed: string[] }];
+  /** The watcher reported itself to the server. */
+  reported: [info: { folders: string[] }];
   /** The server refused the file for good; it is in rejected/ with a .reason.txt. */
   rejected: [
     entry: SpoolEntry,
@@ -40,6 +48,8 @@ export interface DropFolderWatcher {
   off<E extends keyof WatcherEvents>(event: E, listener: (...args: WatcherEvents[E]) => void): this;
   /** Entries still in the spool (waiting, being sent, or being finished). */
   pending(): SpoolEntry[];
+  /** The instrument folders watched now. */
+  folders(): string[];
 }
 
 export interface WatcherOptions {
@@ -59,10 +69,16 @@ interface Task {
 /** How long to wait before retrying after a local failure (disk, permissions) on one file. */
 const LOCAL_RETRY_MS = 30_000;
 const RETRY_AFTER_CAP_MS = 10 * 60_000;
+const RESERVED: readonly string[] = RESERVED_FOLDERS;
 
 class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
   private readonly spool: Spool;
   private readonly tokens: Map<string, string>;
+  /** Folders the server named (watcher credential), and every folder watched now. */
+  private readonly serverFolders = new Set<string>();
+  private readonly known = new Set<string>();
+  private folderRevision: string | undefined;
+  private readonly version = watcherVersion();
   private readonly settle: SettleTracker;
   private fsw: FSWatcher | undefined;
   private state: 'new' | 'running' | 'stopping' | 'stopped' = 'new';
@@ -102,14 +118,33 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
     return this.spool.entries();
   }
 
+  folders(): string[] {
+    return [...this.known].sort();
+  }
+
+  /** The token (and, with a watcher credential, the folder field) to send a folder's files with. */
+  private senderFor(folder: string): { token: string; folder?: string } | undefined {
+    const own = this.tokens.get(folder);
+    if (own) return { token: own };
+    if (this.config.watcherToken && this.serverFolders.has(folder))
+      return { token: this.config.watcherToken, folder };
+    return undefined;
+  }
+
   async start(): Promise<void> {
     if (this.state !== 'new') throw new Error('a watcher can be started once');
     this.state = 'running';
     const { dropDir, spoolDir, serverUrl, settleMs } = this.config;
-    const folders = [...this.tokens.keys()];
+    for (const folder of this.tokens.keys()) this.known.add(folder);
+    if (this.config.watcherToken) {
+      // The server names the folders; if it cannot be reached now, the folder poll tries again.
+      await this.refreshFolders({ initial: true });
+    }
+    const folders = [...this.known];
     this.log.info(
-      `watching ${dropDir} (instrument folders: ${folders.join(', ')}), spool ${spoolDir}, ` +
-        `server ${serverUrl}, settle ${settleMs} ms, ${this.config.maxConcurrentUploads} uploads at a time`,
+      `watching ${dropDir} (instrument folders: ${folders.join(', ') || 'none yet'}), spool ${spoolDir}, ` +
+        `server ${serverUrl}, settle ${settleMs} ms, ${this.config.maxConcurrentUploads} uploads at a time` +
+        (this.config.watcherToken ? `, folders from the server every ${this.config.folderPollMs} ms` : ''),
     );
     try {
       for (const folder of folders) {
@@ -128,7 +163,7 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
       for (const problem of problems) this.report(problem);
       if (entries.length > 0) this.log.info(`resuming ${entries.length} file(s) from the spool`);
       for (const entry of entries) {
-        if (!this.tokens.has(entry.folder)) {
+        if (!entry.outcome && !this.senderFor(entry.folder)) {
           this.warnOnce(
             `spool-folder:${entry.folder}`,
             `spooled files of folder "${entry.folder}" wait: it has no token in the watcher configuration`,
@@ -142,7 +177,7 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
     }
     this.pump();
 
-    const known = new Set(folders);
+    const known = this.known;
     this.fsw = watch(dropDir, {
       ignoreInitial: false,
       persistent: true,
@@ -175,13 +210,143 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
     if (this.state === 'running') {
       this.log.info('initial scan of the drop folder done');
       this.emit('ready');
+      void this.heartbeat();
+      if (this.config.watcherToken) this.later(this.config.folderPollMs, () => void this.pollFolders());
     }
   }
+
+  // ── folders from the server, and reports to it ─────────────────────────────────────────────────
+
+  private foldersTrouble: string | undefined;
+
+  private async pollFolders(): Promise<void> {
+    try {
+      await this.refreshFolders({ initial: false });
+    } finally {
+      this.later(this.config.folderPollMs, () => void this.pollFolders());
+    }
+  }
+
+  /** Ask the server for the active profiles' folders; watch new ones and drop removed ones, without a restart. */
+  private async refreshFolders({ initial }: { initial: boolean }): Promise<void> {
+    const token = this.config.watcherToken;
+    if (!token || this.state !== 'running') return;
+    const answer = await fetchFolders(
+      this.config.serverUrl,
+      token,
+      Math.min(this.config.requestTimeoutMs, 15_000),
+    );
+    if (answer.kind !== 'ok') {
+      const trouble =
+        answer.kind === 'unauthorized'
+          ? `WATCHER CREDENTIAL REFUSED (${answer.httpStatus}): check watcherToken; the folders watched stay as they are`
+          : answer.kind === 'unknown'
+            ? 'the server does not list folders for watchers (an older server?); only the folders in the configuration are watched'
+            : `cannot ask the server which folders to watch (${answer.reason}); asking again in ${seconds(this.config.folderPollMs)} s`;
+      if (trouble !== this.foldersTrouble) {
+        this.foldersTrouble = trouble;
+        if (answer.kind === 'unauthorized') this.log.error(trouble);
+        else this.log.warn(trouble);
+      }
+      return;
+    }
+    if (this.foldersTrouble) this.log.info('the server lists the folders to watch again');
+    this.foldersTrouble = undefined;
+    const { revision, folders } = answer.value;
+    if (revision === this.folderRevision) return;
+    this.folderRevision = revision;
+    const next = new Set(folders.map((f) => f.folder).filter((f) => !RESERVED.includes(f.toLowerCase())));
+    const added: string[] = [];
+    const removed: string[] = [];
+    for (const folder of this.serverFolders) {
+      if (next.has(folder)) continue;
+      this.serverFolders.delete(folder);
+      if (!this.tokens.has(folder)) {
+        this.known.delete(folder);
+        removed.push(folder);
+        if (!initial) await this.fsw?.unwatch(path.join(this.config.dropDir, folder));
+      }
+    }
+    for (const folder of next) {
+      if (this.serverFolders.has(folder)) continue;
+      const dir = path.join(this.config.dropDir, folder);
+      const rel = path.relative(dir, this.config.spoolDir);
+      if (rel === '' || (!rel.startsWith('..') && !path.isAbsolute(rel))) {
+        this.warnOnce(`spool-in:${folder}`, `not watching ${dir}: the spool lies inside it`);
+        continue;
+      }
+      this.serverFolders.add(folder);
+      if (this.known.has(folder)) continue;
+      if (!initial) {
+        try {
+          await fsp.mkdir(dir, { recursive: true });
+          if ((await fsp.lstat(dir)).isSymbolicLink()) {
+            this.warnOnce(
+              `link-folder:${folder}`,
+              `the instrument folder ${dir} is a link; links are never followed, so nothing in it is sent`,
+            );
+          }
+        } catch (err) {
+          this.report(
+            `cannot open the drop folder ${dir}: ${(err as Error).message}; trying again at the next poll`,
+          );
+          this.serverFolders.delete(folder);
+          this.folderRevision = undefined;
+          continue;
+        }
+      }
+      this.known.add(folder);
+      this.warned.delete(`folder:${folder}`);
+      added.push(folder);
+      if (!initial) this.fsw?.add(dir);
+    }
+    if (!initial && (added.length || removed.length)) {
+      this.log.info(
+        `folders from the server: now watching ${this.folders().join(', ') || 'none'}` +
+          (added.length ? `; added ${added.join(', ')}` : '') +
+          (removed.length ? `; no longer watching ${removed.join(', ')} (their spooled files wait)` : ''),
+      );
+      this.emit('folders', { folders: this.folders(), added, removed });
+      void this.heartbeat();
+      this.pump();
+    }
+  }
+
+  /** Report to the server: version, computer, folders watched. Repeats every `heartbeatMs`. */
+  private async heartbeat(): Promise<void> {
+    if (this.state !== 'running') return;
+    clearTimeout(this.heartbeatTimer);
+    const folders = this.folders();
+    const report = { version: this.version, hostname: os.hostname().slice(0, 120), folders };
+    const timeoutMs = Math.min(this.config.requestTimeoutMs, 15_000);
+    const calls = this.config.watcherToken
+      ? [sendHeartbeat(this.config.serverUrl, this.config.watcherToken, report, timeoutMs)]
+      : [...this.tokens].map(([folder, token]) =>
+          sendHeartbeat(this.config.serverUrl, token, { ...report, folders: [folder] }, timeoutMs),
+        );
+    const results = await Promise.all(calls);
+    const failed = results.find((r) => r.kind !== 'ok');
+    if (failed && failed.kind !== 'unknown') {
+      this.warnOnce(
+        `heartbeat:${failed.kind}`,
+        `could not report to the server (${failed.kind === 'failed' ? failed.reason : failed.kind}); trying again`,
+      );
+    } else if (!failed) {
+      this.warned.delete('heartbeat:failed');
+      this.emit('reported', { folders });
+    }
+    if (this.state === 'running') {
+      this.heartbeatTimer = setTimeout(() => void this.heartbeat(), this.config.heartbeatMs);
+    }
+  }
+
+  private heartbeatTimer: NodeJS.Timeout | undefined;
 
   async stop(): Promise<void> {
     if (this.state !== 'running') return;
     this.state = 'stopping';
     clearTimeout(this.pumpTimer);
+    clearTimeout(this.heartbeatTimer);
     for (const timer of this.timers) clearTimeout(timer);
     this.settle.close();
     await this.fsw?.close();
@@ -209,7 +374,7 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
   // ── drop folder → spool ────────────────────────────────────────────────────────────────────────
 
   private onFolderFound(dir: string): void {
-    const where = classifyDropPath(this.config.dropDir, dir, new Set(this.tokens.keys()));
+    const where = classifyDropPath(this.config.dropDir, dir, this.known);
     if (where.kind !== 'candidate' || this.state !== 'running') return;
     const { folder, relativePath } = where;
     this.runInBackground(
@@ -221,7 +386,7 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
   }
 
   private onSettled(file: string, firstSeenAt: Date): void {
-    const where = classifyDropPath(this.config.dropDir, file, new Set(this.tokens.keys()));
+    const where = classifyDropPath(this.config.dropDir, file, this.known);
     if (where.kind !== 'candidate' || this.state !== 'running') return;
     const { folder, relativePath } = where;
     this.runInBackground(
@@ -335,7 +500,7 @@ at: ${new Date().toISOString()}
       if (this.inFlight.has(entry.id)) continue;
       let dueAt = this.entryRetry.get(entry.id)?.notBefore ?? 0;
       if (!entry.outcome) {
-        if (!this.tokens.has(entry.folder)) continue;
+        if (!this.senderFor(entry.folder)) continue;
         dueAt = Math.max(dueAt, this.serverBlockedUntil, this.folderBlockedUntil.get(entry.folder) ?? 0);
       }
       if (dueAt > now) {
@@ -353,10 +518,16 @@ at: ${new Date().toISOString()}
       try {
         if (!entry.outcome) await this.send(entry, controller.signal);
         // Finishing is local and quick: done even while stopping, so an acknowledged file is not sent twice.
+        let later = false;
         if (entry.outcome) {
-          await this.withPathLock(`${entry.folder}/${entry.relativePath}`, () => this.finish(entry));
+          await this.withPathLock(`${entry.folder}/${entry.relativePath}`, async () => {
+            later = (await this.finish(entry)) === 'later';
+          });
         }
-        this.entryRetry.delete(entry.id);
+        if (later) {
+          // The server is still parsing it: ask again soon, without counting it as a failure.
+          this.entryRetry.set(entry.id, { attempts: 0, notBefore: Date.now() + this.config.statusPollMs });
+        } else this.entryRetry.delete(entry.id);
       } catch (err) {
         const retry = this.entryRetry.get(entry.id) ?? { attempts: 0, notBefore: 0 };
         retry.attempts++;
@@ -375,12 +546,13 @@ at: ${new Date().toISOString()}
   }
 
   private async send(entry: SpoolEntry, signal: AbortSignal): Promise<void> {
-    const token = this.tokens.get(entry.folder);
-    if (!token) return;
+    const sender = this.senderFor(entry.folder);
+    if (!sender) return;
     const label = `${entry.folder}/${entry.relativePath}`;
     const result = await uploadFile({
       serverUrl: this.config.serverUrl,
-      token,
+      token: sender.token,
+      ...(sender.folder !== undefined ? { folder: sender.folder } : {}),
       file: this.spool.binPath(entry),
       fileName: path.posix.basename(entry.relativePath),
       sourcePath: label,
@@ -459,10 +631,17 @@ at: ${new Date().toISOString()}
 
   // ── finishing: drop folder → done/ or rejected/ ────────────────────────────────────────────────
 
-  private async finish(entry: SpoolEntry): Promise<void> {
+  private async finish(entry: SpoolEntry): Promise<'finished' | 'later'> {
     const outcome = entry.outcome;
-    if (!outcome) return;
+    if (!outcome) return 'finished';
     const label = `${entry.folder}/${entry.relativePath}`;
+    // The 202 says the server has the bytes; where the original goes depends on what parsing makes of them.
+    let final: { status: string; error?: string | null | undefined } | undefined;
+    if (outcome.kind === 'acknowledged') {
+      final = outcome.final ?? (FINAL_STATES.has(outcome.status) ? { status: outcome.status } : undefined);
+      final ??= await this.learnFinalState(entry);
+      if (!final) return 'later';
+    }
     const folderDir = path.join(this.config.dropDir, entry.folder);
     const original = path.join(folderDir, ...entry.relativePath.split('/'));
     const name = path.posix.basename(entry.relativePath);
@@ -470,6 +649,31 @@ at: ${new Date().toISOString()}
     if (state === 'changed') {
       this.log.warn(`${label} changed after it was sent; its new content is sent as well`);
       this.settle.touch(original);
+    }
+
+    if (outcome.kind === 'acknowledged' && final?.status === 'quarantined') {
+      // Received but not readable: beside done/, so the person at the instrument sees it did not work.
+      const message = final.error || 'The server could not read this file.';
+      const quarantinedDir = path.join(folderDir, 'quarantined');
+      const movedTo =
+        state === 'same'
+          ? await placeWithoutOverwrite(original, quarantinedDir, name)
+          : await placeWithoutOverwrite(this.spool.binPath(entry), quarantinedDir, name, {
+              keepSource: true,
+            });
+      const reason =
+        `${message}\n\n` +
+        `The server received this file (intake #${outcome.intakeId}) but set it aside. A lab manager can queue it ` +
+        `again on the Intake page once the instrument profile is fixed; do not drop it again unchanged.\n\n` +
+        `file: ${label}\nsha256: ${entry.sha256}\nsize: ${entry.size} bytes\nat: ${new Date().toISOString()}\n`;
+      await writeFileAtomic(`${movedTo}.reason.txt`, reason);
+      this.log.error(
+        `quarantined ${label} (intake #${outcome.intakeId}: ${message}) → ` +
+          path.relative(folderDir, movedTo).split(path.sep).join('/'),
+      );
+      await this.spool.remove(entry);
+      this.emit('quarantined', entry, { message, movedTo });
+      return 'finished';
     }
 
     if (outcome.kind === 'acknowledged') {
@@ -483,8 +687,8 @@ at: ${new Date().toISOString()}
         );
       }
       await this.spool.remove(entry);
-      this.emit('done', entry, { movedTo });
-      return;
+      this.emit('done', entry, { movedTo, status: final?.status ?? outcome.status });
+      return 'finished';
     }
 
     // Rejected: keep the bytes for a person to look at, beside the reason.
@@ -509,6 +713,53 @@ at: ${new Date().toISOString()}
       message: outcome.message,
       movedTo,
     });
+    return 'finished';
+  }
+
+  /**
+   * Ask the server for the final state of an acknowledged file. Undefined: not final yet, or the server
+   * cannot be asked now (asked again later). A server that does not report states (404) or refuses the
+   * token counts as "accepted": it has the bytes, and the original goes to done/ as it always did.
+   */
+  private async learnFinalState(
+    entry: SpoolEntry,
+  ): Promise<{ status: string; error?: string | null } | undefined> {
+    const outcome = entry.outcome;
+    if (outcome?.kind !== 'acknowledged') return undefined;
+    const label = `${entry.folder}/${entry.relativePath}`;
+    const token = this.tokens.get(entry.folder) ?? this.config.watcherToken;
+    let final: { status: string; error?: string | null; at: string } | undefined;
+    if (!token) {
+      final = { status: 'accepted', at: new Date().toISOString() };
+    } else {
+      const answer = await fetchFileStatus(
+        this.config.serverUrl,
+        token,
+        outcome.intakeId,
+        Math.min(this.config.requestTimeoutMs, 15_000),
+      );
+      if (answer.kind === 'ok') {
+        if (!FINAL_STATES.has(answer.value.status)) return undefined;
+        final = {
+          status: answer.value.status,
+          error: answer.value.error ?? null,
+          at: new Date().toISOString(),
+        };
+      } else if (answer.kind === 'failed') {
+        this.log.warn(`${label}: cannot learn its state yet (${answer.reason}); asking again`);
+        return undefined;
+      } else {
+        this.warnOnce(
+          `no-states:${answer.kind}`,
+          answer.kind === 'unknown'
+            ? 'the server does not report the state of sent files (an older server?): files go to done/ once the server has them'
+            : `the server refused to report a file's state (${answer.httpStatus}); files go to done/ once the server has them`,
+        );
+        final = { status: 'accepted', at: new Date().toISOString() };
+      }
+    }
+    await this.spool.recordOutcome(entry, { ...outcome, final });
+    return final;
   }
 
   /** Is the drop-folder file still the one that was spooled? */

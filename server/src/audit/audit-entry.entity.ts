@@ -1,7 +1,7 @@
 import { Column, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
 
 export type AuditEntity =
-  'layout' | 'manifest' | 'batch' | 'instrument_profile' | 'user' | 'intake_file' | 'webhook';
+  'layout' | 'manifest' | 'batch' | 'instrument_profile' | 'user' | 'intake_file' | 'webhook' | 'watcher';
 
 /** One change: who, when, what, why. Written by the app, never edited or deleted by it. */
 @Entity('audit_entries')

@@ -2,7 +2,7 @@ import { z } from 'zod';
 
 export const auditQuerySchema = z.strictObject({
   entity: z
-    .enum(['layout', 'manifest', 'batch', 'instrument_profile', 'user', 'intake_file', 'webhook'])
+    .enum(['layout', 'manifest', 'batch', 'instrument_profile', 'user', 'intake_file', 'webhook', 'watcher'])
     .optional(),
   entityId: z.coerce.number().int().positive().optional(),
   actorId: z.coerce.number().int().positive().optional(),

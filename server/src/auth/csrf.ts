@@ -76,7 +76,7 @@ function isOwnOrigin(origin: string, req: Request, publicOrigin: string): boolea
  *    they issue a new token (`issue`).
  * 2. A mutating request whose Origin (or Referer) is present and is not the app's own is refused.
  * Requests that carry an instrument's bearer token and no cookie are not browser requests and are exempt;
- * the bearer token reaches nothing but /api/ingest.
+ * the bearer token reaches nothing but /api/ingest and the watcher routes (/api/watcher/*).
  */
 export function createCsrfProtection(options: CsrfOptions): {
   middleware: RequestHandler;

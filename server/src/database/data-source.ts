@@ -19,6 +19,7 @@ import { WebhookDelivery } from '../webhooks/webhook-delivery.entity';
 import { Webhook } from '../webhooks/webhook.entity';
 import { assertDatabaseFileNotEmpty, assertQuickCheckPasses, openFailure } from './integrity';
 import { migrations } from './migrations';
+import { InstrumentPresence, WatcherCredential } from '../watchers/watcher-credential.entity';
 
 export const entities = [
   User,
@@ -39,6 +40,8 @@ export const entities = [
   BatchNotice,
   Webhook,
   WebhookDelivery,
+  WatcherCredential,
+  InstrumentPresence,
 ];
 
 /** The one DataSource. SQLite (WAL) by default; PostgreSQL when DATABASE_URL says so. */

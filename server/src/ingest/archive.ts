@@ -43,6 +43,14 @@ export class RawFileArchive {
     }
   }
 
+  /** A stream of the archived bytes; throws ENOENT (as the stream's error) when they are not there. */
+  async open(sha256: string): Promise<{ stream: NodeJS.ReadableStream; size: number }> {
+    const file = this.pathOf(sha256);
+    const stat = await fs.stat(file);
+    const handle = await fs.open(file, 'r');
+    return { stream: handle.createReadStream(), size: stat.size };
+  }
+
   async read(sha256: string): Promise<Buffer> {
     return fs.readFile(this.pathOf(sha256));
   }

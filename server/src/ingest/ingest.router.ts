@@ -5,6 +5,7 @@ import type { InstrumentProfile } from '../instruments/instrument-profile.entity
 import { bearerToken } from '../instruments/instrument-token';
 import type { InstrumentsService } from '../instruments/instruments.service';
 import type { User } from '../users/user.entity';
+import type { WatchersService } from '../watchers/watchers.service';
 import type { IngestService } from './ingest.service';
 import { singleFileUpload } from './upload';
 
@@ -18,10 +19,23 @@ export function ingestRouter(
   ingest: IngestService,
   instruments: InstrumentsService,
   maxBytes: number,
+  watchers?: WatchersService,
 ): Router {
   const router = Router();
 
   const authenticateSender: RequestHandler = async (req, res, next) => {
+    if (
+      req.headers.authorization !== undefined &&
+      watchers &&
+      /^Bearer\s+eqw_/.test(req.headers.authorization)
+    ) {
+      // A watcher credential: it may send for any active profile, named by the form field "folder".
+      const caller = await watchers.authenticate(req.headers.authorization);
+      if (caller?.kind !== 'watcher')
+        return next(AppError.unauthorized('The watcher credential is not valid or was revoked.'));
+      res.locals['watcher'] = caller.credential;
+      return next();
+    }
     if (req.headers.authorization !== undefined) {
       const token = bearerToken(req.headers.authorization);
       const profile = token ? await instruments.findByToken(token) : undefined;
@@ -43,7 +57,9 @@ export function ingestRouter(
   router.post('/', authenticateSender, singleFileUpload(maxBytes), async (req, res) => {
     if (!req.file) throw AppError.badRequest('Send the export in a multipart form field named "file".');
     let profile = res.locals['instrument'] as InstrumentProfile | undefined;
-    if (!profile) {
+    if (!profile && res.locals['watcher'] && watchers) {
+      profile = await watchers.activeProfileForFolder(req.body?.folder);
+    } else if (!profile) {
       profile = await instruments.get(idParam(req.body?.profileId, 'Instrument profile'));
       if (!profile.active) throw AppError.conflict(`The instrument profile "${profile.name}" is inactive.`);
     }
@@ -52,7 +68,7 @@ export function ingestRouter(
       content: req.file.buffer,
       originalName: req.file.originalname,
       profile,
-      source: res.locals['instrument'] ? 'watcher' : 'upload',
+      source: res.locals['instrument'] || res.locals['watcher'] ? 'watcher' : 'upload',
       uploadedById: (req.user as User | undefined)?.id,
       sourcePath,
     });

@@ -1,6 +1,7 @@
 import path from 'node:path';
 import { type DataSource, type EntityManager, In, IsNull, type Repository } from 'typeorm';
 import { AppError } from '../common/app-error';
+import { cleanFileName } from '../common/file-name';
 import { SerialRunner } from '../common/serial';
 import { bulkInsert } from '../database/bulk-insert';
 import type { EventBus } from '../events/event-bus';
@@ -66,6 +67,12 @@ export function displayName(name: string | undefined): string {
   // eslint-disable-next-line no-control-regex
   const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').trim();
   return (clean || 'unnamed').slice(0, 200);
+}
+
+/** A download name: the display name without hidden formatting, quotes or separators; never a path. */
+export function downloadName(name: string): string {
+  const clean = cleanFileName(displayName(name)).replace(/["\\/:*?<>|]/g, '_');
+  return clean && clean !== '.' && clean !== '..' ? clean : 'raw-file';
 }
 
 /** From a received file to stored readings: archive, record, queue, parse, store in one transaction. */
@@ -259,6 +266,29 @@ export class IngestService {
     );
     this.events.publish('file.quarantined', { id: file.id, profileId: file.profileId, error: message });
     return 'quarantined';
+  }
+
+  /**
+   * The archived raw bytes of a received file, by SHA-256, with a download name made from what the
+   * sender called it (cleaned; never used as a path).
+   */
+  async raw(sha256: string): Promise<{ stream: NodeJS.ReadableStream; size: number; fileName: string }> {
+    if (!/^[0-9a-f]{64}$/.test(sha256))
+      throw AppError.badRequest('Give the file by its SHA-256 (64 hex digits).');
+    const file = await this.files.findOne({ where: { sha256 }, order: { id: 'ASC' } });
+    if (!file) throw AppError.notFound('No received file has this SHA-256.');
+    try {
+      const { stream, size } = await this.archive.open(sha256);
+      return { stream, size, fileName: downloadName(file.originalName) };
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code === 'ENOENT')
+        throw new AppError(
+          'archive_missing',
+          410,
+          'The archived copy of this file is missing; see the archive check.',
+        );
+      throw err;
+    }
   }
 
   async getDto(id: number): Promise<IntakeFileDto> {

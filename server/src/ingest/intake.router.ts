@@ -22,6 +22,19 @@ export function intakeRouter(ingest: IngestService, batches: BatchesService): Ro
     res.json(await ingest.list(query.data));
   });
 
+  /** The raw archived bytes, by SHA-256, as a download under the sender's (cleaned) file name. */
+  router.get('/raw/:sha256', async (req, res) => {
+    const sha256 = String(req.params['sha256'] ?? '').toLowerCase();
+    const raw = await ingest.raw(sha256);
+    res.setHeader('Content-Type', 'application/octet-stream');
+    res.setHeader('Content-Length', String(raw.size));
+    res.setHeader('X-Content-SHA256', sha256);
+    res.setHeader('X-Content-Type-Options', 'nosniff');
+    res.attachment(raw.fileName);
+    raw.stream.on('error', (err) => res.destroy(err as Error));
+    raw.stream.pipe(res);
+  });
+
   router.get('/:id', async (req, res) => {
     res.json(await ingest.getDto(idParam(req.params['id'], 'Received file')));
   });

@@ -9,7 +9,7 @@ import type { InstrumentsService } from './instruments.service';
 
 const PREVIEW_READINGS = 50;
 
-/** Instrument profiles and their tokens: admins only (bar the summary list). */
+/** Instrument profiles and their tokens: admins change them; lab managers read them. */
 export function instrumentsRouter(instruments: InstrumentsService, maxBytes: number): Router {
   const router = Router();
   /** Names and formats only, for choosing an instrument (e.g. creating a batch): every signed-in role. */
@@ -24,11 +24,11 @@ export function instrumentsRouter(instruments: InstrumentsService, maxBytes: num
       })),
     );
   });
-  router.use(requireRole('admin'));
-
-  router.get('/', async (_req, res) => {
+  /** Full profiles (formats, file-name pattern, rules) to read: admins and lab managers; only admins change them. */
+  router.get('/', requireRole('admin', 'lab_manager'), async (_req, res) => {
     res.json(await instruments.list());
   });
+  router.use(requireRole('admin'));
 
   router.post('/', validateBody(createProfileSchema), async (req, res) => {
     res.status(201).json(await instruments.create(req.body, req.user!));

@@ -170,3 +170,46 @@ export function passwordResetMail(name: string, link: string, validHours: number
     },
   ]);
 }
+
+export interface WatcherSilence {
+  instrument: string;
+  folder: string;
+  watcherName: string;
+  lastSeenAt: string;
+  silentMinutes: number;
+  url: string;
+}
+
+/** An active instrument's watcher stopped reporting: files dropped there may not reach the server. */
+export function watcherSilentMail(name: string, s: WatcherSilence): MailContent {
+  return compose(`Watcher silent: ${s.instrument}`, `Hello ${name},`, [
+    {
+      kind: 'p',
+      text: `No watcher has reported for the drop folder of instrument "${s.instrument}" for more than ${s.silentMinutes} minutes. Files exported there may not be reaching Equilight.`,
+    },
+    {
+      kind: 'list',
+      items: [
+        `Drop folder: ${s.folder}`,
+        `Last report: ${s.lastSeenAt.slice(0, 16).replace('T', ' ')} UTC by ${s.watcherName}`,
+      ],
+    },
+    {
+      kind: 'p',
+      text: 'Check that the watcher process is running on the instrument computer and can reach the server. You get one more mail when it reports again.',
+    },
+    { kind: 'link', label: 'Open Instruments', url: s.url },
+  ]);
+}
+
+/** The watcher of an instrument that was silent reports again. */
+export function watcherBackMail(name: string, s: Omit<WatcherSilence, 'silentMinutes'>): MailContent {
+  return compose(`Watcher back: ${s.instrument}`, `Hello ${name},`, [
+    {
+      kind: 'p',
+      text: `The drop folder of instrument "${s.instrument}" is watched again (${s.watcherName} reported at ${s.lastSeenAt.slice(0, 16).replace('T', ' ')} UTC).`,
+    },
+    { kind: 'list', items: [`Drop folder: ${s.folder}`] },
+    { kind: 'link', label: 'Open Instruments', url: s.url },
+  ]);
+}

@@ -16,10 +16,12 @@ import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } f
 import { manifestMetaSchema } from '../manifests/manifests.schema';
 import { temperaturesQuerySchema } from '../temperatures/temperatures.router';
 import { createUserSchema, updateUserSchema } from '../users/users.schema';
+import { createWatcherSchema, heartbeatSchema } from '../watchers/watchers.schema';
 import { createWebhookSchema, deliveriesQuerySchema, updateWebhookSchema } from '../webhooks/webhooks.schema';
 import type { Role } from '../users/user.entity';
 
-export type Access = 'public' | 'instrument' | readonly Role[];
+/** `instrument`: an instrument token or a signed-in uploader; `watcher`: a watcher credential (eqw_) or an instrument token. */
+export type Access = 'public' | 'instrument' | 'watcher' | readonly Role[];
 
 export interface ApiOperation {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
@@ -119,8 +121,8 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     method: 'get',
     path: '/api/instruments',
     tag: 'instruments',
-    summary: 'List instrument profiles',
-    access: ADMIN,
+    summary: 'List instrument profiles (lab managers read, admins change)',
+    access: MANAGERS,
     success: [200, 'Profiles (tokens are never listed)'],
   },
   {
@@ -188,6 +190,66 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
   },
   {
     method: 'get',
+    path: '/api/watcher/folders',
+    tag: 'watchers',
+    summary:
+      "The active profiles' drop folders and file rules, with a revision that changes when they do (watcher credential only)",
+    access: 'watcher',
+    success: [200, '{revision, folders: [{profileId, name, folder, kind, fileFormat, fileNamePattern}]}'],
+  },
+  {
+    method: 'post',
+    path: '/api/watcher/heartbeat',
+    tag: 'watchers',
+    summary: 'A watcher reports itself: version, computer, the folders it watches (every minute)',
+    access: 'watcher',
+    body: heartbeatSchema,
+    success: [200, '{profiles: ids of the profiles the report covers}'],
+  },
+  {
+    method: 'get',
+    path: '/api/watcher/files/{id}',
+    tag: 'watchers',
+    summary:
+      "A sent file's state (queued, parsing, stored, unassigned, duplicate, quarantined with its reason)",
+    access: 'watcher',
+    success: [200, '{id, status, error, duplicateOfId}'],
+  },
+  {
+    method: 'get',
+    path: '/api/watchers',
+    tag: 'watchers',
+    summary: 'Watcher credentials with their last report',
+    access: ADMIN,
+    success: [200, 'Credentials (never the token)'],
+  },
+  {
+    method: 'post',
+    path: '/api/watchers',
+    tag: 'watchers',
+    summary: 'Create a watcher credential (its token is shown once)',
+    access: ADMIN,
+    body: createWatcherSchema,
+    success: [201, '{watcher, token}'],
+  },
+  {
+    method: 'delete',
+    path: '/api/watchers/{id}',
+    tag: 'watchers',
+    summary: 'Revoke a watcher credential',
+    access: ADMIN,
+    success: [200, 'The credential'],
+  },
+  {
+    method: 'get',
+    path: '/api/watchers/presence',
+    tag: 'watchers',
+    summary: 'Per instrument profile: the last watcher report for its drop folder, and whether it is silent',
+    access: MANAGERS,
+    success: [200, '[{profileId, watcherName, version, hostname, lastSeenAt, silent}]'],
+  },
+  {
+    method: 'get',
     path: '/api/intake',
     tag: 'intake',
     summary: 'Received files with their states',
@@ -202,6 +264,14 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One received file',
     access: MANAGERS,
     success: [200, 'The file'],
+  },
+  {
+    method: 'get',
+    path: '/api/intake/raw/{sha256}',
+    tag: 'intake',
+    summary: 'Download the archived raw file by its SHA-256 (Content-Disposition with the cleaned file name)',
+    access: MANAGERS,
+    success: [200, 'The raw bytes; X-Content-SHA256 names their hash'],
   },
   {
     method: 'post',

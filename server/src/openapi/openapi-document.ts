@@ -12,6 +12,8 @@ function describeAccess(op: ApiOperation): string {
   if (op.access === 'public') return 'No sign-in needed.';
   if (op.access === 'instrument')
     return 'An instrument token (Bearer) or a signed-in admin, lab manager or scientist.';
+  if (op.access === 'watcher')
+    return 'A watcher credential (Bearer eqw_…) or, where it says so, an instrument token.';
   return `Roles: ${op.access.join(', ')}.`;
 }
 
@@ -88,7 +90,9 @@ export function buildOpenApiDocument(serverUrl: string): JsonObject {
           ? []
           : op.access === 'instrument'
             ? [{ instrumentToken: [] }, { session: [] }]
-            : [{ session: [] }],
+            : op.access === 'watcher'
+              ? [{ watcherToken: [] }, { instrumentToken: [] }]
+              : [{ session: [] }],
     };
     if (Object.keys(content).length) operation['requestBody'] = { required: true, content };
     paths[op.path] = { ...(paths[op.path] ?? {}), [op.method]: operation };
@@ -109,6 +113,11 @@ export function buildOpenApiDocument(serverUrl: string): JsonObject {
           type: 'http',
           scheme: 'bearer',
           description: 'Instrument token (eqt_…) from the Instruments page',
+        },
+        watcherToken: {
+          type: 'http',
+          scheme: 'bearer',
+          description: 'Watcher credential (eqw_…) from the Instruments page',
         },
       },
     },

@@ -80,7 +80,7 @@ describe('watcher configuration', () => {
     expect(message).toContain('settleMs:');
     expect(message).toContain('instruments.0.folder: must be one folder name');
     expect(message).toContain('instruments.0.token: must be an instrument token');
-    expect(message).toContain('instruments.1.folder: must not be "done" or "rejected"');
+    expect(message).toContain('instruments.1.folder: must not be "done", "rejected" or "quarantined"');
     expect(message).not.toContain('short-secret');
   });
 
@@ -113,5 +113,35 @@ describe('watcher configuration', () => {
       /bad\.json is not valid JSON/,
     );
     expect(() => loadWatcherConfig({ EQUILIGHT_INSTRUMENTS: 'reader-1' })).toThrow(/folder=token pairs/);
+  });
+
+  it('when a watcher credential is given then no instrument list is needed, and neither alone is refused', () => {
+    const credential = `eqw_${'c'.repeat(43)}`;
+    const config = loadWatcherConfig({
+      EQUILIGHT_DROP_DIR: '/tmp/drop',
+      EQUILIGHT_SPOOL_DIR: '/tmp/spool',
+      EQUILIGHT_WATCHER_TOKEN: credential,
+    });
+    expect(config).toMatchObject({
+      watcherToken: credential,
+      instruments: [],
+      folderPollMs: 5000,
+      heartbeatMs: 60_000,
+    });
+    expect(() => parseWatcherConfig({ dropDir: '/tmp/d', spoolDir: '/tmp/s' })).toThrow(
+      /instruments: needs at least one \{ folder, token \}, or a watcherToken/,
+    );
+    let message = '';
+    try {
+      parseWatcherConfig({
+        dropDir: '/tmp/d',
+        spoolDir: '/tmp/s',
+        watcherToken: 'eqt_wrong-kind-of-token-here',
+      });
+    } catch (err) {
+      message = (err as Error).message;
+    }
+    expect(message).toContain('watcherToken: must be a watcher credential (eqw_…)');
+    expect(message).not.toContain('wrong-kind');
   });
 });

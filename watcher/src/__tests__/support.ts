@@ -37,6 +37,10 @@ export class IngestTestServer {
   active = 0;
   maxActive = 0;
   answer: (upload: RecordedUpload) => Answer = (upload) => this.accept(upload);
+  /** Answers GET /api/watcher/files/:id when set (otherwise 404, as an older server). */
+  fileStatus: ((id: number) => Answer) | undefined;
+  /** How often each file's state was asked for. */
+  readonly statusQuestions: number[] = [];
   private server: http.Server | undefined;
   private nextId = 1;
   private readonly firstIdBySha = new Map<string, number>();
@@ -80,18 +84,29 @@ export class IngestTestServer {
 
   private async handle(req: http.IncomingMessage, res: http.ServerResponse): Promise<void> {
     this.requests++;
-    this.active++;
+    // Uploads only: the watcher's reports and state questions are not uploads.
+    const upload = req.url === '/api/ingest';
+    if (upload) this.active++;
     this.maxActive = Math.max(this.maxActive, this.active);
     try {
       await this.respond(req, res);
     } finally {
-      this.active--;
+      if (upload) this.active--;
     }
   }
 
   private async respond(req: http.IncomingMessage, res: http.ServerResponse): Promise<void> {
     const chunks: Buffer[] = [];
     for await (const chunk of req) chunks.push(chunk as Buffer);
+    const status = /^\/api\/watcher\/files\/(\d+)$/.exec(req.url ?? '');
+    if (req.method === 'GET' && status && this.fileStatus) {
+      const id = Number(status[1]);
+      this.statusQuestions.push(id);
+      const answer = this.fileStatus(id);
+      res.writeHead(answer.status, { 'content-type': 'application/json' });
+      res.end(JSON.stringify(answer.body));
+      return;
+    }
     if (req.method !== 'POST' || req.url !== '/api/ingest') {
       res.writeHead(404, { 'content-type': 'application/json' });
       res.end(JSON.stringify({ error: { code: 'not_found', message: 'No such route.' } }));

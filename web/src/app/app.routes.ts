@@ -121,7 +121,7 @@ export const routes: Routes = [
       {
         path: 'instruments',
         title: 'Instruments · Equilight',
-        canActivate: [roleGuard('admin')],
+        canActivate: [roleGuard('admin', 'lab_manager')],
         loadComponent: () => import('./instruments/instruments-page').then((m) => m.InstrumentsPage),
       },
       {

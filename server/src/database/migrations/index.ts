@@ -5,6 +5,7 @@ import { Mail1764630000000 } from './1764630000000-mail';
 import { SessionOwnerHardenA1764700001000 } from './1764700001000-session-owner';
 import { FrozenResults1764648000000 } from './1764648000000-frozen-results';
 import { WebhooksBranchWebhooks1764800000000 } from './1764800000000-webhooks';
+import { Watchers1764900000000 } from './1764900000000-watchers';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -15,4 +16,5 @@ export const migrations = [
   SessionOwnerHardenA1764700001000,
   FrozenResults1764648000000,
   WebhooksBranchWebhooks1764800000000,
+  Watchers1764900000000,
 ];

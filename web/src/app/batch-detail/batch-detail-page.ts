@@ -100,6 +100,8 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
 export class BatchDetailPage {
   private readonly service = inject(BatchDetailService);
   private readonly auth = inject(AuthService);
+  /** Lab managers and admins reach the Intake page and the raw files (the intake routes' roles). */
+  protected readonly seesIntake = computed(() => this.auth.hasRole('admin', 'lab_manager'));
   private readonly live = inject(LiveEventsService);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);

@@ -3,6 +3,8 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { provideRouter } from '@angular/router';
+import { AuthService } from '../core/auth/auth.service';
+import type { Role } from '../core/auth/user';
 import { DEFAULT_RULES, type InstrumentProfile } from './instrument-profile';
 import { InstrumentsPage } from './instruments-page';
 
@@ -46,14 +48,27 @@ const PROFILES: InstrumentProfile[] = [
   },
 ];
 
+/** Reader A's folder was reported a moment ago; nobody reports for the cuvette bench. */
+const PRESENCE = [
+  {
+    profileId: 1,
+    watcherName: 'Bench PC',
+    version: '0.1.0',
+    hostname: 'bench-pc',
+    lastSeenAt: new Date(Date.now() - 120_000).toISOString(),
+    silent: false,
+  },
+];
+
 describe('InstrumentsPage', () => {
-  async function setup() {
+  async function setup(role: Role = 'admin') {
     TestBed.configureTestingModule({
       imports: [InstrumentsPage],
       providers: [
         provideHttpClient(),
         provideHttpClientTesting(),
         provideRouter([]),
+        { provide: AuthService, useValue: { hasRole: (...roles: Role[]) => roles.includes(role) } },
         // Dialogs report closing at once instead of after their closing animation.
         { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
       ],
@@ -61,6 +76,8 @@ describe('InstrumentsPage', () => {
     const fixture = TestBed.createComponent(InstrumentsPage);
     fixture.detectChanges();
     const http = TestBed.inject(HttpTestingController);
+    http.expectOne('/api/watchers/presence').flush(PRESENCE);
+    if (role === 'admin') http.expectOne('/api/watchers').flush([]);
     http.expectOne('/api/instruments').flush(PROFILES);
     await fixture.whenStable();
     return { fixture, http, el: fixture.nativeElement as HTMLElement };
@@ -94,6 +111,22 @@ describe('InstrumentsPage', () => {
     expect(cuvette).toContain('Spectrum');
     expect(cuvette).toContain('None');
     expect(cuvette).toContain('Inactive');
+    // Whether a watcher watches each drop folder, and when it last reported.
+    expect(reader).toMatch(/Watched\s*2 min ago · v0\.1\.0/);
+    expect(cuvette).toContain('No watcher has reported');
+  });
+
+  it('lets a lab manager read a profile but change nothing', async () => {
+    const { fixture, el } = await setup('lab_manager');
+    expect(el.querySelector('[data-testid=add-profile]')).toBeNull();
+    expect(el.querySelector('[data-testid=watchers]')).toBeNull();
+    expect(el.querySelector('button[aria-label="Edit Reader A"]')).toBeNull();
+    expect(rows(el)[1]).not.toContain('eqi_a1B2');
+    el.querySelector<HTMLButtonElement>('button[aria-label="Read Reader A"]')!.click();
+    await fixture.whenStable();
+    expect(overlay().textContent).toContain('Reader A (read only)');
+    expect(overlay().querySelector('[data-testid=profile-save]')).toBeNull();
+    expect(overlay().querySelector<HTMLInputElement>('[data-testid=profile-name]')!.disabled).toBe(true);
   });
 
   it('filters by words shown in the table and sorts by a header', async () => {
@@ -136,6 +169,9 @@ describe('InstrumentsPage', () => {
     for (const [selector, value] of [
       ['[data-testid=profile-name]', 'Reader C'],
       ['[data-testid=drop-subfolder]', 'reader-c'],
+      // A new plate reader: its light path from fill volume and well diameter.
+      ['[data-testid=fill-volume]', '200'],
+      ['[data-testid=well-diameter]', '6.4'],
     ]) {
       const input = overlay().querySelector<HTMLInputElement>(selector)!;
       input.value = value;

@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, type OnInit, inject, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, type OnInit, inject, signal, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -11,6 +11,7 @@ import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { filter, switchMap } from 'rxjs';
+import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { LoadState } from '../shared/page/load-state';
 import { PageHeader } from '../shared/page/page-header';
@@ -25,8 +26,12 @@ import {
 import { InstrumentsService } from './instruments.service';
 import { ProfileDialog, type ProfileDialogData, type ProfileDialogResult } from './profile-dialog';
 import { TokenDialog, type TokenDialogData } from './token-dialog';
+import { type WatcherCredential, type WatcherPresence, WatchersService } from './watchers.service';
 
-/** Admins: the instruments whose exports Equilight accepts, how they are read, and their tokens. */
+/**
+ * The instruments whose exports Equilight accepts, how they are read, whether a watcher watches each
+ * drop folder, and (admins) their tokens and the watcher credentials. Lab managers read, admins change.
+ */
 @Component({
   selector: 'eq-instruments-page',
   imports: [
@@ -49,6 +54,9 @@ export class InstrumentsPage implements OnInit {
   private readonly instruments = inject(InstrumentsService);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly watchers = inject(WatchersService);
+  /** Admins change profiles and tokens; lab managers only read them. */
+  protected readonly canEdit = inject(AuthService).hasRole('admin');
 
   protected readonly columns = [
     'name',
@@ -56,10 +64,16 @@ export class InstrumentsPage implements OnInit {
     'plateFormat',
     'fileFormat',
     'dropSubfolder',
-    'token',
+    'watched',
+    ...(this.canEdit ? ['token'] : []),
     'active',
     'actions',
   ];
+  /** Last watcher report per profile id. */
+  protected readonly presence = signal<ReadonlyMap<number, WatcherPresence>>(new Map());
+  protected readonly credentials = signal<WatcherCredential[]>([]);
+  protected readonly newWatcherName = signal('');
+  private readonly now = signal(Date.now());
   private readonly sort = viewChild(MatSort);
   protected readonly dataSource = sortedDataSource<InstrumentProfile>(this.sort);
   protected readonly state = new LoadState();
@@ -103,6 +117,17 @@ export class InstrumentsPage implements OnInit {
   }
 
   protected load(): void {
+    this.now.set(Date.now());
+    this.watchers.presence().subscribe({
+      next: (rows) => this.presence.set(new Map(rows.map((r) => [r.profileId, r]))),
+      error: () => this.presence.set(new Map()),
+    });
+    if (this.canEdit) {
+      this.watchers.list().subscribe({
+        next: (rows) => this.credentials.set(rows),
+        error: () => this.credentials.set([]),
+      });
+    }
     this.state.load(this.instruments.list(), (profiles) => (this.dataSource.data = profiles));
   }
 
@@ -118,6 +143,64 @@ export class InstrumentsPage implements OnInit {
     return FILE_FORMAT_LABELS[p.fileFormat];
   }
 
+  /** "2 min ago", "3 h ago", or the date: how long since a watcher last reported. */
+  protected ago(iso: string | null): string {
+    if (!iso) return 'never';
+    const seconds = Math.max(0, Math.round((this.now() - Date.parse(iso)) / 1000));
+    if (seconds < 90) return seconds < 10 ? 'just now' : `${seconds} s ago`;
+    const minutes = Math.round(seconds / 60);
+    if (minutes < 90) return `${minutes} min ago`;
+    const hours = Math.round(minutes / 60);
+    if (hours < 36) return `${hours} h ago`;
+    return iso.slice(0, 10);
+  }
+
+  protected watcherSummary(w: WatcherCredential): string {
+    return [
+      `last report ${this.ago(w.lastSeenAt)}`,
+      w.version ? `version ${w.version}` : '',
+      w.hostname ? `on ${w.hostname}` : '',
+      w.folders.length ? `watching ${w.folders.join(', ')}` : '',
+    ]
+      .filter(Boolean)
+      .join(', ');
+  }
+
+  protected createWatcher(): void {
+    const name = this.newWatcherName().trim();
+    if (!name) return;
+    this.watchers.create(name).subscribe({
+      next: ({ watcher, token }) => {
+        this.newWatcherName.set('');
+        this.dialog.open<TokenDialog, TokenDialogData>(TokenDialog, {
+          data: { profileName: watcher.name, token, kind: 'watcher' },
+          width: '560px',
+          maxWidth: '96vw',
+          disableClose: true,
+        });
+        this.load();
+      },
+      error: (err: unknown) => this.snackBar.open(apiErrorMessage(err), 'OK'),
+    });
+  }
+
+  protected revokeWatcher(watcher: WatcherCredential): void {
+    this.confirm({
+      title: `Revoke the watcher credential ${watcher.name}?`,
+      message:
+        'That watcher can no longer learn its folders or send files; files it holds wait in its spool. Files already received are kept.',
+      confirmLabel: 'Revoke',
+    })
+      .pipe(switchMap(() => this.watchers.revoke(watcher.id)))
+      .subscribe({
+        next: () => {
+          this.snackBar.open(`${watcher.name} revoked`, 'OK', { duration: 4000 });
+          this.load();
+        },
+        error: (err: unknown) => this.snackBar.open(apiErrorMessage(err), 'OK'),
+      });
+  }
+
   protected applyFilter(value: string): void {
     this.dataSource.filter = value.trim().toLowerCase();
   }
@@ -125,7 +208,7 @@ export class InstrumentsPage implements OnInit {
   protected openDialog(profile?: InstrumentProfile): void {
     this.dialog
       .open<ProfileDialog, ProfileDialogData, ProfileDialogResult>(ProfileDialog, {
-        data: { profile },
+        data: { profile, readOnly: !this.canEdit },
         width: '960px',
         maxWidth: '96vw',
         autoFocus: 'first-tabbable',

@@ -98,7 +98,9 @@ describe('ProfileDialog', () => {
     ]) {
       expect(text).toContain(label);
     }
-    expect(text).toContain('cm');
+    // A new plate reader starts from fill volume and well diameter (its light path follows from them).
+    expect(text).toContain('µL');
+    expect(text).toContain('mm');
     expect(text).toContain('nm');
   });
 
@@ -107,6 +109,9 @@ describe('ProfileDialog', () => {
     type(el, '[data-testid=profile-name]', 'Reader A');
     type(el, '[data-testid=drop-subfolder]', 'reader-a');
     type(el, '[data-testid=file-name-pattern]', '^run-(\\d+)');
+    // A new plate reader asks for fill volume and well diameter (its path length follows), not 1 cm.
+    type(el, '[data-testid=fill-volume]', '200');
+    type(el, '[data-testid=well-diameter]', '6.4');
     submit(el);
     const req = http.expectOne({ method: 'POST', url: '/api/instruments' });
     expect(req.request.body).toEqual({
@@ -115,9 +120,9 @@ describe('ProfileDialog', () => {
       plateFormat: '96',
       fileFormat: 'long_table',
       rules: DEFAULT_RULES,
-      pathLengthCm: 1,
-      fillVolumeUl: null,
-      wellDiameterMm: null,
+      pathLengthCm: null,
+      fillVolumeUl: 200,
+      wellDiameterMm: 6.4,
       defaultWavelengthNm: null,
       dropSubfolder: 'reader-a',
       fileNamePattern: '^run-(\\d+)',

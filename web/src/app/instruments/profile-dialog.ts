@@ -49,6 +49,8 @@ import { TryFileResult } from './try-file-result';
 export interface ProfileDialogData {
   /** Absent to add a new profile. */
   profile?: InstrumentProfile;
+  /** Lab managers: every field shown, nothing changeable, no save. */
+  readOnly?: boolean;
 }
 
 export type ProfileDialogResult =
@@ -103,6 +105,7 @@ export class ProfileDialog {
   private readonly dialogRef = inject<MatDialogRef<ProfileDialog, ProfileDialogResult>>(MatDialogRef);
   protected readonly data = inject<ProfileDialogData>(MAT_DIALOG_DATA);
   protected readonly editing = !!this.data.profile;
+  protected readonly readOnly = !!this.data.readOnly && !!this.data.profile;
 
   protected readonly kinds = entries(KIND_LABELS);
   protected readonly plateFormats = entries(PLATE_FORMAT_LABELS);
@@ -147,6 +150,8 @@ export class ProfileDialog {
       if (kind === 'cuvette_spectrophotometer') {
         c.plateFormat.setValue('cuvette');
         c.geometry.setValue('pathLength');
+        // The common cuvette is 1 cm; offered, not forced.
+        if (c.pathLengthCm.value === null) c.pathLengthCm.setValue(1);
       } else if (c.plateFormat.value === 'cuvette') {
         c.plateFormat.setValue('96');
       }
@@ -155,6 +160,7 @@ export class ProfileDialog {
       .pipe(takeUntilDestroyed())
       .subscribe(() => this.applyGeometryValidators());
     this.applyGeometryValidators();
+    if (this.readOnly) this.form.disable({ emitEvent: false });
   }
 
   private buildForm(p: InstrumentProfile | undefined) {
@@ -190,8 +196,10 @@ export class ProfileDialog {
         },
         { validators: decimalNeedsOtherDelimiter },
       ),
-      geometry: [(p?.fillVolumeUl != null ? 'fillVolume' : 'pathLength') as Geometry],
-      pathLengthCm: [p ? p.pathLengthCm : (1 as number | null), [positive, Validators.max(100)]],
+      // A new plate reader's light path follows from its fill volume and well diameter (a plate well is
+      // not 1 cm deep); an existing profile keeps what it has.
+      geometry: [(p ? (p.fillVolumeUl != null ? 'fillVolume' : 'pathLength') : 'fillVolume') as Geometry],
+      pathLengthCm: [p ? p.pathLengthCm : (null as number | null), [positive, Validators.max(100)]],
       fillVolumeUl: [p?.fillVolumeUl ?? (null as number | null), [positive, Validators.max(5000)]],
       wellDiameterMm: [p?.wellDiameterMm ?? (null as number | null), [positive, Validators.max(100)]],
       defaultWavelengthNm: [
@@ -284,6 +292,7 @@ export class ProfileDialog {
   }
 
   protected async save(): Promise<void> {
+    if (this.readOnly) return;
     if (this.form.invalid) {
       this.form.markAllAsTouched();
       this.error.set('Some fields need attention; they are marked in red.');

@@ -7,6 +7,8 @@ import { MatIconModule } from '@angular/material/icon';
 export interface TokenDialogData {
   profileName: string;
   token: string;
+  /** A watcher credential rather than one instrument's token. */
+  kind?: 'instrument' | 'watcher';
 }
 
 /** The one moment a plaintext instrument token is visible; the server keeps only its hash. */
@@ -14,13 +16,17 @@ export interface TokenDialogData {
   selector: 'eq-token-dialog',
   imports: [MatDialogModule, MatButtonModule, MatIconModule, ClipboardModule],
   template: `
-    <h2 mat-dialog-title>Instrument token for {{ data.profileName }}</h2>
+    <h2 mat-dialog-title>
+      {{ data.kind === 'watcher' ? 'Watcher credential' : 'Instrument token' }} for {{ data.profileName }}
+    </h2>
     <mat-dialog-content>
       <p class="eq-token-warning" role="alert">
         <mat-icon>warning</mat-icon>
         <span
-          >Copy this token now and put it in the watcher's configuration for this instrument. It is
-          <strong>shown only this once</strong>; if it is lost, rotate the token.</span
+          >Copy this token now and put it in the watcher's configuration
+          {{ data.kind === 'watcher' ? '(watcherToken)' : 'for this instrument' }}. It is
+          <strong>shown only this once</strong>; if it is lost,
+          {{ data.kind === 'watcher' ? 'revoke it and create another' : 'rotate the token' }}.</span
         >
       </p>
       <div class="eq-token-box">

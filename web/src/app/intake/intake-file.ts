@@ -12,6 +12,8 @@ export interface IntakeFile {
   duplicateOfId: number | null;
   error: string | null;
   runId: string | null;
+  /** The batch it was stored in; null while unassigned. */
+  batchId?: number | null;
   readingCount: number;
   source: 'watcher' | 'upload';
   receivedAt: string;
@@ -54,7 +56,11 @@ export const STATUS_DISPLAY: Record<IntakeStatus, { label: string; icon: string;
     hint: 'Same content as an earlier file; not stored again',
   },
   quarantined: { label: 'Quarantined', icon: 'report', hint: 'Did not parse; kept for a fix and a re-queue' },
-  unassigned: { label: 'Unassigned', icon: 'help', hint: 'No instrument profile matches it' },
+  unassigned: {
+    label: 'Unassigned',
+    icon: 'help',
+    hint: 'Readings stored, but no batch waits for its run id — create one, or assign by hand',
+  },
 };
 
 export const INTAKE_STATUSES = Object.keys(STATUS_DISPLAY) as IntakeStatus[];

@@ -98,6 +98,7 @@ describe('IntakePage', () => {
       providers: [
         provideHttpClient(),
         provideHttpClientTesting(),
+        provideRouter([]),
         { provide: LiveEventsService, useValue: { events$: events, connected: signal(false) } },
       ],
     });

@@ -13,6 +13,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSortModule, type Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
+import { ActivatedRoute, RouterLink } from '@angular/router';
 import {
   auditTime,
   catchError,
@@ -32,6 +33,7 @@ import {
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { LiveEventsService } from '../core/live/live-events.service';
 import { InstrumentsService } from '../instruments/instruments.service';
+import { AssignDialog, type AssignDialogData, unassignedHint } from './assign-dialog';
 import { FileSizePipe } from './file-size-pipe';
 import {
   INTAKE_STATUSES,
@@ -67,6 +69,7 @@ export const FILTER_DEBOUNCE_MS = 300;
     MatIconModule,
     MatTooltipModule,
     MatProgressBarModule,
+    RouterLink,
   ],
   templateUrl: './intake-page.html',
   styleUrl: './intake-page.scss',
@@ -97,7 +100,9 @@ export class IntakePage {
 
   protected readonly status = signal<IntakeStatus | ''>('');
   protected readonly profileId = signal<number | null>(null);
-  protected readonly q = signal('');
+  /** `/intake?q=<sha256>` (a batch's file links here) opens the list filtered to that file. */
+  protected readonly initialQ = (inject(ActivatedRoute).snapshot.queryParamMap.get('q') ?? '').slice(0, 200);
+  protected readonly q = signal(this.initialQ.trim());
   protected readonly sort = signal<IntakeSort>('receivedAt');
   protected readonly dir = signal<'asc' | 'desc'>('desc');
   protected readonly pageIndex = signal(0);
@@ -219,6 +224,31 @@ export class IntakePage {
 
   protected shortHash(sha256: string): string {
     return sha256.length > 12 ? `${sha256.slice(0, 12)}…` : sha256;
+  }
+
+  protected unassignedHint(file: IntakeFile): string {
+    return unassignedHint(file.runId);
+  }
+
+  protected rawUrl(file: IntakeFile): string {
+    return `/api/intake/raw/${file.sha256}`;
+  }
+
+  protected openAssign(file: IntakeFile): void {
+    this.dialog
+      .open<AssignDialog, AssignDialogData, IntakeFile>(AssignDialog, {
+        data: { file },
+        width: '560px',
+        maxWidth: '96vw',
+      })
+      .afterClosed()
+      .subscribe((assigned) => {
+        if (!assigned) return;
+        this.snackBar.open(`${file.originalName} assigned to batch #${assigned.batchId}`, 'OK', {
+          duration: 4000,
+        });
+        this.reload$.next();
+      });
   }
 
   protected requeue(file: IntakeFile): void {

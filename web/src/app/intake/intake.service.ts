@@ -44,6 +44,11 @@ export class IntakeService {
     return this.http.post<unknown>(`/api/intake/${id}/requeue`, {}).pipe(map(checkFile));
   }
 
+  /** Put an unassigned file into a batch of the same instrument (lab managers, admins). */
+  assign(id: number, batchId: number): Observable<IntakeFile> {
+    return this.http.post<unknown>(`/api/intake/${id}/assign`, { batchId }).pipe(map(checkFile));
+  }
+
   /** A person's upload: the same route the watcher uses, answered at once with the intake id. */
   upload(profileId: number, file: File): Observable<IngestReceipt> {
     const body = new FormData();

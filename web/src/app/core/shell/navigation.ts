@@ -28,7 +28,12 @@ export const NAV_ITEMS: readonly NavItem[] = [
     roles: ['admin', 'lab_manager', 'scientist'],
   },
   { path: '/planner', label: 'Planner', icon: 'calculate', roles: ['admin', 'lab_manager', 'scientist'] },
-  { path: '/instruments', label: 'Instruments', icon: 'precision_manufacturing', roles: ['admin'] },
+  {
+    path: '/instruments',
+    label: 'Instruments',
+    icon: 'precision_manufacturing',
+    roles: ['admin', 'lab_manager'],
+  },
   { path: '/people', label: 'People', icon: 'group', roles: ['admin'] },
   { path: '/outbox', label: 'Outbox', icon: 'outgoing_mail', roles: ['admin'] },
   { path: '/webhooks', label: 'Webhooks', icon: 'webhook', roles: ['admin'] },
