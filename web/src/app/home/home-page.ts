@@ -112,6 +112,12 @@ export class HomePage {
     this.refresh$.next();
   }
 
+  protected openSubtitle(o: Overview): string {
+    const shown = o.openBatches.items.length;
+    const more = o.openBatches.total > shown ? ` · newest ${shown} shown` : '';
+    return `${o.openBatches.total} not approved${more}`;
+  }
+
   protected progressValue(b: OverviewBatch): number {
     return b.expectedFiles > 0 ? Math.min(100, (100 * b.storedFiles) / b.expectedFiles) : 0;
   }
