@@ -34,6 +34,8 @@ import { reportsRouter } from './reports/reports.router';
 import { ManifestsService } from './manifests/manifests.service';
 import { SqliteJobQueue, SqliteJobWorker } from './queue/sqlite-queue';
 import { buildOpenApiDocument } from './openapi/openapi-document';
+import { overviewRouter } from './overview/overview.router';
+import { OverviewService } from './overview/overview.service';
 import { temperaturesRouter } from './temperatures/temperatures.router';
 import { TemperaturesService } from './temperatures/temperatures.service';
 import { usersRouter } from './users/users.router';
@@ -200,6 +202,10 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   mail.mount(api);
   api.use('/webhooks', webhooks.router);
   api.use('/audit', auditRouter(audit));
+  api.use(
+    '/overview',
+    overviewRouter(new OverviewService(dataSource, batches, { fourEyesApproval: config.fourEyesApproval })),
+  );
   api.use('/temperatures', temperaturesRouter(new TemperaturesService(batches)));
   api.use(apiNotFound);
   // JSON and CSV answers go out gzip'd or brotli'd when the client takes it (a batch's analysis, ~46 kB, goes out as ~9 kB).

@@ -3,7 +3,7 @@ import path from 'node:path';
 import type { Browser } from 'playwright-core';
 import { navItemsFor } from '../src/app/core/shell/navigation';
 import { launchChromium } from './support/browser';
-import { expectEventually } from './support/eventually';
+import { eventually, expectEventually } from './support/eventually';
 import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
 
 jest.setTimeout(90_000);
@@ -68,10 +68,16 @@ describe('signing in through Chromium', () => {
     });
     expect(iconFont).toBe(true);
     if (forbidden) {
-      // a page of another role is not shown: the guard sends the person to their overview
+      // a page of another role is not shown: the guard says so, names the roles, and links to the Overview
       await page.goto(`${server.url}${forbidden}`);
+      const message = await eventually(
+        () => page.getByTestId('not-allowed-message').innerText(),
+        (text) => text.includes('You are signed in as'),
+      );
+      expect(message).toContain(`You are signed in as ${role}.`);
+      expect(new URL(page.url()).pathname).toBe(forbidden);
+      await page.getByRole('link', { name: 'Back to the Overview' }).click();
       await page.getByTestId('role-label').waitFor();
-      expect(new URL(page.url()).pathname).toBe('/');
     }
     await page.screenshot({
       path: path.join(SCREENSHOT_DIR, `sign-in-${role.toLowerCase().replace(/\s+/g, '-')}.png`),

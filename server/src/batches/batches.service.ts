@@ -22,6 +22,11 @@ import {
   batchSettingsSchema,
 } from './batches.schema';
 
+/** What a cached summary is valid for: the batch row and its stored files as they are. */
+function summaryKey(updatedAt: string, storedFiles: number, lastFileAt: string): string {
+  return `${updatedAt}|${storedFiles}|${lastFileAt}`;
+}
+
 /** The headline of a batch's analysis, for lists: QC flags, the best stoichiometry and its K. */
 export interface BatchResultSummary {
   qcFlagCount: number;
@@ -656,9 +661,23 @@ export class BatchesService {
       createdBy: b.createdById ? (names.get(b.createdById) ?? null) : null,
       summary:
         withSummary && files.length
-          ? await this.summary(b, `${updatedAt}|${files.length}|${lastFile}`)
+          ? await this.summary(b, summaryKey(updatedAt, files.length, lastFile))
           : null,
     };
+  }
+
+  /**
+   * The headline already worked out for this batch as it is now (same row, same stored files), or null:
+   * never runs an analysis (the Overview reads this).
+   */
+  knownSummary(
+    b: Pick<Batch, 'id' | 'updatedAt'>,
+    storedFiles: number,
+    lastFileAt: string | null,
+  ): BatchResultSummary | null {
+    const cached = this.summaries.get(b.id);
+    const key = summaryKey(new Date(b.updatedAt).toISOString(), storedFiles, lastFileAt ?? '');
+    return cached?.key === key ? cached.summary : null;
   }
 
   /** The analysis headline: of the approval record when approved, else computed once per change. */

@@ -14,6 +14,7 @@ import { createProfileSchema, updateProfileSchema } from '../instruments/instrum
 import { createLayoutSchema, updateLayoutSchema } from '../layouts/layouts.schema';
 import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from '../mail/mail.schema';
 import { manifestMetaSchema } from '../manifests/manifests.schema';
+import { overviewQuerySchema } from '../overview/overview.router';
 import { temperaturesQuerySchema } from '../temperatures/temperatures.router';
 import { createUserSchema, updateUserSchema } from '../users/users.schema';
 import { createWatcherSchema, heartbeatSchema } from '../watchers/watchers.schema';
@@ -124,6 +125,19 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List instrument profiles (lab managers read, admins change)',
     access: MANAGERS,
     success: [200, 'Profiles (tokens are never listed)'],
+  },
+  {
+    method: 'get',
+    path: '/api/overview',
+    tag: 'overview',
+    summary:
+      "The signed-in person's starting point: open batches with progress and known QC, what awaits their review; lab managers and admins also get files quarantined today and silent instruments",
+    access: ALL,
+    query: overviewQuerySchema,
+    success: [
+      200,
+      'role, openBatches, awaitingMe, and for lab managers and admins quarantinedToday and silentInstruments',
+    ],
   },
   {
     method: 'get',

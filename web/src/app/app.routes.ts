@@ -30,6 +30,11 @@ export const routes: Routes = [
         loadComponent: () => import('./home/home-page').then((m) => m.HomePage),
       },
       {
+        path: 'not-allowed',
+        title: 'Not allowed · Equilight',
+        loadComponent: () => import('./core/auth/not-allowed-page').then((m) => m.NotAllowedPage),
+      },
+      {
         path: 'batches',
         title: 'Batches · Equilight',
         canActivate: [roleGuard('admin', 'lab_manager', 'scientist')],

@@ -1,5 +1,5 @@
 import { inject } from '@angular/core';
-import { type CanActivateFn, Router } from '@angular/router';
+import { type CanActivateFn, RedirectCommand, Router } from '@angular/router';
 import { AuthService } from './auth.service';
 import type { Role } from './user';
 
@@ -10,11 +10,20 @@ export const signedInGuard: CanActivateFn = (_route, state) => {
   return inject(Router).createUrlTree(['/sign-in'], { queryParams: { returnUrl: state.url } });
 };
 
-/** Only the given roles may open the route; others land on their overview. */
+/** The path of the page that says a role may not open a page. */
+export const NOT_ALLOWED_PATH = 'not-allowed';
+
+/**
+ * Only the given roles may open the route. Others see the "not allowed" page, which names the roles
+ * the page is for; the address bar keeps the address they asked for.
+ */
 export function roleGuard(...roles: Role[]): CanActivateFn {
   return () => {
     const auth = inject(AuthService);
     if (auth.hasRole(...roles)) return true;
-    return inject(Router).createUrlTree(['/']);
+    const tree = inject(Router).createUrlTree(['/', NOT_ALLOWED_PATH], {
+      queryParams: { for: roles.join(',') },
+    });
+    return new RedirectCommand(tree, { skipLocationChange: true });
   };
 }
