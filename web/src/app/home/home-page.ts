@@ -8,7 +8,7 @@ import { MatListModule } from '@angular/material/list';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
 import { auditTime, catchError, EMPTY, merge, startWith, Subject, switchMap } from 'rxjs';
-import { BatchStateLabel } from '../batches/batch-state-label';
+import { BatchStateLabel } from '../shared/batch-state/batch-state-label';
 import { AuthService } from '../core/auth/auth.service';
 import { ROLE_LABELS } from '../core/auth/user';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
