@@ -47,15 +47,18 @@ function positionIn(text: string, rules: ParseRules): string | undefined {
  * position as `##XYDATA= (X++(Y..Y))` (any of the standard's compressions) or `##PEAK TABLE= (XY..XY)`,
  * through the jcampconverter package. A block's position comes from its title or sample description
  * (profile rule `jcampPositionFrom`); wavelengths in nm or µm become nm, `##YUNITS=` must be absorbance.
- * A missing value (`?`) is kept as a missing reading. Any problem throws a ParseError naming the block.
+ * `##NPOINTS=` must match the points read (a cut or garbled line, or a `?`, changes the count). Any problem
+ * throws a ParseError naming the block's first line and title.
  */
 export function parseJcamp(text: string, file: string, rules: ParseRules): ParsedRun {
-  if (!/^\s*##\s*TITLE\s*=/im.test(text) || !/##\s*END\s*=/i.test(text))
+  if (!/^\s*##\s*TITLE\s*=/im.test(text))
     throw new ParseError({
       file,
       expected: 'a JCAMP-DX file: labelled records from "##TITLE=" to "##END="',
       found: text.trimStart().split(/\r?\n/, 1)[0] ?? '',
     });
+  if (!/##\s*END\s*=/i.test(text))
+    throw new ParseError({ file, detail: 'the JCAMP-DX file ends before its "##END=" (cut off?)' });
   let entries: Entry[];
   try {
     entries = convert(text, {
