@@ -50,3 +50,4 @@ export * from './spectral-fit';
 export * from './spectral-options';
 export * from './spectral-matrix';
 export * from './spectral-analysis';
+export * from './pathlength-water-wells';
