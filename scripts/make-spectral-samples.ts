@@ -2,7 +2,9 @@
  * Writes the invented whole-spectrum demo files of samples/analysis/: a cuvette run of an invented 1:1
  * dye–receptor system read from 350 to 700 nm every 2 nm, generated from a chosen K and species spectra
  * (Gaussian bands) with small seeded noise, in three formats: a long table, the spectrum CSV (one column
- * per cuvette) and JCAMP-DX (one linked file with a block per cuvette, and single-block files).
+ * per cuvette) and JCAMP-DX (one linked file with a block per cuvette, and single-block files). The same
+ * spectra are the demo's scanning-spectrophotometer run SP-7 (samples/demo/spectra, exports/scanner-1): its
+ * manifest and two JCAMP-DX exports (blanks and the Job's series, then the receptor-excess series).
  * Run: npx tsx scripts/make-spectral-samples.ts
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
@@ -152,18 +154,16 @@ function jcampBlock(r: Row): string[] {
   lines.push('##END=');
   return lines;
 }
-const linked = [
-  '##TITLE= Invented dye-receptor run, cuvettes C1-C19',
+/** JCAMP-DX linked blocks (`##BLOCKS=`), one block per cuvette. */
+const linkedFile = (title: string, of: readonly Row[]): string[] => [
+  `##TITLE= ${title}`,
   '##JCAMP-DX= 4.24',
   '##DATA TYPE= LINK',
-  `##BLOCKS= ${rows.length}`,
-  ...rows.flatMap((r, i) => [
-    ...jcampBlock(r).slice(0, 1),
-    `##BLOCK_ID= ${i + 1}`,
-    ...jcampBlock(r).slice(1),
-  ]),
+  `##BLOCKS= ${of.length}`,
+  ...of.flatMap((r, i) => [...jcampBlock(r).slice(0, 1), `##BLOCK_ID= ${i + 1}`, ...jcampBlock(r).slice(1)]),
   '##END=',
 ];
+const linked = linkedFile('Invented dye-receptor run, cuvettes C1-C19', rows);
 
 writeFileSync(resolve(OUT, 'spectra-manifest.csv'), manifest.join('\n') + '\n');
 writeFileSync(resolve(OUT, 'spectra-long.csv'), longTable.join('\n') + '\n');
@@ -172,4 +172,19 @@ writeFileSync(resolve(OUT, 'spectra.jdx'), linked.join('\n') + '\n');
 mkdirSync(JCAMP_OUT, { recursive: true });
 for (const r of rows.slice(0, 4))
   writeFileSync(resolve(JCAMP_OUT, `${r.position}.jdx`), jcampBlock(r).join('\n') + '\n');
+// The demo scenario's scanning-spectrophotometer run SP-7: the same spectra, in two exports.
+const DEMO = resolve(__dirname, '../samples/demo');
+mkdirSync(resolve(DEMO, 'spectra'), { recursive: true });
+mkdirSync(resolve(DEMO, 'exports/scanner-1'), { recursive: true });
+writeFileSync(resolve(DEMO, 'spectra/manifest.csv'), manifest.join('\n') + '\n');
+const part1 = rows.filter((r) => !r.sampleId.startsWith('XS-'));
+const part2 = rows.filter((r) => r.sampleId.startsWith('XS-'));
+writeFileSync(
+  resolve(DEMO, 'exports/scanner-1/SP-7-part1.jdx'),
+  linkedFile('Run SP-7 part 1: blanks and Job series (invented demo data)', part1).join('\n') + '\n',
+);
+writeFileSync(
+  resolve(DEMO, 'exports/scanner-1/SP-7-part2.jdx'),
+  linkedFile('Run SP-7 part 2: receptor-excess series (invented demo data)', part2).join('\n') + '\n',
+);
 console.log(`wrote ${rows.length} positions × ${wavelengths.length} wavelengths to ${OUT}`);
