@@ -154,7 +154,7 @@ export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean
         runId: 'SP-7',
         expectedFiles: 2,
         systemName: SPECTRA_SYSTEM,
-        temperatureC: 25,
+        // No temperature: one run is no van 't Hoff series (Temperatures lists the metal–ligand system).
         settings: { wavelengthNm: 496, pathLengthCm: 1, candidates: ['1:1', '1:2', '2:1'] },
       },
       creator,

@@ -31,7 +31,8 @@ describe('demo scenario', () => {
     expect(system.vantHoff!.deltaHJPerMol / 1000).toBeGreaterThan(-30);
     expect(system.vantHoff!.deltaHJPerMol / 1000).toBeLessThan(-8);
     expect(await seedDemoScenario(t)).toBe(false);
-  });
+    // Not a speed check: two approvals with their records on a shared machine.
+  }, 120_000);
 
   it('fills the scanning run SP-7 from its two JCAMP-DX exports, and its analysis gives the whole-spectrum K', async () => {
     const scanner = (await t.services.instruments.list()).find((p) => p.dropSubfolder === 'scanner-1')!;
