@@ -8,6 +8,17 @@ const esmPackages = [
   'eventemitter3',
   'chokidar',
   'readdirp',
+  // jcampconverter and its dependencies are ES modules.
+  'jcampconverter',
+  'ensure-string',
+  'dynamic-typing',
+  'ml-array-median',
+  'ml-array-max',
+  'ml-array-min',
+  'ml-array-rescale',
+  'is-any-array',
+  'median-quickselect',
+  'gyromagnetic-ratio',
 ];
 const transformIgnorePatterns = [`node_modules/(?!(${esmPackages.join('|')})/)`];
 const nodeTransform = {

@@ -12,6 +12,7 @@ import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
 import {
   analyzeBatch,
+  analyzeSpectra,
   AnalysisError,
   type AnalysisSettings,
   type BatchResult,
@@ -28,6 +29,7 @@ import {
   parseStoichiometry,
   type Reading,
   significantDigits,
+  type SpectralAnalysisResult,
 } from '../server/src/analysis';
 import { parseInstrumentFile, parseManifestCsv, ParseError, type PlateFormat } from '../server/src/parsers';
 
@@ -41,7 +43,7 @@ const CONCENTRATION_UNIT = 'mol/L';
 const OPTIONS = [
   ['--readings <file>', 'instrument export to analyse (required)'],
   ['--manifest <file>', 'manifest CSV: position, sample_id, role, concentrations, volumes (required)'],
-  ['--format <format>', 'readings format: long-table (default), plate-grid or spectrum'],
+  ['--format <format>', 'readings format: long-table (default), plate-grid, spectrum or jcamp-dx'],
   ['--plate <format>', '96, 384 or cuvette (default: guessed from the manifest positions)'],
   ['--wavelength <nm>', 'wavelength to analyse, nm; required when the readings hold several'],
   ['--path-cm <cm>', 'path length, cm (default 1)'],
@@ -55,6 +57,12 @@ const OPTIONS = [
   ['--ceiling <A>', 'absorbance ceiling of the linear range (default 1.0)'],
   ['--exclude <list>', `positions to leave out, comma-separated, e.g. A3,B7 (reason: "${EXCLUSION_REASON}")`],
   ['--fit-baseline', 'fit a constant absorbance with K and ε (a reactant held constant absorbs too)'],
+  [
+    '--all-wavelengths',
+    'also fit K to the whole spectrum (every wavelength read); adds "spectral" to the output',
+  ],
+  ['--from <nm>', 'start of the wavelength range of --all-wavelengths, nm (default: first read)'],
+  ['--to <nm>', 'end of the wavelength range of --all-wavelengths, nm (default: last read)'],
   ['--mc <draws>', 'Monte Carlo uncertainty of K with this many draws (integer ≥ 10)'],
   ['--seed <n>', 'seed of the Monte Carlo draws (integer, default 1; needs --mc)'],
   ['--json', 'print one JSON object (snake_case keys) instead of the summary'],
@@ -76,7 +84,7 @@ class UsageError extends Error {}
 interface CliOptions {
   readings: string;
   manifest: string;
-  format: 'long_table' | 'plate_grid' | 'spectrum';
+  format: 'long_table' | 'plate_grid' | 'spectrum' | 'jcamp_dx';
   plate: PlateFormat | null;
   wavelengthNm: number | null;
   pathLengthCm: number | undefined;
@@ -87,6 +95,9 @@ interface CliOptions {
   ceiling: number | undefined;
   exclude: string[];
   fitBaseline: boolean;
+  allWavelengths: boolean;
+  fromNm: number | null;
+  toNm: number | null;
   mcDraws: number;
   seed: number;
   json: boolean;
@@ -143,7 +154,12 @@ function excludeOption(text: string | undefined): string[] {
   return [...new Set(items)];
 }
 
-const FORMATS = { 'long-table': 'long_table', 'plate-grid': 'plate_grid', spectrum: 'spectrum' } as const;
+const FORMATS = {
+  'long-table': 'long_table',
+  'plate-grid': 'plate_grid',
+  spectrum: 'spectrum',
+  'jcamp-dx': 'jcamp_dx',
+} as const;
 
 /** Reads and checks the command line; throws UsageError with one line naming the option. */
 export function parseCommandLine(argv: string[]): CliOptions | 'help' {
@@ -172,6 +188,9 @@ export function parseCommandLine(argv: string[]): CliOptions | 'help' {
         ceiling: { type: 'string' },
         exclude: { type: 'string' },
         'fit-baseline': { type: 'boolean', default: false },
+        'all-wavelengths': { type: 'boolean', default: false },
+        from: { type: 'string' },
+        to: { type: 'string' },
         mc: { type: 'string' },
         seed: { type: 'string' },
         json: { type: 'boolean', default: false },
@@ -189,7 +208,17 @@ export function parseCommandLine(argv: string[]): CliOptions | 'help' {
   if (values.plate !== undefined && !['96', '384', 'cuvette'].includes(values.plate))
     throw new UsageError(`--plate must be 96, 384 or cuvette, got "${values.plate}"`);
   if (values.format !== undefined && !(values.format in FORMATS))
-    throw new UsageError(`--format must be long-table, plate-grid or spectrum, got "${values.format}"`);
+    throw new UsageError(
+      `--format must be long-table, plate-grid, spectrum or jcamp-dx, got "${values.format}"`,
+    );
+  const fromNm = positiveOption('from', values.from, 'nm') ?? null;
+  const toNm = positiveOption('to', values.to, 'nm') ?? null;
+  if ((fromNm !== null || toNm !== null) && !values['all-wavelengths'])
+    throw new UsageError(
+      `--${fromNm !== null ? 'from' : 'to'} limits the whole-spectrum fit: it needs --all-wavelengths`,
+    );
+  if (fromNm !== null && toNm !== null && fromNm >= toNm)
+    throw new UsageError(`--from ${values.from} nm must be below --to ${values.to} nm`);
   const epsilon = positiveOption('epsilon', values.epsilon, EPSILON_UNIT) ?? null;
   const epsilonSe = numberOption('epsilon-se', values['epsilon-se']);
   if (epsilonSe !== undefined && !(epsilonSe >= 0))
@@ -221,6 +250,9 @@ export function parseCommandLine(argv: string[]): CliOptions | 'help' {
     ceiling: positiveOption('ceiling', values.ceiling, 'absorbance'),
     exclude: excludeOption(values.exclude),
     fitBaseline: values['fit-baseline'],
+    allWavelengths: values['all-wavelengths'],
+    fromNm,
+    toNm,
     mcDraws: mcDraws ?? 0,
     seed: seed ?? 1,
     json: values.json,
@@ -487,6 +519,127 @@ export function toCliJson(r: BatchResult): Record<string, unknown> {
   };
 }
 
+/** Wavelengths read within --from…--to (the analysis module's ½ pm grid), sorted. */
+function wavelengthsInRange(readings: readonly Reading[], o: CliOptions): number[] {
+  const present = [...new Set(readings.map((r) => r.wavelengthNm))].filter((w) => Number.isFinite(w));
+  return present
+    .filter((w) => (o.fromNm === null || w >= o.fromNm - 5e-4) && (o.toNm === null || w <= o.toNm + 5e-4))
+    .sort((a, b) => a - b);
+}
+
+/**
+ * Checks that --all-wavelengths has spectra to fit: at least 2 wavelengths within --from…--to. A file
+ * with one wavelength, or a range that holds fewer than two, is a usage error naming what the file holds.
+ */
+function checkSpectra(readings: readonly Reading[], o: CliOptions, file: string): void {
+  const all = [...new Set(readings.map((r) => r.wavelengthNm))].sort((a, b) => a - b);
+  if (all.length < 2)
+    throw new UsageError(
+      `--all-wavelengths needs spectra: ${file} holds readings at ${all.length === 1 ? `one wavelength (${all[0]} nm)` : 'no wavelength'}`,
+    );
+  const inRange = wavelengthsInRange(readings, o);
+  if (inRange.length < 2) {
+    const range = `${o.fromNm ?? all[0]}–${o.toNm ?? all[all.length - 1]} nm`;
+    throw new UsageError(
+      `--from/--to: ${file} has ${inRange.length === 0 ? 'no wavelength' : 'only one wavelength'} within ${range}; ` +
+        `it holds ${all[0]}–${all[all.length - 1]} nm (${all.length} wavelengths)`,
+    );
+  }
+}
+
+/**
+ * The wavelength the single-wavelength analysis takes with --all-wavelengths and no --wavelength: where
+ * the best whole-spectrum model's complex absorbs most beyond its reactants (max of ε_complex − Σ ε_reactant).
+ */
+function complexWavelength(s: SpectralAnalysisResult): number | null {
+  const fit = s.candidates.find((c) => c.model === s.best);
+  const complex = fit?.speciesSpectra.find((x) => x.role === 'complex');
+  if (!fit || !complex) return null;
+  const reactants = fit.speciesSpectra.filter((x) => x.role !== 'complex');
+  let best = -1;
+  let bestScore = -Infinity;
+  complex.epsilon.forEach((e, j) => {
+    const score = e - reactants.reduce((sum, r) => sum + Math.max(0, r.epsilon[j]), 0);
+    if (score > bestScore) [best, bestScore] = [j, score];
+  });
+  return best < 0 ? null : s.wavelengthsNm[best];
+}
+
+function spectralStatement(c: SpectralAnalysisResult['candidates'][number]): KStatement {
+  return {
+    model: c.model,
+    status: c.kStatus,
+    k: c.k,
+    kCi95: c.kCi95,
+    kLowerBound95: c.kLowerBound95,
+    kUpperBound95: c.kUpperBound95,
+    message: c.converged ? null : c.message,
+  };
+}
+
+/**
+ * The `spectral` object of the JSON: species count and singular values, one entry per candidate (K with
+ * its 95 % profile-likelihood interval and unit, AIC, converged), the best candidate and the range used.
+ */
+export function spectralJson(s: SpectralAnalysisResult, singleWavelengthNm: number): Record<string, unknown> {
+  const rankOf = new Map(s.ranking.ranked.map((r) => [r.model, r]));
+  return {
+    species_count: s.speciesCount,
+    singular_values: s.singularValues,
+    noise_level: s.noiseLevel,
+    noise_sd: s.noiseSd,
+    species_count_method: s.speciesCountMethod,
+    wavelength_range_nm: [s.wavelengthsNm[0], s.wavelengthsNm[s.wavelengthsNm.length - 1]],
+    n_wavelengths: s.wavelengthsNm.length,
+    n_mixtures: s.mixtures.length,
+    candidates: s.candidates.map((c) => {
+      const failed = c.kStatus === 'not-converged' || c.kStatus === 'not-determined';
+      const r = rankOf.get(c.model);
+      return {
+        model: c.model,
+        K: hasValue(c.kStatus) ? c.k : null,
+        K_ci95: failed ? null : (c.kCi95 ?? [null, null]),
+        K_unit: c.kUnit || kUnitOf(c.model),
+        K_status: c.kStatus,
+        K_text: formatK(spectralStatement(c)),
+        aic: c.aic,
+        delta_aic: r?.deltaAic ?? null,
+        rank: r?.rank ?? null,
+        ruled_out: r?.ruledOut ?? false,
+        residual_sd: c.residualSd,
+        converged: c.converged,
+        warnings: c.warnings,
+      };
+    }),
+    best: s.best,
+    ambiguous: s.ranking.ambiguous,
+    verdict: s.ranking.verdict,
+    single_wavelength_nm: singleWavelengthNm,
+    warnings: s.warnings,
+  };
+}
+
+function spectralSummary(s: SpectralAnalysisResult): string {
+  const w = s.wavelengthsNm;
+  const out = [
+    `Whole spectrum (${w.length} wavelengths, ${w[0]}–${w[w.length - 1]} nm; ${s.mixtures.length} mixtures): ` +
+      `${s.speciesCount} absorbing species from the singular values`,
+  ];
+  const rankOf = new Map(s.ranking.ranked.map((r) => [r.model, r]));
+  for (const c of [...s.candidates].sort(
+    (a, b) => (rankOf.get(a.model)?.rank ?? 99) - (rankOf.get(b.model)?.rank ?? 99),
+  )) {
+    const d = rankOf.get(c.model)?.deltaAic;
+    const k = formatK(spectralStatement(c));
+    out.push(
+      `  ${c.model}: ${c.kStatus === 'determined' ? `K = ${k}` : `K ${k}`}; ΔAIC ${d == null ? '—' : d.toFixed(1)}`,
+    );
+  }
+  out.push(`Whole-spectrum verdict: ${s.ranking.verdict}`);
+  for (const warning of s.warnings) out.push(`Whole-spectrum note: ${warning}`);
+  return out.join('\n');
+}
+
 /** A value ± its uncertainty in one unit, digits following the uncertainty. */
 function withUncertainty(value: number | null, se: number | null, unit: string): string {
   if (value === null) return '—';
@@ -631,9 +784,37 @@ async function main(argv: string[]): Promise<number> {
     format: o.format,
     plateFormat,
   });
-  const wavelengthNm = chooseWavelength(run.readings, o.wavelengthNm, readingsName);
+  if (!o.allWavelengths) {
+    const wavelengthNm = chooseWavelength(run.readings, o.wavelengthNm, readingsName);
+    const result = analyzeBatch(run.readings, manifest.samples, analysisSettings(o, wavelengthNm));
+    process.stdout.write((o.json ? JSON.stringify(toCliJson(result), null, 2) : summary(result)) + '\n');
+    return 0;
+  }
+  checkSpectra(run.readings, o, readingsName);
+  const spectral = analyzeSpectra(run.readings, manifest.samples, {
+    fromNm: o.fromNm,
+    toNm: o.toNm,
+    pathLengthCm: o.pathLengthCm,
+    candidates: o.candidates,
+    exclusions: o.exclude.map((position) => ({ position, reason: EXCLUSION_REASON })),
+    fitBaseline: o.fitBaseline,
+  });
+  // The single-wavelength analysis runs beside it: at --wavelength, or where the complex stands out.
+  const wavelengthNm =
+    o.wavelengthNm !== null
+      ? chooseWavelength(run.readings, o.wavelengthNm, readingsName)
+      : (complexWavelength(spectral) ?? spectral.wavelengthsNm[0]);
   const result = analyzeBatch(run.readings, manifest.samples, analysisSettings(o, wavelengthNm));
-  process.stdout.write((o.json ? JSON.stringify(toCliJson(result), null, 2) : summary(result)) + '\n');
+  if (o.wavelengthNm === null)
+    result.warnings.push(
+      `single-wavelength analysis at ${wavelengthNm} nm, where the whole-spectrum fit's complex absorbs most ` +
+        `beyond its reactants (choose another with --wavelength)`,
+    );
+  process.stdout.write(
+    (o.json
+      ? JSON.stringify({ ...toCliJson(result), spectral: spectralJson(spectral, wavelengthNm) }, null, 2)
+      : `${summary(result)}\n${spectralSummary(spectral)}`) + '\n',
+  );
   return 0;
 }
 

@@ -1,5 +1,6 @@
 // The demo instrument: drops the invented demo exports of samples/demo/exports into the drop folder one
-// by one (written under a temporary name, then renamed, as real instruments do), about a minute in all.
+// by one (written under a temporary name, then renamed, as real instruments do), about a minute and a half
+// in all: the 25 °C cuvette run in three parts, the water plate, and the scanning run SP-7 (JCAMP-DX).
 // Usage: node scripts/demo-instrument.mjs --drop data/drop [--marker data/.demo-instrument-done] [--gap-ms 15000]
 import fs from 'node:fs';
 import path from 'node:path';
@@ -19,7 +20,9 @@ const gapMs = Number(values['gap-ms']);
 const plan = [
   ['cuvette-1', 'CX-25-part1.csv'],
   ['plate-reader-1', 'FE-101.csv'],
+  ['scanner-1', 'SP-7-part1.jdx'],
   ['cuvette-1', 'CX-25-part2.csv'],
+  ['scanner-1', 'SP-7-part2.jdx'],
   ['cuvette-1', 'CX-25-part3.csv'],
 ];
 

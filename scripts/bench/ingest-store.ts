@@ -88,6 +88,7 @@ async function main(): Promise<void> {
         replicate: 'replicate',
       },
       spectrumWavelengthColumn: 'wavelength_nm',
+      jcampPositionFrom: 'title',
     },
     pathLengthCm: null,
     fillVolumeUl: 80,

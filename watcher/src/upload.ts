@@ -47,6 +47,10 @@ const MEDIA_TYPES: Record<string, string> = {
   '.csv': 'text/csv',
   '.tsv': 'text/tab-separated-values',
   '.txt': 'text/plain',
+  // JCAMP-DX spectra (the media type in common use).
+  '.jdx': 'chemical/x-jcamp-dx',
+  '.dx': 'chemical/x-jcamp-dx',
+  '.jcamp': 'chemical/x-jcamp-dx',
 };
 
 /**

@@ -3,9 +3,12 @@ import {
   type BatchResult,
   type Reading,
   type SampleDefinition,
+  type SpectralAnalysisResult,
+  type SpectralSettings,
   analyzeBatch,
+  analyzeSpectra,
 } from '../analysis';
-import { runAnalysis } from '../workers';
+import { runAnalysis, runSpectra } from '../workers';
 import { type EngineVersion, readEngineVersion } from './engine-version';
 
 /**
@@ -26,6 +29,24 @@ export interface AnalysisEngine {
     samples: readonly SampleDefinition[],
     settings: AnalysisSettings,
   ): Promise<BatchResult>;
+  /** The whole-spectrum analysis off the main thread where the engine can; else in this thread. */
+  spectraAsync?(
+    readings: readonly Reading[],
+    samples: readonly SampleDefinition[],
+    settings: SpectralSettings,
+  ): Promise<SpectralAnalysisResult>;
+}
+
+/** Run an engine's whole-spectrum analysis off the main thread when it offers that, else in this thread. */
+export async function analyzeSpectraWith(
+  engine: AnalysisEngine,
+  readings: readonly Reading[],
+  samples: readonly SampleDefinition[],
+  settings: SpectralSettings,
+): Promise<SpectralAnalysisResult> {
+  return engine.spectraAsync
+    ? engine.spectraAsync(readings, samples, settings)
+    : analyzeSpectra(readings, samples, settings);
 }
 
 /** Run an engine's analysis off the main thread when it offers that, else in this thread. */
@@ -48,6 +69,7 @@ export function currentAnalysisEngine(): AnalysisEngine {
     version: readEngineVersion(),
     analyze: (readings, samples, settings) => analyzeBatch(readings, samples, settings),
     analyzeAsync: (readings, samples, settings) => runAnalysis(readings, samples, settings),
+    spectraAsync: (readings, samples, settings) => runSpectra(readings, samples, settings),
   };
   return current;
 }

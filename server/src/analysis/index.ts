@@ -51,3 +51,4 @@ export * from './spectral-options';
 export * from './spectral-matrix';
 export * from './spectral-analysis';
 export * from './qc-guidance';
+export * from './pathlength-water-wells';

@@ -1,6 +1,20 @@
 import { type DataSource, type EntityManager, In, IsNull, type Repository } from 'typeorm';
-import type { AnalysisSettings, BatchResult, KStatus, Reading, SampleDefinition } from '../analysis';
-import { type AnalysisEngine, analyzeWith, currentAnalysisEngine } from '../analysis-engine/analysis-engine';
+import {
+  type AnalysisSettings,
+  type BatchResult,
+  type KStatus,
+  type Reading,
+  type SampleDefinition,
+  type SpectralAnalysisResult,
+  type WaterPeakPathLengths,
+  wellPathLengthsFromWaterPeak,
+} from '../analysis';
+import {
+  type AnalysisEngine,
+  analyzeSpectraWith,
+  analyzeWith,
+  currentAnalysisEngine,
+} from '../analysis-engine/analysis-engine';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
 import type { EventBus } from '../events/event-bus';
@@ -12,6 +26,13 @@ import type { LayoutsService } from '../layouts/layouts.service';
 import { Manifest } from '../manifests/manifest.entity';
 import type { ManifestsService } from '../manifests/manifests.service';
 import { User } from '../users/user.entity';
+import {
+  addWaterNotes,
+  hasSpectra,
+  spectralReadings,
+  spectralSettingsOf,
+  withWellPathLengths,
+} from './analysis-extras';
 import { Batch, type BatchState } from './batch.entity';
 import { BATCH_RESULT_SCHEMA_VERSION, BatchResultRecord } from './batch-result.entity';
 import {
@@ -150,8 +171,21 @@ export interface BatchAnalysisDto {
     readingCount: number;
     receivedAt: string;
   }[];
+  /**
+   * Plates read near 977 and 900 nm: each aqueous well's path length from the water peak (used by the
+   * analysis in place of the nominal one), with the k-factor and the wells left at the nominal path; else null.
+   */
+  wellPathLengths: WaterPeakPathLengths | null;
   settings: AnalysisSettings;
   result: BatchResult;
+  /**
+   * Batches whose positions are read at 10 or more wavelengths: the whole-spectrum analysis
+   * (`analyzeSpectra`: species count from singular values, K of every candidate fitted to all wavelengths,
+   * species spectra, residuals) on the batch's readings and settings; null otherwise, and for an approved
+   * batch (its approval record holds the single-wavelength result only). `spectralError` says why it failed.
+   */
+  spectral: SpectralAnalysisResult | null;
+  spectralError: string | null;
   /** Approved batches: the approval record `result` comes from (null if approved before records were kept). */
   record: ApprovalRecordDto | null;
   /** Only when asked for, on an approved batch with a record. */
@@ -258,6 +292,7 @@ interface BatchInputs {
   samples: SampleDefinition[];
   layoutPositions: { position: string; role: string; replicateGroup?: string }[];
   files: BatchAnalysisDto['files'];
+  wellPathLengths: WaterPeakPathLengths | null;
 }
 
 /**
@@ -551,10 +586,13 @@ export class BatchesService {
   ): Promise<void> {
     const settings = batchSettingsSchema.parse(JSON.parse(batch.settingsJson));
     const inputs = await this.loadInputs(batch, manager);
-    const analysisSettings = toAnalysisSettings(settings);
+    const analysisSettings = withWellPathLengths(toAnalysisSettings(settings), inputs.wellPathLengths);
     let result: BatchResult;
     try {
-      result = this.engine.analyze(inputs.readings, inputs.samples, analysisSettings);
+      result = addWaterNotes(
+        this.engine.analyze(inputs.readings, inputs.samples, analysisSettings),
+        inputs.wellPathLengths,
+      );
     } catch (err) {
       throw AppError.conflict(
         `Batch "${batch.name}" cannot be approved: its analysis fails (${err instanceof Error ? err.message : String(err)}). Fix the settings or the data first.`,
@@ -727,6 +765,9 @@ export class BatchesService {
       readings,
       samples: manifest.samples,
       layoutPositions: layout.positions,
+      // Plates only: a cuvette's path is its own, known length.
+      wellPathLengths:
+        layout.format === 'cuvette' ? null : wellPathLengthsFromWaterPeak(readings, manifest.samples),
       files: files.map((f) => ({
         id: f.id,
         originalName: f.originalName,
@@ -761,14 +802,51 @@ export class BatchesService {
         settings: full.analysisSettings,
         result: full.result,
         record: this.withoutResult(full),
+        spectral: null,
+        spectralError: null,
         ...(options.engineCheck ? { engineCheck: await this.engineCheck(full, inputs) } : {}),
         approvals: await this.recordsOf(id),
       };
     }
-    const settings = toAnalysisSettings(batch.settings, overrides);
-    const result = await analyzeWith(this.engine, inputs.readings, inputs.samples, settings);
+    const settings = withWellPathLengths(
+      toAnalysisSettings(batch.settings, overrides),
+      inputs.wellPathLengths,
+    );
+    const result = addWaterNotes(
+      await analyzeWith(this.engine, inputs.readings, inputs.samples, settings),
+      inputs.wellPathLengths,
+    );
     if (inputs.files.length && !hasOverrides) batch.summary = summarize(result);
-    return { batch, ...inputs, settings, result, record: null, approvals: await this.recordsOf(id) };
+    const spectral = await this.spectral(inputs, settings);
+    return {
+      batch,
+      ...inputs,
+      settings,
+      result,
+      ...spectral,
+      record: null,
+      approvals: await this.recordsOf(id),
+    };
+  }
+
+  /** The whole-spectrum analysis when the batch has spectra (on an analysis thread); else nothing. */
+  private async spectral(
+    inputs: BatchInputs,
+    settings: AnalysisSettings,
+  ): Promise<Pick<BatchAnalysisDto, 'spectral' | 'spectralError'>> {
+    if (!hasSpectra(inputs.readings, inputs.wellPathLengths)) return { spectral: null, spectralError: null };
+    try {
+      const spectral = await analyzeSpectraWith(
+        this.engine,
+        spectralReadings(inputs.readings, inputs.wellPathLengths),
+        inputs.samples,
+        spectralSettingsOf(settings),
+      );
+      return { spectral, spectralError: null };
+    } catch (err) {
+      if (err instanceof AppError) throw err;
+      return { spectral: null, spectralError: err instanceof Error ? err.message : String(err) };
+    }
   }
 
   /** Today's engine on the record's inputs and settings, compared with the record's headline. */
@@ -784,11 +862,14 @@ export class BatchesService {
         .join(',');
     const inputsMatch = hashes(record.files) === hashes(inputs.files);
     try {
-      const now = await analyzeWith(
-        this.engine,
-        inputs.readings,
-        inputs.samples,
-        toAnalysisSettings(record.settings),
+      const now = addWaterNotes(
+        await analyzeWith(
+          this.engine,
+          inputs.readings,
+          inputs.samples,
+          withWellPathLengths(toAnalysisSettings(record.settings), inputs.wellPathLengths),
+        ),
+        inputs.wellPathLengths,
       );
       return {
         engineVersion,

@@ -4,8 +4,8 @@ import multer from 'multer';
 import { AppError } from '../common/app-error';
 import { cleanFileName } from '../common/file-name';
 
-/** Instrument exports are text tables; anything else is refused before it is read. */
-export const EXPORT_EXTENSIONS: readonly string[] = ['.csv', '.tsv', '.txt', '.dat'];
+/** Instrument exports are text tables or JCAMP-DX spectra; anything else is refused before it is read. */
+export const EXPORT_EXTENSIONS: readonly string[] = ['.csv', '.tsv', '.txt', '.dat', '.jdx', '.dx', '.jcamp'];
 export const MANIFEST_EXTENSIONS: readonly string[] = ['.csv', '.tsv', '.txt', '.xlsx'];
 
 /**

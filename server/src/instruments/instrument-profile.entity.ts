@@ -2,7 +2,7 @@ import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn, UpdateDateCol
 
 export type InstrumentKind = 'plate_reader' | 'cuvette_spectrophotometer';
 export type ProfilePlateFormat = '96' | '384' | 'cuvette';
-export type ProfileFileFormat = 'long_table' | 'plate_grid' | 'spectrum';
+export type ProfileFileFormat = 'long_table' | 'plate_grid' | 'spectrum' | 'jcamp_dx';
 
 export interface ProfileRules {
   delimiter: 'auto' | ',' | ';' | '\t';
@@ -18,6 +18,8 @@ export interface ProfileRules {
     replicate: string;
   };
   spectrumWavelengthColumn: string;
+  /** JCAMP-DX: where a block's position is read (absent in rules stored before JCAMP-DX: the title). */
+  jcampPositionFrom?: 'title' | 'sample_description';
 }
 
 /** One instrument: how its exports are read, where they land, and its service-account token. */

@@ -25,6 +25,8 @@ export const rulesSchema = z.strictObject({
       replicate: 'replicate',
     }),
   spectrumWavelengthColumn: columnName.default('wavelength_nm'),
+  /** JCAMP-DX files: a block's position is read from its title or its sample description. */
+  jcampPositionFrom: z.enum(['title', 'sample_description']).default('title'),
 });
 
 const regexText = z
@@ -46,7 +48,7 @@ const profileFields = {
   name: z.string().trim().min(1, 'is required').max(120),
   kind: z.enum(['plate_reader', 'cuvette_spectrophotometer']),
   plateFormat: z.enum(['96', '384', 'cuvette']),
-  fileFormat: z.enum(['long_table', 'plate_grid', 'spectrum']),
+  fileFormat: z.enum(['long_table', 'plate_grid', 'spectrum', 'jcamp_dx']),
   rules: rulesSchema.default(rulesSchema.parse({})),
   pathLengthCm: z.number().positive().max(100).nullable().default(null),
   fillVolumeUl: z.number().positive().max(5000).nullable().default(null),
@@ -90,7 +92,7 @@ export type UpdateProfileInput = z.infer<typeof updateProfileSchema>;
 
 /** The `rules` form field of a "try a file" request: parsing rules plus format. */
 export const tryRulesSchema = rulesSchema.partial().extend({
-  format: z.enum(['long_table', 'plate_grid', 'spectrum']).default('long_table'),
+  format: z.enum(['long_table', 'plate_grid', 'spectrum', 'jcamp_dx']).default('long_table'),
   plateFormat: z.enum(['96', '384', 'cuvette']).default('96'),
   defaultWavelengthNm: z.number().min(100).max(3300).nullable().optional(),
 });

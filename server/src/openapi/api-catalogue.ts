@@ -199,7 +199,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     tag: 'intake',
     summary: 'Send an instrument export (Bearer instrument token, or a signed-in upload with profileId)',
     access: 'instrument',
-    multipart: { fileTypes: '.csv .tsv .txt .dat' },
+    multipart: { fileTypes: '.csv .tsv .txt .dat .jdx .dx .jcamp' },
     success: [202, 'Receipt: intake id, queued or duplicate'],
   },
   {

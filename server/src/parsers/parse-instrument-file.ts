@@ -1,5 +1,6 @@
 import { readCsvRows, detectDelimiter, type CsvRow } from './csv-rows';
 import { decodeText } from './decode-text';
+import { parseJcamp } from './jcamp';
 import { parseLongTable } from './long-table';
 import { ParseError } from './parse-error';
 import { resolveParseRules, type Delimiter, type ParseRules, type ParseRulesInput } from './parse-rules';
@@ -20,6 +21,10 @@ export async function parseInstrumentFile(
 ): Promise<ParsedRun> {
   const resolved = resolveParseRules(rules);
   const { text, warnings } = decodeText(content, fileName, resolved.encoding);
+  if (resolved.format === 'jcamp_dx') {
+    const run = parseJcamp(text, fileName, resolved);
+    return warnings.length > 0 ? { ...run, warnings: [...warnings, ...run.warnings] } : run;
+  }
   const candidates: Delimiter[] = resolved.decimalMark === ',' ? [';', '\t'] : [',', ';', '\t'];
   const delimiter =
     resolved.delimiter === 'auto'
@@ -42,5 +47,7 @@ function parseRows(rows: CsvRow[], fileName: string, rules: ParseRules, delimite
       return parsePlateGrid(rows, fileName, rules);
     case 'spectrum':
       return parseSpectrum(rows, fileName, rules, delimiter);
+    case 'jcamp_dx':
+      throw new Error('JCAMP-DX files are read before any CSV parsing');
   }
 }

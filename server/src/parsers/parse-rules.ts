@@ -1,6 +1,6 @@
 import { ParseError } from './parse-error';
 
-export type FileFormat = 'long_table' | 'plate_grid' | 'spectrum';
+export type FileFormat = 'long_table' | 'plate_grid' | 'spectrum' | 'jcamp_dx';
 export type PlateFormat = 96 | 384 | 'cuvette';
 export type Delimiter = ',' | ';' | '\t';
 
@@ -23,6 +23,8 @@ export interface ParseRules {
     replicate: string;
   };
   spectrumWavelengthColumn: string;
+  /** JCAMP-DX: where a block's position is read (its title or its sample description). */
+  jcampPositionFrom: 'title' | 'sample_description';
   plateFormat: PlateFormat;
   /** Used by plate grids that have no `wavelength_nm` key line. */
   defaultWavelengthNm?: number;
@@ -47,10 +49,11 @@ export const DEFAULT_PARSE_RULES: ParseRules = Object.freeze({
     replicate: 'replicate',
   }),
   spectrumWavelengthColumn: 'wavelength_nm',
+  jcampPositionFrom: 'title',
   plateFormat: 96,
 }) as ParseRules;
 
-const FORMATS: readonly FileFormat[] = ['long_table', 'plate_grid', 'spectrum'];
+const FORMATS: readonly FileFormat[] = ['long_table', 'plate_grid', 'spectrum', 'jcamp_dx'];
 const DELIMITERS: readonly string[] = ['auto', ',', ';', '\t'];
 const ENCODINGS: readonly string[] = ['utf-8', 'latin1', 'utf-16le'];
 const MAX_SKIP_LINES = 1000;
@@ -85,6 +88,11 @@ export function resolveParseRules(partial: ParseRulesInput = {}): ParseRules {
   }
   if (rules.decimalMark === ',' && rules.delimiter === ',') {
     throw rulesError('a decimal comma needs a ";" or tab delimiter, not ","');
+  }
+  if (rules.jcampPositionFrom !== 'title' && rules.jcampPositionFrom !== 'sample_description') {
+    throw rulesError(
+      `unknown JCAMP-DX position source "${String(rules.jcampPositionFrom)}": expected title or sample_description`,
+    );
   }
   if (!ENCODINGS.includes(rules.encoding)) {
     throw rulesError(`unknown encoding "${String(rules.encoding)}": expected ${ENCODINGS.join(', ')}`);

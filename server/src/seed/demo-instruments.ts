@@ -33,6 +33,19 @@ export const DEMO_INSTRUMENTS = [
     dropSubfolder: 'cuvette-1',
     fileNamePattern: '^(?<run>[A-Za-z]+-\\d+)',
   },
+  {
+    // A scanning instrument: whole spectra per cuvette, exported as JCAMP-DX linked blocks.
+    name: 'Scanning spectrophotometer 1 (demo)',
+    kind: 'cuvette_spectrophotometer',
+    plateFormat: 'cuvette',
+    fileFormat: 'jcamp_dx',
+    pathLengthCm: 1,
+    fillVolumeUl: null,
+    wellDiameterMm: null,
+    defaultWavelengthNm: 496,
+    dropSubfolder: 'scanner-1',
+    fileNamePattern: '^(?<run>[A-Za-z]+-\\d+)',
+  },
 ] as const;
 
 export interface DemoWatcherSetup {

@@ -9,6 +9,7 @@ import { parseManifestCsv } from '../parsers';
 export const DEMO_SAMPLES_DIR = path.resolve(__dirname, '../../../samples/demo');
 
 const SYSTEM = 'Metal–ligand complex (demo)';
+const SPECTRA_SYSTEM = 'Dye–receptor binding (demo)';
 
 async function layoutFromManifest(
   services: EquilightApp['services'],
@@ -52,7 +53,9 @@ async function waitUntilSettled(services: EquilightApp['services'], id: number):
 
 /**
  * The invented demo scenario: an iron-in-water plate batch and a complex measured at 15, 25 and 35 °C.
- * 15 and 35 °C arrive complete and approved; 25 °C and the water plate wait for the demo instrument.
+ * 15 and 35 °C arrive complete and approved; 25 °C and the water plate wait for the demo instrument, as
+ * does a scanning-spectrophotometer run SP-7 (spectra of a dye–receptor series, JCAMP-DX) whose
+ * whole-spectrum K the batch analysis gives as the spectra arrive.
  * Seeds only into a database without layouts; needs the demo people and instrument profiles.
  */
 export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean> {
@@ -70,6 +73,7 @@ export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean
   const profiles = await services.instruments.list();
   const plateReader = profiles.find((p) => p.dropSubfolder === 'plate-reader-1');
   const cuvette = profiles.find((p) => p.dropSubfolder === 'cuvette-1');
+  const scanner = profiles.find((p) => p.dropSubfolder === 'scanner-1');
   if (!manager || !creator || !reviewer || !plateReader || !cuvette) return false;
   const actor: Actor = manager;
 
@@ -131,6 +135,30 @@ export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean
     await waitUntilSettled(services, receipt.id);
     await services.batches.review(batch.id, reviewer);
     await services.batches.approve(batch.id, 'Demo: calibration and K checked.', manager);
+  }
+
+  if (scanner) {
+    const spectra = await layoutFromManifest(
+      services,
+      'Dye–receptor series, 19 cuvettes (demo)',
+      'spectra/manifest.csv',
+      'cuvette',
+      actor,
+    );
+    await services.batches.create(
+      {
+        name: `${SPECTRA_SYSTEM}, spectra 350–700 nm`,
+        profileId: scanner.id,
+        layoutId: spectra.layout.id,
+        manifestId: spectra.manifest.id,
+        runId: 'SP-7',
+        expectedFiles: 2,
+        systemName: SPECTRA_SYSTEM,
+        // No temperature: one run is no van 't Hoff series (Temperatures lists the metal–ligand system).
+        settings: { wavelengthNm: 496, pathLengthCm: 1, candidates: ['1:1', '1:2', '2:1'] },
+      },
+      creator,
+    );
   }
   return true;
 }

@@ -3,6 +3,8 @@ import path from 'node:path';
 import { Piscina } from 'piscina';
 import type { BatchResult } from '../analysis/batch-types';
 import type { AnalysisSettings } from '../analysis/options';
+import type { SpectralAnalysisResult } from '../analysis/spectral-analysis';
+import type { SpectralSettings } from '../analysis/spectral-options';
 import type { Reading, SampleDefinition } from '../analysis/types';
 import { AppError } from '../common/app-error';
 import { ParseError } from '../parsers/parse-error';
@@ -117,6 +119,15 @@ export function runAnalysis(
     samples,
     settings: monteCarlo ? { ...settings, monteCarlo } : settings,
   });
+}
+
+/** `analyzeSpectra` (the whole-spectrum analysis) on an analysis thread. */
+export function runSpectra(
+  readings: readonly Reading[],
+  samples: readonly SampleDefinition[],
+  settings: SpectralSettings,
+): Promise<SpectralAnalysisResult> {
+  return run<SpectralAnalysisResult>({ kind: 'spectra', readings, samples, settings });
 }
 
 export type ParsedFile = Extract<ParseOutcome, { ok: true }>;

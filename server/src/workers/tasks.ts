@@ -5,6 +5,8 @@ import Database from 'better-sqlite3';
 import { analyzeBatch } from '../analysis/batch';
 import type { BatchResult } from '../analysis/batch-types';
 import type { AnalysisSettings } from '../analysis/options';
+import { analyzeSpectra, type SpectralAnalysisResult } from '../analysis/spectral-analysis';
+import type { SpectralSettings } from '../analysis/spectral-options';
 import type { Reading, SampleDefinition } from '../analysis/types';
 import { ParseError, type ParseErrorDetails } from '../parsers/parse-error';
 import { parseInstrumentFile } from '../parsers/parse-instrument-file';
@@ -57,7 +59,15 @@ export interface ParseTask {
   store?: StoreTarget;
 }
 
-export type WorkerTask = AnalyseTask | ParseTask;
+/** The whole-spectrum analysis of a batch with spectra (see `analyzeSpectra`). */
+export interface SpectraTask {
+  kind: 'spectra';
+  readings: readonly Reading[];
+  samples: readonly SampleDefinition[];
+  settings: SpectralSettings;
+}
+
+export type WorkerTask = AnalyseTask | ParseTask | SpectraTask;
 
 export type ParseOutcome =
   | {
@@ -139,10 +149,14 @@ async function parse(task: ParseTask): Promise<ParseOutcome> {
 }
 
 /** The worker's entry (piscina calls it by name); also called directly in-thread for tests. */
-export async function handleTask(task: WorkerTask): Promise<BatchResult | ParseOutcome> {
+export async function handleTask(
+  task: WorkerTask,
+): Promise<BatchResult | ParseOutcome | SpectralAnalysisResult> {
   switch (task.kind) {
     case 'analyse':
       return analyzeBatch(task.readings, task.samples, task.settings);
+    case 'spectra':
+      return analyzeSpectra(task.readings, task.samples, task.settings);
     case 'parse':
       return parse(task);
   }

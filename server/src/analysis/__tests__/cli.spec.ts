@@ -330,7 +330,7 @@ describe('npm run analyze (CLI)', () => {
     [['--readings', READINGS, '--manifest', MANIFEST, '--plate', '48'], /--plate must be 96, 384 or cuvette/],
     [
       ['--readings', READINGS, '--manifest', MANIFEST, '--format', 'xml'],
-      /--format must be long-table, plate-grid or spectrum/,
+      /--format must be long-table, plate-grid, spectrum or jcamp-dx/,
     ],
   ];
   /** The command as a person types it, for the test title. */

@@ -97,6 +97,7 @@ describe('instrument profiles API', () => {
         replicate: 'replicate',
       },
       spectrumWavelengthColumn: 'wavelength_nm',
+      jcampPositionFrom: 'title',
     });
     const patched = await admin
       .patch(`/api/instruments/${created.profile.id}`)

@@ -2,6 +2,7 @@ import type { ParseRulesInput } from '../index';
 
 const GRID: ParseRulesInput = { format: 'plate_grid' };
 const SPECTRUM: ParseRulesInput = { format: 'spectrum' };
+const JCAMP: ParseRulesInput = { format: 'jcamp_dx' };
 
 /** Every file of fixtures/bad, the rules it is read with, and the message it must give. */
 export const CORPUS: [file: string, rules: ParseRulesInput, message: RegExp][] = [
@@ -159,4 +160,36 @@ export const CORPUS: [file: string, rules: ParseRulesInput, message: RegExp][] =
     /line 1, column "position": expected a header row naming the column "position"/,
   ],
   ['prose-junk.csv', {}, /line 1, column "position": expected a header row naming .*"Dear colleagues"/],
+  // JCAMP-DX (profile format jcamp_dx).
+  [
+    'jcamp-csv-content.jdx',
+    JCAMP,
+    /^jcamp-csv-content\.jdx: expected a JCAMP-DX file: .*found "position,wavelength_nm/,
+  ],
+  ['jcamp-truncated.jdx', JCAMP, /the JCAMP-DX file ends before its "##END=" \(cut off\?\)/],
+  [
+    'jcamp-infrared.jdx',
+    JCAMP,
+    /line 1, column "block A1": expected ##DATA TYPE= UV\/VIS SPECTRUM, found "INFRARED/,
+  ],
+  ['jcamp-transmittance.jdx', JCAMP, /expected ##YUNITS= ABSORBANCE, found "TRANSMITTANCE"/],
+  ['jcamp-wavenumbers.jdx', JCAMP, /expected ##XUNITS= NANOMETERS \(or MICROMETERS\), found "1\/CM"/],
+  [
+    'jcamp-npoints-mismatch.jdx',
+    JCAMP,
+    /##NPOINTS= 6 but the block holds 3 points \(a damaged or cut file\)/,
+  ],
+  ['jcamp-no-data.jdx', JCAMP, /no spectrum data: expected ##XYDATA= \(X\+\+\(Y\.\.Y\)\)/],
+  ['jcamp-no-firstx.jdx', JCAMP, /wavelength "0" nanometers is outside 100–3300 nm \(missing ##FIRSTX=/],
+  [
+    'jcamp-no-position.jdx',
+    JCAMP,
+    /column "block dye run 7": expected a 96-well position A1…H12 in the block's ##TITLE=/,
+  ],
+  ['jcamp-position-outside-plate.jdx', JCAMP, /expected a 96-well position A1…H12 .*found "Q99"/],
+  [
+    'jcamp-duplicate-position.jdx',
+    JCAMP,
+    /line 19, column "block A1 again": duplicate reading for A1 at 400 nm \(first on line 5\)/,
+  ],
 ];

@@ -1,3 +1,5 @@
+import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
 import { isValidPosition, parseInstrumentFile, ParseError } from '../index';
 import { fixture } from './load-fixture';
 
@@ -218,6 +220,68 @@ describe('spectrum', () => {
       spectrumWavelengthColumn: 'lambda',
     });
     expect(run.readings).toEqual([{ position: 'A1', wavelengthNm: 400, absorbance: 0.2 }]);
+  });
+});
+
+describe('JCAMP-DX', () => {
+  it('reads a single block in DIF/DUP compression, the position from the sample description', async () => {
+    // Compressed forms per McDonald R.S. & Wilks P.A., Appl. Spectrosc. 42 (1988) 151 (JCAMP-DX):
+    // "A00" is SQZ +100, K/L are DIF +2/+3, "%" a difference of 0, "T" DUP ×2, "k" DIF −2; the last line's
+    // Y is the Y check of the line before. So Y = 100, 102, 105, 105, 105, 103 (× YFACTOR 0.001).
+    const run = await parseInstrumentFile(good('jcamp-dif-sample-description.jdx'), 'b3.jdx', {
+      format: 'jcamp_dx',
+      jcampPositionFrom: 'sample_description',
+    });
+    expect(run.format).toBe('jcamp_dx');
+    expect(run.metadata.wavelengthsNm).toEqual([400, 402, 404, 406, 408, 410]);
+    expect(run.readings.map((r) => r.position)).toEqual(Array(6).fill('B3'));
+    expect(run.readings.map((r) => r.absorbance)).toEqual([0.1, 0.102, 0.105, 0.105, 0.105, 0.103]);
+  });
+
+  it('refuses the same file when the profile reads the position from the title', async () => {
+    const error = await parseInstrumentFile(good('jcamp-dif-sample-description.jdx'), 'b3.jdx', {
+      format: 'jcamp_dx',
+    }).catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(ParseError);
+    expect((error as ParseError).message).toMatch(
+      /^b3\.jdx line 1, column "block dye titration": expected a 96-well position .* in the block's ##TITLE=/,
+    );
+  });
+
+  it('reads linked blocks of a cuvette run, micrometres as nanometres', async () => {
+    const run = await parseInstrumentFile(good('jcamp-linked-cuvettes.jdx'), 'run.jdx', {
+      format: 'jcamp_dx',
+      plateFormat: 'cuvette',
+    });
+    expect(run.metadata).toEqual({
+      wavelengthsNm: [500, 502, 504],
+      extra: { title: 'invented cuvette run' },
+    });
+    expect(run.readings).toEqual([
+      { position: 'C1', wavelengthNm: 500, absorbance: 0.012 },
+      { position: 'C1', wavelengthNm: 502, absorbance: 0.011 },
+      { position: 'C1', wavelengthNm: 504, absorbance: 0.01 },
+      { position: 'C2', wavelengthNm: 500, absorbance: 0.512 },
+      { position: 'C2', wavelengthNm: 502, absorbance: 0.611 },
+      { position: 'C2', wavelengthNm: 504, absorbance: 0.71 },
+    ]);
+  });
+
+  it('reads the invented sample spectra as the spectrum CSV holds them', async () => {
+    const dir = resolve(__dirname, '../../../../samples/analysis');
+    const rules = { plateFormat: 'cuvette' as const };
+    const jdx = await parseInstrumentFile(readFileSync(`${dir}/spectra.jdx`), 'spectra.jdx', {
+      ...rules,
+      format: 'jcamp_dx',
+    });
+    const csv = await parseInstrumentFile(readFileSync(`${dir}/spectra.csv`), 'spectra.csv', {
+      ...rules,
+      format: 'spectrum',
+    });
+    const key = (r: { position: string; wavelengthNm: number }) => `${r.position}@${r.wavelengthNm}`;
+    const fromCsv = new Map(csv.readings.map((r) => [key(r), r.absorbance]));
+    expect(jdx.readings).toHaveLength(csv.readings.length);
+    for (const r of jdx.readings) expect(r.absorbance).toBeCloseTo(fromCsv.get(key(r)) as number, 10);
   });
 });
 

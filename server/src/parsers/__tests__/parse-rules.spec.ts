@@ -24,6 +24,7 @@ describe('resolveParseRules', () => {
         replicate: 'replicate',
       },
       spectrumWavelengthColumn: 'wavelength_nm',
+      jcampPositionFrom: 'title',
       plateFormat: 96,
     });
     expect(resolveParseRules()).toEqual(DEFAULT_PARSE_RULES);

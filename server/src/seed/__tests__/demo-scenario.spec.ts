@@ -1,7 +1,9 @@
+import fs from 'node:fs';
+import path from 'node:path';
 import { TemperaturesService } from '../../temperatures/temperatures.service';
 import { startTestApp, type TestApp } from '../../testing/test-app';
 import { seedDemoInstruments } from '../demo-instruments';
-import { seedDemoScenario } from '../demo-scenario';
+import { DEMO_SAMPLES_DIR, seedDemoScenario } from '../demo-scenario';
 
 describe('demo scenario', () => {
   let t: TestApp;
@@ -20,6 +22,7 @@ describe('demo scenario', () => {
       ['CX-25', 'open', 0],
       ['CX-35', 'approved', 1],
       ['FE-101', 'open', 0],
+      ['SP-7', 'open', 0],
     ]);
     const [system] = await new TemperaturesService(t.services.batches).systems();
     expect(system.model).toBe('1:1');
@@ -28,5 +31,36 @@ describe('demo scenario', () => {
     expect(system.vantHoff!.deltaHJPerMol / 1000).toBeGreaterThan(-30);
     expect(system.vantHoff!.deltaHJPerMol / 1000).toBeLessThan(-8);
     expect(await seedDemoScenario(t)).toBe(false);
-  });
+    // Not a speed check: two approvals with their records on a shared machine.
+  }, 120_000);
+
+  it('fills the scanning run SP-7 from its two JCAMP-DX exports, and its analysis gives the whole-spectrum K', async () => {
+    const scanner = (await t.services.instruments.list()).find((p) => p.dropSubfolder === 'scanner-1')!;
+    expect(scanner.fileFormat).toBe('jcamp_dx');
+    const profile = await t.services.instruments.get(scanner.id);
+    for (const part of ['SP-7-part1.jdx', 'SP-7-part2.jdx']) {
+      const receipt = await t.services.ingest.receive({
+        content: fs.readFileSync(path.join(DEMO_SAMPLES_DIR, 'exports', 'scanner-1', part)),
+        originalName: part,
+        profile,
+        source: 'upload',
+      });
+      const deadline = Date.now() + 30_000;
+      while (['queued', 'parsing'].includes((await t.services.ingest.getDto(receipt.id)).status)) {
+        if (Date.now() > deadline) throw new Error(`${part} not settled`);
+        await new Promise((r) => setTimeout(r, 50));
+      }
+      expect((await t.services.ingest.getDto(receipt.id)).status).toBe('stored');
+    }
+    const batch = (await t.services.batches.list()).find((b) => b.runId === 'SP-7')!;
+    expect(batch.fileCount).toBe(2);
+    const analysis = await t.services.batches.analysis(batch.id);
+    expect(analysis.spectralError).toBeNull();
+    expect(analysis.spectral!.wavelengthsNm).toHaveLength(176);
+    expect(analysis.spectral!.best).toBe('1:1');
+    const fit = analysis.spectral!.candidates.find((c) => c.model === '1:1')!;
+    // The demo spectra were invented with K = 2000 L/mol (scripts/make-spectral-samples.ts).
+    expect(fit.kCi95![0]!).toBeLessThan(2000);
+    expect(fit.kCi95![1]!).toBeGreaterThan(2000);
+  }, 120_000);
 });

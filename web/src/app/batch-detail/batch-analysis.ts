@@ -1,4 +1,11 @@
-import type { AnalysisSettings, BatchResult, Reading, SampleDefinition } from '@equilight/analysis';
+import type {
+  AnalysisSettings,
+  BatchResult,
+  Reading,
+  SampleDefinition,
+  SpectralAnalysisResult,
+  WaterPeakPathLengths,
+} from '@equilight/analysis';
 import {
   type Batch,
   type BatchResultSummary,
@@ -30,6 +37,11 @@ export interface BatchAnalysis {
   engineCheck?: EngineCheck;
   /** Every approval record of the batch, newest first; earlier ones were superseded by a reopening. */
   approvals?: ApprovalRecord[];
+  /** Plates read near 977 and 900 nm: each well's path length from the water peak; else null. */
+  wellPathLengths?: WaterPeakPathLengths | null;
+  /** Batches read at 10 or more wavelengths: the whole-spectrum analysis (null otherwise or on failure). */
+  spectral?: SpectralAnalysisResult | null;
+  spectralError?: string | null;
 }
 
 /** What one approval froze: who, when, the engine, the input files' SHA-256 and the headline. */

@@ -29,6 +29,7 @@ function position(p: string, changes: Partial<PositionResult> = {}): PositionRes
     [qc]="qc()"
     [wavelengthNm]="590"
     [pathLengthCm]="1"
+    [waterPeakPathsCm]="waterPaths()"
     [selected]="selected()"
     (positionSelect)="chosen.push($event); selected.set($event)"
   />`,
@@ -38,6 +39,7 @@ class Host {
   readonly positions = signal<PositionResult[]>([]);
   readonly qc = signal<QcFlag[]>([]);
   readonly selected = signal<string | null>(null);
+  readonly waterPaths = signal<Record<string, number> | null>(null);
   readonly chosen: string[] = [];
 }
 
@@ -171,6 +173,25 @@ describe('PlateMap', () => {
     cell('B2').dispatchEvent(new KeyboardEvent('keydown', { key: 'End', bubbles: true }));
     await fixture.whenStable();
     expect(document.activeElement).toBe(cell('B12'));
+  });
+
+  it('shows the path length of a well from the water peak in its tooltip and says so in the legend', async () => {
+    const { cell, fixture, el, host } = await setup('96', [
+      position('A1', { pathLengthCm: 0.5239 }),
+      position('A2'),
+    ]);
+    expect(el.querySelector('[data-testid="legend-unit"]')!.textContent).toContain('1 cm path');
+    host.waterPaths.set({ A1: 0.5239 });
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="legend-unit"]')!.textContent).toContain(
+      'path length per well from the water peak',
+    );
+    cell('A1').focus();
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="plate-tooltip-path"]')!.textContent).toBe('0.52 cm (water peak)');
+    cell('A2').focus();
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="plate-tooltip-path"]')).toBeNull();
   });
 
   it('emits the position on click and on Enter, and marks it selected', async () => {

@@ -11,7 +11,7 @@ import {
 import type { PositionResult, QcFlag } from '@equilight/analysis';
 import type { PlateFormat } from '../batches/batch';
 import { VIRIDIS_NAME, legendGradient } from '../shared/chart/colour-scale';
-import { formatAbsorbance } from '../shared/format/number-format';
+import { formatAbsorbance, formatNumber } from '../shared/format/number-format';
 import {
   type CellMarker,
   MARKERS,
@@ -52,6 +52,8 @@ export class PlateMap {
   readonly qc = input<readonly QcFlag[]>([]);
   readonly wavelengthNm = input<number | null>(null);
   readonly pathLengthCm = input<number | null>(null);
+  /** Per-well path lengths from the water peak (cm, by position), when the plate was read near 977/900 nm. */
+  readonly waterPeakPathsCm = input<Readonly<Record<string, number>> | null>(null);
   /** The position chosen for a what-if exclusion. */
   readonly selected = input<string | null>(null);
   /** Accessible name of the grid. */
@@ -91,13 +93,19 @@ export class PlateMap {
   protected readonly unitText = computed(() => {
     const parts = ['absorbance units (AU)'];
     if (this.wavelengthNm() !== null) parts.push(`${this.wavelengthNm()} nm`);
-    if (this.pathLengthCm() !== null) parts.push(`${this.pathLengthCm()} cm path`);
+    if (this.waterPeakPathsCm()) parts.push('path length per well from the water peak');
+    else if (this.pathLengthCm() !== null) parts.push(`${this.pathLengthCm()} cm path`);
     return parts.join(', ');
   });
 
   protected readonly describe = describeCell;
   protected readonly abs = formatAbsorbance;
   protected readonly statusWord = statusWord;
+  /** "0.52 cm (water peak)" for a well whose path length came from the water peak, else null. */
+  protected pathText(position: string): string | null {
+    const l = this.waterPeakPathsCm()?.[position.toUpperCase()];
+    return l === undefined ? null : `${formatNumber(l, 2)} cm (water peak)`;
+  }
 
   protected show(cell: PlateCell, event: Event): void {
     const el = event.currentTarget as HTMLElement;

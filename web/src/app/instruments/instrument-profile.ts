@@ -1,6 +1,7 @@
 export type InstrumentKind = 'plate_reader' | 'cuvette_spectrophotometer';
 export type PlateFormat = '96' | '384' | 'cuvette';
-export type FileFormat = 'long_table' | 'plate_grid' | 'spectrum';
+export type FileFormat = 'long_table' | 'plate_grid' | 'spectrum' | 'jcamp_dx';
+export type JcampPositionFrom = 'title' | 'sample_description';
 export type Delimiter = 'auto' | ',' | ';' | '\t';
 export type DecimalMark = '.' | ',';
 export type TextEncoding = 'utf-8' | 'latin1' | 'utf-16le';
@@ -22,6 +23,8 @@ export interface ParsingRules {
   skipLines: number;
   columns: ColumnNames;
   spectrumWavelengthColumn: string;
+  /** JCAMP-DX: where a block's position is read. */
+  jcampPositionFrom: JcampPositionFrom;
 }
 
 /** An instrument profile as the API returns it. */
@@ -110,6 +113,12 @@ export const FILE_FORMAT_LABELS: Record<FileFormat, string> = {
   long_table: 'Long table',
   plate_grid: 'Plate grid',
   spectrum: 'Spectrum',
+  jcamp_dx: 'JCAMP-DX (UV-Vis)',
+};
+
+export const JCAMP_POSITION_LABELS: Record<JcampPositionFrom, string> = {
+  title: 'Block title (##TITLE)',
+  sample_description: 'Sample description (##SAMPLE DESCRIPTION)',
 };
 
 export const DELIMITER_LABELS: Record<Delimiter, string> = {
@@ -144,6 +153,7 @@ export const DEFAULT_RULES: ParsingRules = {
     replicate: 'replicate',
   },
   spectrumWavelengthColumn: 'wavelength_nm',
+  jcampPositionFrom: 'title',
 };
 
 function isNumberOrNull(v: unknown): boolean {

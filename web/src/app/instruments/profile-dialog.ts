@@ -31,6 +31,8 @@ import {
   type FileFormat,
   type InstrumentKind,
   type InstrumentProfile,
+  JCAMP_POSITION_LABELS,
+  type JcampPositionFrom,
   KIND_LABELS,
   PLATE_FORMAT_LABELS,
   type PlateFormat,
@@ -110,6 +112,7 @@ export class ProfileDialog {
   protected readonly kinds = entries(KIND_LABELS);
   protected readonly plateFormats = entries(PLATE_FORMAT_LABELS);
   protected readonly fileFormats = entries(FILE_FORMAT_LABELS);
+  protected readonly jcampPositions = entries(JCAMP_POSITION_LABELS);
   protected readonly delimiters = entries(DELIMITER_LABELS);
   protected readonly decimalMarks = entries(DECIMAL_MARK_LABELS);
   protected readonly encodings = entries(ENCODING_LABELS);
@@ -193,6 +196,7 @@ export class ProfileDialog {
             replicate: column(rules.columns.replicate),
           }),
           spectrumWavelengthColumn: column(rules.spectrumWavelengthColumn),
+          jcampPositionFrom: [rules.jcampPositionFrom as JcampPositionFrom],
         },
         { validators: decimalNeedsOtherDelimiter },
       ),
