@@ -1,0 +1,78 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import { launchChromium } from './support/browser';
+import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
+
+jest.setTimeout(120_000);
+
+/** Elements wider than the window, and text suffixes that overlap their input's text. */
+async function layoutProblems(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const out: string[] = [];
+    const width = document.documentElement.clientWidth;
+    for (const el of document.querySelectorAll<HTMLElement>(
+      'eq-planner-page mat-form-field, eq-planner-page fieldset',
+    )) {
+      const r = el.getBoundingClientRect();
+      if (r.width > 0 && r.right > width + 0.5)
+        out.push(`past the right edge: ${el.textContent?.trim().slice(0, 40)}`);
+    }
+    for (const suffix of document.querySelectorAll<HTMLElement>(
+      'eq-planner-page .mat-mdc-form-field-text-suffix',
+    )) {
+      const field = suffix.closest('mat-form-field')!;
+      const input = field.querySelector('input')!;
+      const s = suffix.getBoundingClientRect();
+      const i = input.getBoundingClientRect();
+      if (s.left < i.right - 0.5) out.push(`suffix overlaps: ${suffix.textContent?.trim()}`);
+      const f = field.getBoundingClientRect();
+      if (s.right > f.right + 0.5) out.push(`suffix outside its field: ${suffix.textContent?.trim()}`);
+    }
+    return out;
+  });
+}
+
+describe('the Planner in Chromium', () => {
+  let server: RunningServer;
+  let browser: Browser;
+
+  beforeAll(async () => {
+    server = await startServer();
+    browser = await launchChromium();
+    fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  it.each([
+    { width: 1280, height: 800 },
+    { width: 390, height: 844 },
+  ])('plans on a plate layout with reagent cautions at $width×$height', async (viewport) => {
+    const context = await browser.newContext({ viewport });
+    const page = await context.newPage();
+    await page.goto(`${server.url}/planner`);
+    await page.waitForURL(/\/sign-in/);
+    await page.getByLabel('E-mail').fill('scientist@equilight.test');
+    await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByTestId('stock-a').waitFor();
+    await page.getByTestId('reagent-a').fill('Iron(III) nitrate');
+    await page.getByTestId('reagent-b').fill('Potassium thiocyanate');
+    await page.getByTestId('cas-b').fill('333-20-0');
+    await page.getByTestId('loq').fill('0.0001');
+    await page.getByTestId('layout').click();
+    await page.getByRole('option', { name: /Tap-water iron plate/ }).click();
+    await page.getByTestId('plate-preview').waitFor();
+    await page.getByTestId('fill-volume').waitFor();
+    expect(await page.locator('[data-testid="pipetting-table"] thead').innerText()).toContain('µL');
+    expect(await page.getByTestId('cautions').innerText()).toContain('H272');
+    expect(await layoutProblems(page)).toEqual([]);
+    const name = `planner-${viewport.width}x${viewport.height}`;
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-full.png`), fullPage: true });
+    await context.close();
+  });
+});
