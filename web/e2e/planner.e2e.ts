@@ -55,20 +55,40 @@ describe('the Planner in Chromium', () => {
     const page = await context.newPage();
     await page.goto(`${server.url}/planner`);
     await page.waitForURL(/\/sign-in/);
-    await page.getByLabel('E-mail').fill('scientist@equilight.test');
+    await page.getByLabel('E-mail').fill('manager@equilight.test');
     await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByTestId('stock-a').waitFor();
+    // A plate with blanks and standards in column 1 and 2; the mixtures go to the rest.
+    const layoutName = `Planner plate ${viewport.width}`;
+    const status = await page.evaluate(async (name) => {
+      const xsrf = decodeURIComponent(/(?:^|; )XSRF-TOKEN=([^;]*)/.exec(document.cookie)?.[1] ?? '');
+      const positions = 'ABCDEFGH'.split('').flatMap((r, i) => [
+        { position: `${r}1`, role: i < 2 ? 'blank' : 'standard' },
+        { position: `${r}2`, role: 'standard' },
+      ]);
+      const res = await fetch('/api/layouts', {
+        method: 'POST',
+        headers: { 'Content-Type': 'application/json', 'X-XSRF-TOKEN': xsrf },
+        body: JSON.stringify({ name, format: '96', positions }),
+      });
+      return res.status;
+    }, layoutName);
+    expect(status).toBe(201);
+    await page.reload();
     await page.getByTestId('stock-a').waitFor();
     await page.getByTestId('reagent-a').fill('Iron(III) nitrate');
     await page.getByTestId('reagent-b').fill('Potassium thiocyanate');
     await page.getByTestId('cas-b').fill('333-20-0');
     await page.getByTestId('loq').fill('0.0001');
     await page.getByTestId('layout').click();
-    await page.getByRole('option', { name: /Tap-water iron plate/ }).click();
+    await page.getByRole('option', { name: new RegExp(layoutName) }).click();
     await page.getByTestId('plate-preview').waitFor();
     await page.getByTestId('fill-volume').waitFor();
     expect(await page.locator('[data-testid="pipetting-table"] thead').innerText()).toContain('µL');
     expect(await page.getByTestId('cautions').innerText()).toContain('H272');
+    const firstRow = await page.locator('[data-testid="pipetting-table"] tbody tr').first().innerText();
+    expect(firstRow).toMatch(/^A3\b/);
     expect(await layoutProblems(page)).toEqual([]);
     const name = `planner-${viewport.width}x${viewport.height}`;
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
