@@ -85,14 +85,19 @@ describe('the Planner in Chromium', () => {
     await page.getByRole('option', { name: new RegExp(layoutName) }).click();
     await page.getByTestId('plate-preview').waitFor();
     await page.getByTestId('fill-volume').waitFor();
-    expect(await page.locator('[data-testid="pipetting-table"] thead').innerText()).toContain('µL');
-    expect(await page.getByTestId('cautions').innerText()).toContain('H272');
-    const firstRow = await page.locator('[data-testid="pipetting-table"] tbody tr').first().innerText();
-    expect(firstRow).toMatch(/^A3\b/);
-    expect(await layoutProblems(page)).toEqual([]);
     const name = `planner-${viewport.width}x${viewport.height}`;
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-full.png`), fullPage: true });
+    expect(await page.locator('.eq-table-wrap [data-testid="pipetting-table"] thead').innerText()).toContain(
+      'µL',
+    );
+    expect(await page.getByTestId('cautions').innerText()).toContain('H272');
+    const firstRow = await page
+      .locator('.eq-table-wrap [data-testid="pipetting-table"] tbody tr')
+      .first()
+      .innerText();
+    expect(firstRow).toMatch(/^A3\b/);
+    expect(await layoutProblems(page)).toEqual([]);
     await context.close();
   });
 });
