@@ -15,6 +15,9 @@ async function layoutProblems(page: Page): Promise<string[]> {
       'eq-planner-page mat-form-field, eq-planner-page fieldset',
     )) {
       const r = el.getBoundingClientRect();
+      const cell = el.parentElement!.getBoundingClientRect();
+      if (el.tagName === 'FIELDSET' && r.right > cell.right + 0.5)
+        out.push(`fieldset past the form: ${el.querySelector('legend')?.textContent}`);
       if (r.width > 0 && r.right > width + 0.5)
         out.push(`past the right edge: ${el.textContent?.trim().slice(0, 40)}`);
     }
@@ -28,6 +31,9 @@ async function layoutProblems(page: Page): Promise<string[]> {
       if (s.left < i.right - 0.5) out.push(`suffix overlaps: ${suffix.textContent?.trim()}`);
       const f = field.getBoundingClientRect();
       if (s.right > f.right + 0.5) out.push(`suffix outside its field: ${suffix.textContent?.trim()}`);
+      const box = field.closest('fieldset')?.getBoundingClientRect();
+      if (box && (f.right > box.right + 0.5 || f.left < box.left - 0.5))
+        out.push(`field past its fieldset: ${suffix.textContent?.trim()}`);
     }
     return out;
   });
