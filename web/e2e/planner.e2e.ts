@@ -92,8 +92,15 @@ describe('the Planner in Chromium', () => {
     await page.getByTestId('plate-preview').waitFor();
     await page.getByTestId('fill-volume').waitFor();
     const name = `planner-${viewport.width}x${viewport.height}`;
+    // The shell scrolls its content area, not the window: one picture per part of the page.
+    await page.locator('h1', { hasText: 'Planner' }).scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-top.png`) });
+    await page.getByTestId('layout').scrollIntoViewIfNeeded();
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
-    await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-full.png`), fullPage: true });
+    await page.locator('.eq-table-wrap').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-table.png`) });
+    await page.getByTestId('plate-preview').evaluate((el) => el.scrollIntoView({ block: 'end' }));
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-preview.png`) });
     expect(await page.locator('.eq-table-wrap [data-testid="pipetting-table"] thead').innerText()).toContain(
       'µL',
     );
