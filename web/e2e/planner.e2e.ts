@@ -21,6 +21,13 @@ async function layoutProblems(page: Page): Promise<string[]> {
       if (r.width > 0 && r.right > width + 0.5)
         out.push(`past the right edge: ${el.textContent?.trim().slice(0, 40)}`);
     }
+    for (const field of document.querySelectorAll<HTMLElement>('eq-planner-page mat-form-field')) {
+      const control = field.querySelector('input, mat-select');
+      const f = field.getBoundingClientRect();
+      const c = control?.getBoundingClientRect();
+      if (c && c.width > 0 && (c.right > f.right + 0.5 || c.left < f.left - 0.5))
+        out.push(`input past its field: ${field.querySelector('mat-label')?.textContent?.trim()}`);
+    }
     for (const suffix of document.querySelectorAll<HTMLElement>(
       'eq-planner-page .mat-mdc-form-field-text-suffix',
     )) {
@@ -95,6 +102,8 @@ describe('the Planner in Chromium', () => {
     // The shell scrolls its content area, not the window: one picture per part of the page.
     await page.locator('h1', { hasText: 'Planner' }).scrollIntoViewIfNeeded();
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-top.png`) });
+    await page.getByTestId('reagent-a').evaluate((el) => el.scrollIntoView({ block: 'start' }));
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-stocks.png`) });
     await page.getByTestId('layout').scrollIntoViewIfNeeded();
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
     await page.locator('.eq-table-wrap').scrollIntoViewIfNeeded();

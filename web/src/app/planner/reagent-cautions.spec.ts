@@ -45,7 +45,7 @@ describe('ReagentCautions', () => {
     expect(source).toContain('ECHA C&L Inventory');
     expect(source).toContain('safety data sheet');
     expect(source).toContain('precedence');
-    expect(el.textContent).toContain('Not classified as hazardous');
+    expect(el.textContent).toContain('not classified as hazardous');
   });
 
   it('writes one line per reagent for the prep sheet', () => {

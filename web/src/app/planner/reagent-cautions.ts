@@ -54,7 +54,7 @@ export function cautionLine(role: string, c: ReagentCaution): string {
                 }
               </ul>
             } @else {
-              <span> Not classified as hazardous in the app’s table; follow the SDS.</span>
+              <span>: not classified as hazardous in the app’s table; follow the SDS.</span>
             }
             @if (item.caution.entry.note) {
               <p class="eq-reagent-note">{{ item.caution.entry.note }}</p>
