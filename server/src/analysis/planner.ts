@@ -124,7 +124,9 @@ export function planMixtures(input: PlannerInput): MixturePlan {
         `predicted absorbance ${predictedAbsorbance.toFixed(3)} is above the linear range (${ceiling})`,
       );
     if (input.loqM !== undefined && productM < input.loqM)
-      warnings.push('predicted complex concentration is below the LOQ');
+      warnings.push(
+        `predicted absorbance ${predictedAbsorbance.toFixed(3)} is below the LOQ (${(input.epsilonLPerMolCm * l * input.loqM).toFixed(3)} as absorbance): predicted complex concentration is below the LOQ`,
+      );
     return {
       index: index + 1,
       volumeAMl,
@@ -138,4 +140,57 @@ export function planMixtures(input: PlannerInput): MixturePlan {
     };
   });
   return { model: model.label, mixtures, cautions: [...PLANNER_CAUTIONS] };
+}
+
+/** The planner's input for wells: the same series and model, with the well's fill volume in µL. */
+export interface WellPlannerInput extends Omit<PlannerInput, 'totalVolumeMl' | 'volumeStepMl'> {
+  /** Fill volume of every well, µL (from the instrument profile or typed). */
+  fillVolumeUl: number;
+  /** Round volumes to this step, µL (e.g. 1, a common pipette step); default no rounding. */
+  volumeStepUl?: number;
+}
+
+/** One planned well: the mixture (volumes also in mL) and its volumes in µL. */
+export interface PlannedWellMixture extends PlannedMixture {
+  volumeAUl: number;
+  volumeBUl: number;
+  diluentUl: number;
+}
+
+export interface WellMixturePlan extends Omit<MixturePlan, 'mixtures'> {
+  fillVolumeUl: number;
+  mixtures: PlannedWellMixture[];
+}
+
+/**
+ * The mixture plan for plate wells, in µL: V_A = A₀·V_fill/c_A, V_B = B₀·V_fill/c_B and the diluent
+ * V_fill − V_A − V_B, so each well's volumes add up to the fill volume (dilution rule C₁V₁ = C₂V₂).
+ * The rule is linear in the volume, so the plan is computed with V_T in µL (and rounded to a µL step);
+ * the mL fields are the same volumes divided by 1000.
+ *
+ * @example
+ * planWellMixtures({ stockAM: 2e-3, stockBM: 2e-3, fillVolumeUl: 200, kAssumed: 98, epsilonLPerMolCm: 4700,
+ *   series: { kind: 'job', totalConcentrationM: 1e-3, moleFractionsB: [0.5] } }).mixtures[0].volumeAUl; // 50
+ */
+export function planWellMixtures(input: WellPlannerInput): WellMixturePlan {
+  const { fillVolumeUl, volumeStepUl, ...rest } = input;
+  if (!(fillVolumeUl > 0))
+    throw new AnalysisError('invalid-input', 'the fill volume of a well must be positive');
+  if (volumeStepUl !== undefined && !(volumeStepUl > 0))
+    throw new AnalysisError('invalid-input', 'the volume step must be positive');
+  const plan = planMixtures({ ...rest, totalVolumeMl: fillVolumeUl, volumeStepMl: volumeStepUl });
+  return {
+    ...plan,
+    fillVolumeUl,
+    mixtures: plan.mixtures.map((m) => ({
+      ...m,
+      volumeAUl: m.volumeAMl,
+      volumeBUl: m.volumeBMl,
+      diluentUl: m.diluentMl,
+      volumeAMl: m.volumeAMl / 1000,
+      volumeBMl: m.volumeBMl / 1000,
+      diluentMl: m.diluentMl / 1000,
+      warnings: m.warnings.map((w) => w.replace('the total volume', 'the fill volume')),
+    })),
+  };
 }

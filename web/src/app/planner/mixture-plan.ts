@@ -1,4 +1,11 @@
-import { type MixturePlan, type PlannedMixture, type PlannerInput, planMixtures } from '@equilight/analysis';
+import {
+  AnalysisError,
+  type MixturePlan,
+  type PlannedMixture,
+  type PlannerInput,
+  planMixtures,
+  planWellMixtures,
+} from '@equilight/analysis';
 
 export type SeriesKind = 'job' | 'excess';
 export type PositionScheme = 'cuvette' | 'plate96' | 'plate384';
@@ -46,6 +53,37 @@ export interface PlanRow {
   aboveLinearRange: boolean;
   belowLoq: boolean;
   cannotBeMade: boolean;
+  /** The unit the volumes are pipetted in: µL for plate wells, mL for cuvettes. */
+  volumeUnit: 'mL' | 'µL';
+  /** Stock A, stock B and diluent in volumeUnit. */
+  volumes: { a: number; b: number; diluent: number; total: number };
+}
+
+/** Plate wells to fill: the free positions in order and the fill volume of a well. */
+export interface WellTarget {
+  positions: readonly string[];
+  fillVolumeUl: number;
+  /** Round volumes to this step, µL; 0 = no rounding. */
+  volumeStepUl: number;
+}
+
+/** Fill volume of a well when none is given, µL (common practice for flat-bottom plates). */
+export const DEFAULT_FILL_VOLUME_UL: Readonly<Record<'96' | '384', number>> = { '96': 200, '384': 80 };
+
+/** Every position of a layout's format in order: A1, A2, … row by row, or C1 … Cn. */
+export function formatPositions(format: '96' | '384' | 'cuvette', cuvetteCount: number | null): string[] {
+  if (format === 'cuvette') return planPositions(Math.max(0, cuvetteCount ?? 0), 'cuvette');
+  return planPositions(format === '96' ? 96 : 384, format === '96' ? 'plate96' : 'plate384');
+}
+
+/** The positions of a layout that no sample role occupies yet, in plate order. */
+export function freePositions(
+  format: '96' | '384' | 'cuvette',
+  cuvetteCount: number | null,
+  occupied: readonly { position: string }[],
+): string[] {
+  const taken = new Set(occupied.map((p) => p.position.toUpperCase()));
+  return formatPositions(format, cuvetteCount).filter((p) => !taken.has(p));
 }
 
 /** Mole fractions of B for a Job's series of n mixtures: i/(n + 1), leaving out the pure reactants. */
@@ -97,14 +135,33 @@ export function planPositions(count: number, scheme: PositionScheme): string[] {
   );
 }
 
-/** The plan for these settings, laid out on positions with its flags. Throws the analysis module's errors. */
+/**
+ * The plan for these settings, laid out on positions with its flags. Throws the analysis module's errors.
+ * With wells, the volumes are planned in µL to the well's fill volume and go to the given free positions
+ * (the series' total volume in mL is then not used); otherwise in mL on the scheme's positions.
+ */
 export function planRows(
   s: PlannerSettings,
   scheme: PositionScheme,
   sampleIdPrefix: string,
+  wells?: WellTarget,
 ): { plan: MixturePlan; rows: PlanRow[] } {
-  const plan = planMixtures(plannerInput(s));
-  const positions = planPositions(plan.mixtures.length, scheme);
+  const input = plannerInput(s);
+  const wellPlan = wells
+    ? planWellMixtures({
+        ...input,
+        fillVolumeUl: wells.fillVolumeUl,
+        volumeStepUl: wells.volumeStepUl > 0 ? wells.volumeStepUl : undefined,
+      })
+    : null;
+  const plan: MixturePlan = wellPlan ?? planMixtures(input);
+  if (wells && plan.mixtures.length > wells.positions.length)
+    throw new AnalysisError(
+      'invalid-input',
+      `the layout has ${wells.positions.length} free position(s) for ${plan.mixtures.length} mixtures`,
+    );
+  const positions = wells ? wells.positions : planPositions(plan.mixtures.length, scheme);
+  const totalMl = wells ? wells.fillVolumeUl / 1000 : s.totalVolumeMl;
   const digits = String(plan.mixtures.length).length < 2 ? 2 : String(plan.mixtures.length).length;
   const rows = plan.mixtures.map((m, i): PlanRow => ({
     position: positions[i],
@@ -113,7 +170,16 @@ export function planRows(
     moleFractionB: m.a0M + m.b0M > 0 ? m.b0M / (m.a0M + m.b0M) : 0,
     aboveLinearRange: m.predictedAbsorbance > s.linearRangeMaxAbsorbance,
     belowLoq: s.loqM !== null && m.productM < s.loqM,
-    cannotBeMade: m.volumeAMl + m.volumeBMl > s.totalVolumeMl * (1 + 1e-9),
+    cannotBeMade: m.volumeAMl + m.volumeBMl > totalMl * (1 + 1e-9),
+    volumeUnit: wells ? 'µL' : 'mL',
+    volumes: wellPlan
+      ? {
+          a: wellPlan.mixtures[i].volumeAUl,
+          b: wellPlan.mixtures[i].volumeBUl,
+          diluent: wellPlan.mixtures[i].diluentUl,
+          total: wellPlan.fillVolumeUl,
+        }
+      : { a: m.volumeAMl, b: m.volumeBMl, diluent: m.diluentMl, total: s.totalVolumeMl },
   }));
   return { plan, rows };
 }
@@ -147,7 +213,7 @@ export function manifestCsv(rows: readonly PlanRow[], s: PlannerSettings): strin
         csvNumber(row.mixture.volumeAMl),
         csvNumber(s.stockBM),
         csvNumber(row.mixture.volumeBMl),
-        csvNumber(s.totalVolumeMl),
+        csvNumber(row.volumeUnit === 'µL' ? row.volumes.total / 1000 : s.totalVolumeMl),
       ].join(','),
     );
   }

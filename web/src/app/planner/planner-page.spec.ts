@@ -1,13 +1,45 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
 import { PlannerPage } from './planner-page';
+
+const LAYOUT_SUMMARY = {
+  id: 7,
+  name: 'Iron series plate',
+  format: '96',
+  cuvetteCount: null,
+  currentVersion: 1,
+  positionCount: 4,
+  roleCounts: { blank: 2, standard: 2 },
+  updatedAt: '2026-11-30T10:00:00.000Z',
+};
+const LAYOUT = {
+  ...LAYOUT_SUMMARY,
+  version: 1,
+  positions: [
+    { position: 'A1', role: 'blank' },
+    { position: 'A2', role: 'blank' },
+    { position: 'A3', role: 'standard', replicateGroup: 'S1' },
+    { position: 'A4', role: 'standard', replicateGroup: 'S1' },
+  ],
+  versions: [{ version: 1, createdAt: '2026-11-30T10:00:00.000Z', createdById: 1 }],
+};
 
 // Material harnesses open real overlays; on a busy two-core machine that takes seconds.
 jest.setTimeout(20_000);
 
 describe('PlannerPage', () => {
   async function setup() {
-    TestBed.configureTestingModule({ imports: [PlannerPage] });
+    TestBed.configureTestingModule({
+      imports: [PlannerPage],
+      providers: [provideHttpClient(), provideHttpClientTesting()],
+    });
     const fixture = TestBed.createComponent(PlannerPage);
+    const http = TestBed.inject(HttpTestingController);
+    fixture.detectChanges();
+    http.expectOne('/api/layouts').flush([LAYOUT_SUMMARY]);
     await fixture.whenStable();
     const el = fixture.nativeElement as HTMLElement;
     const type = async (testId: string, value: string) => {
@@ -16,7 +48,15 @@ describe('PlannerPage', () => {
       input.dispatchEvent(new Event('input'));
       await fixture.whenStable();
     };
-    return { fixture, el, type };
+    const chooseLayout = async () => {
+      const loader = TestbedHarnessEnvironment.loader(fixture);
+      const select = await loader.getHarness(MatSelectHarness.with({ selector: '[data-testid="layout"]' }));
+      await select.open();
+      await select.clickOptions({ text: /Iron series plate/ });
+      http.expectOne('/api/layouts/7').flush(LAYOUT);
+      await fixture.whenStable();
+    };
+    return { fixture, el, type, chooseLayout, http };
   }
 
   const screenRows = (el: HTMLElement) =>
@@ -113,5 +153,64 @@ describe('PlannerPage', () => {
     expect(sheet.querySelectorAll('tbody tr')).toHaveLength(9);
     expect(sheet.textContent).toContain('Prepared by');
     expect(sheet.textContent).toContain('thiocyanates');
+  });
+
+  it('names no single reagent in the cautions heading and shows the H-statements of the named stocks', async () => {
+    const { el, type } = await setup();
+    expect(el.querySelector('#cautions-title')!.textContent).toBe(
+      'Before you pipette: cautions for the reagents in this plan',
+    );
+    await type('reagent-a', 'Iron(III) nitrate');
+    await type('reagent-b', 'some ligand');
+    await type('cas-b', '333-20-0');
+    const items = [...el.querySelectorAll('[data-testid="reagent-caution"]')].map((li) =>
+      li.textContent!.replace(/\s+/g, ' '),
+    );
+    expect(items[0]).toContain('H272 May intensify fire; oxidizer');
+    expect(items[1]).toContain('Potassium thiocyanate');
+    expect(items[2]).toContain('Water'); // the default diluent, deionised water
+    expect(el.querySelector('[data-testid="reagent-source"]')!.textContent).toContain('safety data sheet');
+  });
+
+  it('gives the general caution for a reagent the table does not hold', async () => {
+    const { el, type } = await setup();
+    await type('reagent-a', 'Reagent X-17');
+    const first = el.querySelector('[data-testid="reagent-caution"]')!.textContent!;
+    expect(first).toContain('Reagent X-17');
+    expect(first).toContain('treat it as hazardous');
+  });
+
+  it('plans µL to the fill volume on the free positions of a chosen plate layout, with a preview', async () => {
+    const { el, type, chooseLayout } = await setup();
+    await type('mixture-count', '4');
+    await chooseLayout();
+    expect(el.querySelector('[data-testid="free-count"]')!.textContent).toContain('92 free position(s)');
+    expect(el.querySelector<HTMLInputElement>('[data-testid="fill-volume"]')!.value).toBe('200');
+    expect(el.querySelector('[data-testid="total-volume"]')).toBeNull();
+    const header = el.querySelector('.eq-table-wrap thead')!.textContent!;
+    expect(header).toContain('µL');
+    const rows = screenRows(el);
+    expect(rows).toHaveLength(4);
+    // 200 µL wells, Job's series at 1e-3 mol/L from 2e-3 mol/L stocks, mixture 2 at x_B = 0.4: V_A = 6e-4 × 200 / 2e-3 = 60 µL, V_B = 40 µL, diluent 100 µL (C₁V₁ = C₂V₂).
+    expect(rows.map((r) => r.split(' | ')[0])).toEqual(['A5', 'A6', 'A7', 'A8']);
+    expect(rows[1]).toContain('60.0 | 40.0 | 100.0');
+    const preview = el.querySelector('[data-testid="plate-preview"]')!;
+    expect(preview.textContent).toContain('Iron series plate');
+    expect(preview.querySelector('[aria-label*="A6, mixture"], [title*="A6, mixture"]')).not.toBeNull();
+  });
+
+  it('warns per mixture below the LOQ and shows the LOQ as an absorbance', async () => {
+    const { el, type } = await setup();
+    await type('mixture-count', '4');
+    await type('k-assumed', '1000');
+    await type('epsilon', '5000');
+    await type('loq', '0.0001');
+    expect(el.querySelector('[data-testid="loq-absorbance"]')!.textContent).toContain('0.500');
+    const rows = screenRows(el);
+    // Hand-worked in planner.spec.ts: complex 8.35e-5, 1.28e-4, 1.28e-4, 8.35e-5 mol/L.
+    expect(rows.map((r) => r.includes('Below the LOQ'))).toEqual([true, false, false, true]);
+    expect(el.querySelector('[data-testid="plan-summary"]')!.textContent).toContain(
+      '2 mixture(s) predicted below the LOQ',
+    );
   });
 });

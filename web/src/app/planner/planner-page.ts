@@ -5,6 +5,7 @@ import {
   Injector,
   afterNextRender,
   computed,
+  effect,
   inject,
   signal,
 } from '@angular/core';
@@ -23,19 +24,29 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { AnalysisError, PLANNER_CAUTIONS } from '@equilight/analysis';
+import { catchError, distinctUntilChanged, map, of, switchMap } from 'rxjs';
+import type { Layout, LayoutSummary } from '../layouts/layout';
+import { LayoutsService } from '../layouts/layouts.service';
+import { PlateGrid } from '../shared/plate-grid/plate-grid';
+import type { PlateCell } from '../shared/plate-grid/plate-geometry';
 import {
+  DEFAULT_FILL_VOLUME_UL,
   PLANNER_STOICHIOMETRIES,
   POSITION_SCHEMES,
   type PlanRow,
   type PlannerSettings,
   type PositionScheme,
   type SeriesKind,
+  type WellTarget,
+  freePositions,
   kUnit,
   manifestCsv,
   planRows,
 } from './mixture-plan';
 import { PipettingTable } from './pipetting-table';
 import { PrepSheet } from './prep-sheet';
+import { type NamedReagent, ReagentCautions, cautionLine } from './reagent-cautions';
+import { lookupReagent } from './reagent-hazards';
 import { saveTextFile } from './save-text-file';
 
 const MAX_MIXTURES = 96;
@@ -63,6 +74,8 @@ const SAMPLE_PREFIX = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,30}$/;
     MatIconModule,
     PipettingTable,
     PrepSheet,
+    PlateGrid,
+    ReagentCautions,
   ],
   templateUrl: './planner-page.html',
   styleUrl: './planner-page.scss',
@@ -72,6 +85,7 @@ export class PlannerPage {
   private readonly fb = inject(FormBuilder).nonNullable;
   private readonly document = inject(DOCUMENT);
   private readonly injector = inject(Injector);
+  private readonly layoutsService = inject(LayoutsService);
 
   protected readonly stoichiometries = PLANNER_STOICHIOMETRIES;
   protected readonly schemes = POSITION_SCHEMES;
@@ -81,6 +95,12 @@ export class PlannerPage {
     { value: 0.001, label: '0.001 mL (1 µL)' },
     { value: 0.01, label: '0.01 mL (10 µL)' },
     { value: 0.1, label: '0.1 mL' },
+  ];
+  protected readonly wellSteps = [
+    { value: 0, label: 'No rounding' },
+    { value: 0.1, label: '0.1 µL' },
+    { value: 0.5, label: '0.5 µL' },
+    { value: 1, label: '1 µL' },
   ];
 
   protected readonly form = this.fb.group({
@@ -107,6 +127,64 @@ export class PlannerPage {
     volumeStepMl: this.fb.control(0.01),
     scheme: this.fb.control<PositionScheme>('cuvette'),
     samplePrefix: this.fb.control('mix', [Validators.required, Validators.pattern(SAMPLE_PREFIX)]),
+    /** A saved layout whose free positions take the mixtures; null = positions by scheme. */
+    layoutId: this.fb.control<number | null>(null),
+    fillVolumeUl: this.fb.control(DEFAULT_FILL_VOLUME_UL['96'], [
+      Validators.required,
+      positive,
+      Validators.max(5000),
+    ]),
+    volumeStepUl: this.fb.control(1),
+    reagentA: this.fb.control(''),
+    casA: this.fb.control(''),
+    reagentB: this.fb.control(''),
+    casB: this.fb.control(''),
+    diluent: this.fb.control('Deionised water'),
+  });
+
+  /** Saved layouts to choose from; null while loading or when they cannot be read. */
+  protected readonly layouts = toSignal(
+    this.layoutsService.list().pipe(catchError(() => of<LayoutSummary[] | 'error'>('error'))),
+    { initialValue: null },
+  );
+
+  /** The chosen layout's current version, once loaded (or the reason it is not there). */
+  protected readonly layout = toSignal(
+    this.form.controls.layoutId.valueChanges.pipe(
+      distinctUntilChanged(),
+      switchMap((id) =>
+        id === null
+          ? of<Layout | 'loading' | 'error' | null>(null)
+          : this.layoutsService.get(id).pipe(
+              map((l): Layout | 'loading' | 'error' => l),
+              catchError(() => of<'error'>('error')),
+            ),
+      ),
+    ),
+    { initialValue: null },
+  );
+
+  protected readonly loadedLayout = computed(() => {
+    const l = this.layout();
+    return l && typeof l === 'object' ? l : null;
+  });
+
+  /** A plate layout: plan in µL to the fill volume on its free wells. */
+  protected readonly plateLayout = computed(() => {
+    const l = this.loadedLayout();
+    return l && l.format !== 'cuvette' ? l : null;
+  });
+
+  /** A 384-well layout starts from its own usual fill volume, unless the user typed one. */
+  private readonly fillDefault = effect(() => {
+    const plate = this.plateLayout();
+    const fill = this.form.controls.fillVolumeUl;
+    if (plate && fill.pristine) fill.setValue(DEFAULT_FILL_VOLUME_UL[plate.format as '96' | '384']);
+  });
+
+  protected readonly free = computed(() => {
+    const l = this.loadedLayout();
+    return l ? freePositions(l.format, l.cuvetteCount, l.positions) : [];
   });
 
   private readonly value = toSignal(this.form.valueChanges, { initialValue: this.form.getRawValue() });
@@ -129,6 +207,10 @@ export class PlannerPage {
       c.loqM,
       c.samplePrefix,
     ];
+    if (this.plateLayout()) {
+      common.splice(common.indexOf(c.totalVolumeMl), 1);
+      common.push(c.fillVolumeUl);
+    }
     return c.series.value === 'job'
       ? [...common, c.totalConcentrationM]
       : [...common, c.fixedAM, c.firstRatioBToA, c.lastRatioBToA];
@@ -140,19 +222,82 @@ export class PlannerPage {
     | { kind: 'error'; message: string }
   >(() => {
     this.value();
+    const layout = this.layout();
+    if (layout === 'error') return { kind: 'error', message: 'The layout could not be loaded.' };
+    if (this.form.controls.layoutId.value !== null && layout === null) return { kind: 'invalid' };
     if (this.relevantControls().some((c) => c.invalid)) return { kind: 'invalid' };
-    const { scheme, samplePrefix, ...settings } = this.form.getRawValue();
-    const capacity = POSITION_SCHEMES.find((p) => p.value === scheme)?.capacity ?? 999;
+    const {
+      scheme,
+      samplePrefix,
+      layoutId: _layoutId,
+      fillVolumeUl,
+      volumeStepUl,
+      reagentA: _a,
+      casA: _ca,
+      reagentB: _b,
+      casB: _cb,
+      diluent: _d,
+      ...settings
+    } = this.form.getRawValue();
+    const free = this.free();
+    const loaded = this.loadedLayout();
+    const capacity = loaded
+      ? free.length
+      : (POSITION_SCHEMES.find((p) => p.value === scheme)?.capacity ?? 999);
     if (settings.mixtureCount > capacity)
-      return { kind: 'error', message: `The plate holds only ${capacity} positions.` };
+      return {
+        kind: 'error',
+        message: loaded
+          ? `The layout has only ${capacity} free position(s); plan fewer mixtures or free some positions.`
+          : `The plate holds only ${capacity} positions.`,
+      };
+    const wells: WellTarget | undefined = this.plateLayout()
+      ? { positions: free, fillVolumeUl, volumeStepUl }
+      : undefined;
+    // A cuvette layout keeps mL and takes its free cuvettes in order.
+    const cuvettes = loaded && !wells;
     try {
-      const { rows } = planRows(settings, scheme, samplePrefix);
+      const planned = planRows(settings, scheme, samplePrefix, wells);
+      const rows = cuvettes ? planned.rows.map((r, i) => ({ ...r, position: free[i] })) : planned.rows;
       return { kind: 'plan', settings, rows };
     } catch (err) {
       if (err instanceof AnalysisError) return { kind: 'error', message: `Cannot plan: ${err.message}.` };
       throw err;
     }
   });
+
+  /** The plate preview: the layout's own positions with their roles, and the planned mixtures. */
+  protected readonly previewCells = computed(() => {
+    const cells: Record<string, PlateCell> = {};
+    for (const p of this.loadedLayout()?.positions ?? [])
+      cells[p.position] = { role: p.role, replicateGroup: p.replicateGroup };
+    for (const row of this.plan()?.rows ?? []) cells[row.position] = { role: 'mixture', label: row.sampleId };
+    return cells;
+  });
+
+  /** The LOQ as the absorbance it gives at the assumed ε and path length (A = ε·l·c), 3 decimals. */
+  protected readonly loqAbsorbance = computed(() => {
+    const v = this.value();
+    const loq = v.loqM;
+    if (!(typeof loq === 'number' && loq > 0) || !v.epsilonLPerMolCm || !v.pathLengthCm) return null;
+    return (v.epsilonLPerMolCm * v.pathLengthCm * loq).toFixed(3);
+  });
+
+  /** The reagents the user named, for the cautions. */
+  protected readonly reagents = computed<NamedReagent[]>(() => {
+    const v = this.value();
+    return [
+      { role: 'Stock A', name: v.reagentA ?? '', cas: v.casA ?? '' },
+      { role: 'Stock B', name: v.reagentB ?? '', cas: v.casB ?? '' },
+      { role: 'Diluent', name: v.diluent ?? '', cas: '' },
+    ];
+  });
+
+  /** General cautions and one line per named reagent, for the printed sheet. */
+  protected readonly sheetCautions = computed(() => [
+    ...this.reagents().map((r) => cautionLine(r.role, lookupReagent({ name: r.name, cas: r.cas }))),
+    ...this.cautions,
+  ]);
 
   protected readonly plan = computed(() => {
     const r = this.result();

@@ -1,5 +1,5 @@
 import { planMixtures } from '@equilight/analysis';
-import { type PlannerSettings, manifestCsv, planRows, plannerInput } from './mixture-plan';
+import { type PlannerSettings, freePositions, manifestCsv, planRows, plannerInput } from './mixture-plan';
 
 /**
  * Hand-worked example (1:1), numbers invented for this test and worked out by hand.
@@ -167,5 +167,55 @@ describe('mixture planner: flags and manifest CSV', () => {
       'C4,mix-04,mixture,0.002,1,0.002,4,10',
       '',
     ]);
+  });
+});
+
+describe('mixture planner: plate wells in µL on a layout’s free positions', () => {
+  const occupied = [
+    { position: 'A1' },
+    { position: 'A2' },
+    { position: 'a3' }, // positions compare without regard to case
+    { position: 'B1' },
+  ];
+
+  it('lists the positions no sample role occupies, row by row', () => {
+    const free = freePositions('96', null, occupied);
+    expect(free).toHaveLength(92);
+    expect(free.slice(0, 10)).toEqual(['A4', 'A5', 'A6', 'A7', 'A8', 'A9', 'A10', 'A11', 'A12', 'B2']);
+    expect(freePositions('cuvette', 5, [{ position: 'C2' }])).toEqual(['C1', 'C3', 'C4', 'C5']);
+    expect(freePositions('384', null, [])).toHaveLength(384);
+  });
+
+  it('plans µL to the fill volume on the free positions (C₁V₁ = C₂V₂, hand-worked)', () => {
+    // Same series as the hand-worked example, in 200 µL wells: V_A = 6.000e-4 × 200 / 2.000e-3 = 60 µL,
+    // V_B = 4.000e-4 × 200 / 2.000e-3 = 40 µL, diluent 100 µL for mixture 2.
+    const wells = { positions: freePositions('96', null, occupied), fillVolumeUl: 200, volumeStepUl: 1 };
+    const { rows } = planRows(HAND_WORKED, 'plate96', 'mix', wells);
+    expect(rows.map((r) => r.position)).toEqual(['A4', 'A5', 'A6', 'A7']);
+    expect(rows.every((r) => r.volumeUnit === 'µL')).toBe(true);
+    expect(rows[1].volumes).toEqual({ a: 60, b: 40, diluent: 100, total: 200 });
+    for (const r of rows) {
+      expect(r.volumes.a + r.volumes.b + r.volumes.diluent).toBeCloseTo(200, 9);
+      expect(HAND_WORKED.stockAM * r.volumes.a).toBeCloseTo(r.mixture.a0M * 200, 12);
+    }
+    // Concentrations and absorbances do not depend on the volume scale.
+    expectWithin(rows[1].mixture.predictedAbsorbance, 0.6411, FOUR_FIGURES);
+    // The manifest keeps its mL columns.
+    expect(manifestCsv(rows, HAND_WORKED).split('\r\n')[2]).toBe(
+      'A5,mix-02,mixture,0.002,0.06,0.002,0.04,0.2',
+    );
+  });
+
+  it('refuses more mixtures than free positions', () => {
+    const wells = { positions: ['H11', 'H12'], fillVolumeUl: 200, volumeStepUl: 0 };
+    expect(() => planRows(HAND_WORKED, 'plate96', 'mix', wells)).toThrow(
+      /2 free position\(s\) for 4 mixtures/,
+    );
+  });
+
+  it('flags a well whose stocks exceed the fill volume', () => {
+    const wells = { positions: freePositions('96', null, []), fillVolumeUl: 200, volumeStepUl: 0 };
+    const { rows } = planRows({ ...HAND_WORKED, stockAM: 5e-4 }, 'plate96', 'mix', wells);
+    expect(rows[0].cannotBeMade).toBe(true); // 8e-4 × 200 / 5e-4 = 320 µL of stock A in 200 µL
   });
 });
