@@ -2,14 +2,13 @@
 // and the browser tests that drive Debian's Chromium against a real server.
 const { createCjsPreset } = require('jest-preset-angular/presets');
 
-const esmPackages = [
-  'p-queue',
-  'p-timeout',
-  'eventemitter3',
-  'chokidar',
-  'readdirp',
-];
+const esmPackages = ['p-queue', 'p-timeout', 'eventemitter3', 'chokidar', 'readdirp'];
 const transformIgnorePatterns = [`node_modules/(?!(${esmPackages.join('|')})/)`];
+// The shared modules' path aliases (tsconfig.json `paths`), for the projects that run on Node.
+const sharedModules = {
+  '^@equilight/analysis$': '<rootDir>/server/src/analysis/index.ts',
+  '^@equilight/contracts$': '<rootDir>/server/src/contracts/index.ts',
+};
 const nodeTransform = {
   '^.+\\.[tj]sx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.spec.json' }],
 };
@@ -23,6 +22,7 @@ module.exports = {
       testMatch: ['<rootDir>/server/src/**/*.spec.ts', '<rootDir>/watcher/src/**/*.spec.ts'],
       transform: nodeTransform,
       transformIgnorePatterns,
+      moduleNameMapper: sharedModules,
     },
     {
       displayName: 'web',
@@ -34,7 +34,7 @@ module.exports = {
       setupFilesAfterEnv: ['<rootDir>/web/src/setup-jest.ts'],
       testMatch: ['<rootDir>/web/src/**/*.spec.ts'],
       moduleNameMapper: {
-        '^@equilight/analysis$': '<rootDir>/server/src/analysis/index.ts',
+        ...sharedModules,
         // import.meta (new Worker(new URL(…))) does not load under CommonJS; jsdom has no Worker anyway.
         '^\\./what-if-worker$': '<rootDir>/web/src/testing/no-web-worker.ts',
       },
@@ -46,6 +46,7 @@ module.exports = {
       testMatch: ['<rootDir>/web/e2e/**/*.e2e.ts'],
       transform: nodeTransform,
       transformIgnorePatterns,
+      moduleNameMapper: sharedModules,
     },
   ],
 };

@@ -3,10 +3,10 @@ import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type { PassportStatic } from 'passport';
 import { AppError } from '../common/app-error';
 import { validateBody } from '../common/validate';
-import { emailKeyOf } from '../users/email-address';
+import { emailKeyOf } from '../contracts/email-address';
 import { type User, toPublicUser } from '../users/user.entity';
 import type { UsersService } from '../users/users.service';
-import { loginSchema, setPasswordSchema } from './auth.schema';
+import { loginSchema, setPasswordSchema } from '../contracts/auth';
 
 function authenticate(passport: PassportStatic, req: Request): Promise<User> {
   return new Promise((resolve, reject) => {

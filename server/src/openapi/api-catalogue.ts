@@ -1,6 +1,6 @@
 import type { z } from 'zod';
-import { auditQuerySchema } from '../audit/audit.schema';
-import { loginSchema, setPasswordSchema } from '../auth/auth.schema';
+import { auditQuerySchema } from '../contracts/audit';
+import { loginSchema, setPasswordSchema } from '../contracts/auth';
 import {
   analysisQuerySchema,
   approveSchema,
@@ -8,15 +8,15 @@ import {
   createBatchSchema,
   reasonSchema,
   updateSettingsSchema,
-} from '../batches/batches.schema';
-import { intakeQuerySchema } from '../ingest/intake.schema';
-import { createProfileSchema, updateProfileSchema } from '../instruments/instruments.schema';
-import { createLayoutSchema, updateLayoutSchema } from '../layouts/layouts.schema';
-import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from '../mail/mail.schema';
-import { manifestMetaSchema } from '../manifests/manifests.schema';
-import { temperaturesQuerySchema } from '../temperatures/temperatures.router';
-import { createUserSchema, updateUserSchema } from '../users/users.schema';
-import { createWebhookSchema, deliveriesQuerySchema, updateWebhookSchema } from '../webhooks/webhooks.schema';
+} from '../contracts/batches';
+import { intakeQuerySchema } from '../contracts/intake';
+import { createProfileSchema, updateProfileSchema } from '../contracts/instruments';
+import { createLayoutSchema, updateLayoutSchema } from '../contracts/layouts';
+import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from '../contracts/mail';
+import { manifestMetaSchema } from '../contracts/manifests';
+import { temperaturesQuerySchema } from '../contracts/temperatures';
+import { createUserSchema, updateUserSchema } from '../contracts/users';
+import { createWebhookSchema, deliveriesQuerySchema, updateWebhookSchema } from '../contracts/webhooks';
 import type { Role } from '../users/user.entity';
 
 export type Access = 'public' | 'instrument' | readonly Role[];

@@ -24,7 +24,7 @@ describe('resolveParseRules', () => {
         replicate: 'replicate',
       },
       spectrumWavelengthColumn: 'wavelength_nm',
-      plateFormat: 96,
+      plateFormat: '96',
     });
     expect(resolveParseRules()).toEqual(DEFAULT_PARSE_RULES);
   });
