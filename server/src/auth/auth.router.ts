@@ -1,3 +1,4 @@
+import { requireSignedIn } from './roles';
 import { Router, type Request, type Response } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type { PassportStatic } from 'passport';
@@ -61,8 +62,7 @@ export function authRouter(
     res.status(204).end();
   });
 
-  router.get('/me', (req, res) => {
-    if (!req.user) throw AppError.unauthorized('Not signed in.');
+  router.get('/me', requireSignedIn, (req, res) => {
     res.json(toPublicUser(req.user as User));
   });
 

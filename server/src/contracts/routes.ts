@@ -1,23 +1,51 @@
-import type { z } from 'zod';
-import { auditQuerySchema } from '../contracts/audit';
-import { loginSchema, setPasswordSchema } from '../contracts/auth';
+import { z } from 'zod';
+import { auditPageSchema, auditQuerySchema } from './audit';
+import { loginSchema, setPasswordSchema } from './auth';
 import {
   analysisQuerySchema,
+  approvalRecordFullSchema,
+  approvalRecordSchema,
   approveSchema,
   assignSchema,
+  batchAnalysisSchema,
+  batchSchema,
   createBatchSchema,
+  epsilonCandidateSchema,
   reasonSchema,
   updateSettingsSchema,
-} from '../contracts/batches';
-import { intakeQuerySchema } from '../contracts/intake';
-import { createProfileSchema, updateProfileSchema } from '../contracts/instruments';
-import { createLayoutSchema, updateLayoutSchema } from '../contracts/layouts';
-import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from '../contracts/mail';
-import { manifestMetaSchema } from '../contracts/manifests';
-import { temperaturesQuerySchema } from '../contracts/temperatures';
-import { createUserSchema, updateUserSchema } from '../contracts/users';
-import { createWebhookSchema, deliveriesQuerySchema, updateWebhookSchema } from '../contracts/webhooks';
-import type { Role } from '../users/user.entity';
+} from './batches';
+import { ADMIN_ONLY, EVERYONE, MANAGERS, type Role } from './enums';
+import { ingestReceiptSchema, intakeFileSchema, intakePageSchema, intakeQuerySchema } from './intake';
+import {
+  createProfileSchema,
+  instrumentSummarySchema,
+  profileSchema,
+  profileWithTokenSchema,
+  tryResultSchema,
+  updateProfileSchema,
+} from './instruments';
+import { createLayoutSchema, layoutSchema, layoutSummarySchema, updateLayoutSchema } from './layouts';
+import {
+  acceptedSchema,
+  forgotPasswordSchema,
+  notificationSettingsResponseSchema,
+  notificationSettingsSchema,
+  outboxMessageSchema,
+  outboxPageSchema,
+  outboxQuerySchema,
+  outboxStatusSchema,
+} from './mail';
+import { manifestCheckSchema, manifestMetaSchema, manifestSchema, manifestSummarySchema } from './manifests';
+import { systemTemperaturesSchema, temperaturesQuerySchema } from './temperatures';
+import { createUserSchema, createdUserSchema, publicUserSchema, updateUserSchema } from './users';
+import {
+  createWebhookSchema,
+  deliveriesPageSchema,
+  deliveriesQuerySchema,
+  deliverySchema,
+  updateWebhookSchema,
+  webhookSchema,
+} from './webhooks';
 
 export type Access = 'public' | 'instrument' | readonly Role[];
 
@@ -35,15 +63,18 @@ export interface ApiOperation {
   query?: z.ZodType;
   /** Success status and what it returns. */
   success: [status: number, description: string];
+  /** The schema of the success answer's JSON body (none: no body, or not JSON). */
+  response?: z.ZodType;
 }
 
-const ALL: readonly Role[] = ['admin', 'lab_manager', 'scientist'];
-const MANAGERS: readonly Role[] = ['admin', 'lab_manager'];
-const ADMIN: readonly Role[] = ['admin'];
+const ALL = EVERYONE;
+const ADMIN = ADMIN_ONLY;
 
 /**
- * Every API operation, with the same zod schemas the routes validate with. The OpenAPI document is
- * generated from this list; a test checks that each entry is a mounted route.
+ * The route table: every API operation with its roles and the zod schemas of its request and its
+ * answer. The routes validate with these schemas and check these roles (a test walks the mounted
+ * routes and compares); the OpenAPI document is generated from this list; the web app parses answers
+ * with the same response schemas.
  */
 export const API_OPERATIONS: readonly ApiOperation[] = [
   {
@@ -54,6 +85,9 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       'Health: touches the database; status ok, or degraded with reasons (503 when the database does not answer)',
     access: 'public',
     success: [200, 'The server is up: {status: ok} or {status: degraded, reasons: [...]}'],
+    response: z
+      .object({ status: z.enum(['ok', 'degraded']), reasons: z.array(z.string()).optional() })
+      .loose(),
   },
   {
     method: 'post',
@@ -63,6 +97,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'public',
     body: loginSchema,
     success: [200, 'The signed-in person'],
+    response: publicUserSchema,
   },
   {
     method: 'post',
@@ -79,6 +114,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Who is signed in',
     access: ALL,
     success: [200, 'The signed-in person'],
+    response: publicUserSchema,
   },
   {
     method: 'post',
@@ -88,6 +124,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'public',
     body: setPasswordSchema,
     success: [200, 'The person'],
+    response: publicUserSchema,
   },
   {
     method: 'get',
@@ -96,6 +133,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List people',
     access: ADMIN,
     success: [200, 'People'],
+    response: z.array(publicUserSchema),
   },
   {
     method: 'post',
@@ -105,6 +143,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: createUserSchema,
     success: [201, 'The person and, for an invitation, the set-password link'],
+    response: createdUserSchema,
   },
   {
     method: 'patch',
@@ -114,6 +153,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: updateUserSchema,
     success: [200, 'The person'],
+    response: publicUserSchema,
   },
   {
     method: 'get',
@@ -122,6 +162,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List instrument profiles',
     access: ADMIN,
     success: [200, 'Profiles (tokens are never listed)'],
+    response: z.array(profileSchema),
   },
   {
     method: 'get',
@@ -130,6 +171,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Instrument names and formats',
     access: ALL,
     success: [200, 'id, name, kind, plateFormat, active'],
+    response: z.array(instrumentSummarySchema),
   },
   {
     method: 'post',
@@ -139,6 +181,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: createProfileSchema,
     success: [201, 'The profile and its token'],
+    response: profileWithTokenSchema,
   },
   {
     method: 'patch',
@@ -148,6 +191,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: updateProfileSchema,
     success: [200, 'The profile'],
+    response: profileSchema,
   },
   {
     method: 'post',
@@ -156,6 +200,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Issue a new token (the old one stops working)',
     access: ADMIN,
     success: [200, 'The profile and its new token'],
+    response: profileWithTokenSchema,
   },
   {
     method: 'delete',
@@ -164,6 +209,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Revoke the token',
     access: ADMIN,
     success: [200, 'The profile'],
+    response: profileSchema,
   },
   {
     method: 'post',
@@ -176,6 +222,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       200,
       'Reading count, first readings, metadata, warnings (422 with line and column on a parse error)',
     ],
+    response: tryResultSchema,
   },
   {
     method: 'post',
@@ -185,6 +232,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'instrument',
     multipart: { fileTypes: '.csv .tsv .txt .dat' },
     success: [202, 'Receipt: intake id, queued or duplicate'],
+    response: ingestReceiptSchema,
   },
   {
     method: 'get',
@@ -194,6 +242,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     query: intakeQuerySchema,
     success: [200, 'A page of files and the total'],
+    response: intakePageSchema,
   },
   {
     method: 'get',
@@ -202,6 +251,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One received file',
     access: MANAGERS,
     success: [200, 'The file'],
+    response: intakeFileSchema,
   },
   {
     method: 'post',
@@ -210,6 +260,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Queue a quarantined file again',
     access: MANAGERS,
     success: [202, 'The file'],
+    response: intakeFileSchema,
   },
   {
     method: 'post',
@@ -219,6 +270,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     body: assignSchema,
     success: [200, 'The file'],
+    response: intakeFileSchema,
   },
   {
     method: 'get',
@@ -227,6 +279,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List layouts',
     access: ALL,
     success: [200, 'Layouts'],
+    response: z.array(layoutSummarySchema),
   },
   {
     method: 'get',
@@ -235,6 +288,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'A layout at its current version',
     access: ALL,
     success: [200, 'The layout'],
+    response: layoutSchema,
   },
   {
     method: 'get',
@@ -243,6 +297,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'A layout at a version',
     access: ALL,
     success: [200, 'The layout'],
+    response: layoutSchema,
   },
   {
     method: 'post',
@@ -252,6 +307,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     body: createLayoutSchema,
     success: [201, 'The layout'],
+    response: layoutSchema,
   },
   {
     method: 'put',
@@ -261,6 +317,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     body: updateLayoutSchema,
     success: [200, 'The layout'],
+    response: layoutSchema,
   },
   {
     method: 'get',
@@ -269,6 +326,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List manifests',
     access: ALL,
     success: [200, 'Manifests'],
+    response: z.array(manifestSummarySchema),
   },
   {
     method: 'get',
@@ -277,6 +335,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'A manifest at its current version',
     access: ALL,
     success: [200, 'The manifest'],
+    response: manifestSchema,
   },
   {
     method: 'get',
@@ -285,6 +344,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'A manifest at a version',
     access: ALL,
     success: [200, 'The manifest'],
+    response: manifestSchema,
   },
   {
     method: 'post',
@@ -295,6 +355,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     body: manifestMetaSchema,
     multipart: { fields: manifestMetaSchema, fileTypes: '.csv .tsv .txt .xlsx' },
     success: [200, 'Samples, every problem with row and column, and mismatches with the layout'],
+    response: manifestCheckSchema,
   },
   {
     method: 'post',
@@ -305,6 +366,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     body: manifestMetaSchema,
     multipart: { fields: manifestMetaSchema, fileTypes: '.csv .tsv .txt .xlsx' },
     success: [201, 'The manifest'],
+    response: manifestSchema,
   },
   {
     method: 'put',
@@ -315,6 +377,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     body: manifestMetaSchema,
     multipart: { fields: manifestMetaSchema, fileTypes: '.csv .tsv .txt .xlsx' },
     success: [200, 'The manifest'],
+    response: manifestSchema,
   },
   {
     method: 'get',
@@ -323,6 +386,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List batches',
     access: ALL,
     success: [200, 'Batches'],
+    response: z.array(batchSchema),
   },
   {
     method: 'post',
@@ -332,6 +396,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     body: createBatchSchema,
     success: [201, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'get',
@@ -340,6 +405,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One batch',
     access: ALL,
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'get',
@@ -353,6 +419,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       200,
       'Readings, samples, settings, the analysis result and, when approved, its approval record',
     ],
+    response: batchAnalysisSchema,
   },
   {
     method: 'get',
@@ -361,6 +428,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Approval records of a batch, newest first (one per approval; a reopening keeps the old one)',
     access: ALL,
     success: [200, 'Approval records without their full results'],
+    response: z.array(approvalRecordSchema),
   },
   {
     method: 'get',
@@ -369,6 +437,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One approval record: engine version, settings, input file hashes and the full stored result',
     access: ALL,
     success: [200, 'The approval record'],
+    response: approvalRecordFullSchema,
   },
   {
     method: 'get',
@@ -378,6 +447,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       'Batches that can lend ε of the complex: same chemical system, wavelength within ±1 nm, with a calibration',
     access: ALL,
     success: [200, 'Candidate batches with their ε and the record it comes from'],
+    response: z.array(epsilonCandidateSchema),
   },
   {
     method: 'put',
@@ -387,6 +457,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ['lab_manager', 'scientist'],
     body: updateSettingsSchema,
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'post',
@@ -395,6 +466,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Mark a batch reviewed',
     access: ['lab_manager', 'scientist'],
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'post',
@@ -405,6 +477,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ['lab_manager'],
     body: approveSchema,
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'post',
@@ -414,6 +487,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ['lab_manager'],
     body: reasonSchema,
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'get',
@@ -423,6 +497,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     query: auditQuerySchema,
     success: [200, 'A page of entries and the total'],
+    response: auditPageSchema,
   },
   {
     method: 'get',
@@ -449,6 +524,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'public',
     body: forgotPasswordSchema,
     success: [202, 'Accepted'],
+    response: acceptedSchema,
   },
   {
     method: 'get',
@@ -457,6 +533,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'My notification settings',
     access: ALL,
     success: [200, 'batchComplete, qcFailure, batchApproved'],
+    response: notificationSettingsResponseSchema,
   },
   {
     method: 'put',
@@ -466,6 +543,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ALL,
     body: notificationSettingsSchema,
     success: [200, 'The settings'],
+    response: notificationSettingsResponseSchema,
   },
   {
     method: 'get',
@@ -474,6 +552,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Whether the built-in SMTP stand-in runs',
     access: ALL,
     success: [200, '{ standIn }'],
+    response: outboxStatusSchema,
   },
   {
     method: 'get',
@@ -483,6 +562,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     query: outboxQuerySchema,
     success: [200, 'A page of messages and the total'],
+    response: outboxPageSchema,
   },
   {
     method: 'get',
@@ -491,6 +571,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One received mail',
     access: ADMIN,
     success: [200, 'The message'],
+    response: outboxMessageSchema,
   },
   {
     method: 'get',
@@ -499,6 +580,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Registered webhook receivers (secrets masked) with their delivery counts',
     access: ADMIN,
     success: [200, 'The receivers'],
+    response: z.array(webhookSchema),
   },
   {
     method: 'post',
@@ -509,6 +591,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: createWebhookSchema,
     success: [201, 'The receiver; the secret is never sent back, only masked'],
+    response: webhookSchema,
   },
   {
     method: 'get',
@@ -517,6 +600,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One receiver',
     access: ADMIN,
     success: [200, 'The receiver'],
+    response: webhookSchema,
   },
   {
     method: 'patch',
@@ -526,6 +610,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: updateWebhookSchema,
     success: [200, 'The receiver'],
+    response: webhookSchema,
   },
   {
     method: 'delete',
@@ -543,6 +628,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     query: deliveriesQuerySchema,
     success: [200, 'A page of deliveries and the total'],
+    response: deliveriesPageSchema,
   },
   {
     method: 'get',
@@ -551,6 +637,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One delivery with its payload',
     access: ADMIN,
     success: [200, 'The delivery'],
+    response: deliverySchema,
   },
   {
     method: 'post',
@@ -559,6 +646,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Send a delivered or failed event again (same id and body, new signature)',
     access: ADMIN,
     success: [202, 'The delivery, pending again'],
+    response: deliverySchema,
   },
   {
     method: 'get',
@@ -568,6 +656,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ALL,
     query: temperaturesQuerySchema,
     success: [200, 'Systems with their points and fit'],
+    response: z.array(systemTemperaturesSchema),
   },
   {
     method: 'get',
