@@ -19,3 +19,5 @@ export * from './audit';
 export * from './mail';
 export * from './temperatures';
 export * from './webhooks';
+export * from './events';
+export * from './routes';

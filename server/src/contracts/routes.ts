@@ -667,3 +667,13 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     success: [200, 'OpenAPI 3 document'],
   },
 ];
+
+/**
+ * The roles of a signed-in operation of the table: the web app's pages take their roles from the
+ * route that lists what they show, so a page and its API never disagree.
+ */
+export function rolesOf(method: ApiOperation['method'], path: string): readonly Role[] {
+  const op = API_OPERATIONS.find((o) => o.method === method && o.path === path);
+  if (!op || typeof op.access === 'string') throw new Error(`No signed-in operation ${method} ${path}`);
+  return op.access;
+}
