@@ -3,6 +3,7 @@ import path from 'node:path';
 import { FIXTURES } from '../../parsers/__tests__/load-fixture';
 import { startTestApp, type TestApp } from '../../testing/test-app';
 import { LONG_TABLE_PROFILE, createProfile } from '../../ingest/__tests__/ingest-helpers';
+import { DEFAULT_PARSING_RULES } from '../../contracts/settings';
 
 type Who = 'signed out' | 'admin' | 'lab_manager' | 'scientist';
 
@@ -81,21 +82,7 @@ describe('instrument profiles API', () => {
     const p = (await admin.get('/api/instruments')).body.find(
       (x: { id: number }) => x.id === created.profile.id,
     );
-    expect(p.rules).toEqual({
-      delimiter: 'auto',
-      decimalMark: '.',
-      encoding: 'utf-8',
-      skipLines: 0,
-      columns: {
-        position: 'position',
-        wavelength: 'wavelength_nm',
-        absorbance: 'absorbance',
-        readTime: 'read_time',
-        temperature: 'temperature_c',
-        replicate: 'replicate',
-      },
-      spectrumWavelengthColumn: 'wavelength_nm',
-    });
+    expect(p.rules).toEqual(DEFAULT_PARSING_RULES);
     const patched = await admin
       .patch(`/api/instruments/${created.profile.id}`)
       .send({ rules: { delimiter: ';', columns: { absorbance: 'OD' } } });

@@ -9,23 +9,24 @@ import {
 
 describe('resolveParseRules', () => {
   it('returns the documented defaults', () => {
-    expect(resolveParseRules()).toEqual({
-      format: 'long_table',
-      delimiter: 'auto',
-      decimalMark: '.',
-      encoding: 'utf-8',
-      skipLines: 0,
-      columns: {
-        position: 'position',
-        wavelength: 'wavelength_nm',
-        absorbance: 'absorbance',
-        readTime: 'read_time',
-        temperature: 'temperature_c',
-        replicate: 'replicate',
-      },
-      spectrumWavelengthColumn: 'wavelength_nm',
-      plateFormat: '96',
-    });
+    const rules = resolveParseRules();
+    expect([rules.format, rules.plateFormat, rules.delimiter, rules.decimalMark, rules.encoding]).toEqual([
+      'long_table',
+      '96',
+      'auto',
+      '.',
+      'utf-8',
+    ]);
+    expect([rules.skipLines, rules.spectrumWavelengthColumn, ...Object.values(rules.columns)]).toEqual([
+      0,
+      'wavelength_nm',
+      'position',
+      'wavelength_nm',
+      'absorbance',
+      'read_time',
+      'temperature_c',
+      'replicate',
+    ]);
     expect(resolveParseRules()).toEqual(DEFAULT_PARSE_RULES);
   });
 
