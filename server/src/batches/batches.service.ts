@@ -1,5 +1,5 @@
 import { type DataSource, type EntityManager, In, IsNull, type Repository } from 'typeorm';
-import type { AnalysisSettings, BatchResult, KStatus, Reading, SampleDefinition } from '../analysis';
+import type { AnalysisSettings, BatchResult, Reading, SampleDefinition } from '../analysis';
 import { type AnalysisEngine, analyzeWith, currentAnalysisEngine } from '../analysis-engine/analysis-engine';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';

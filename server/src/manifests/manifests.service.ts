@@ -5,7 +5,7 @@ import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
 import type { LayoutPosition } from '../contracts/layouts';
 import type { LayoutsService } from '../layouts/layouts.service';
-import { type ManifestProblem, ParseError, parseManifestCsv } from '../parsers';
+import { ParseError, parseManifestCsv } from '../parsers';
 import type {
   ManifestCheck,
   ManifestDto,

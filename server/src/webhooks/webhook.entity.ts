@@ -1,7 +1,5 @@
 import { Column, Entity, PrimaryGeneratedColumn } from 'typeorm';
 
-import type { WebhookEvent } from '../contracts/enums';
-
 export { WEBHOOK_EVENTS, type WebhookEvent } from '../contracts/enums';
 
 /** A receiver the lab registered (its LIMS or ELN): where to post, which events, and the signing secret. */
