@@ -2,7 +2,18 @@ import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 
 export default tseslint.config(
-  { ignores: ['node_modules/', 'dist/', 'server/dist/', 'watcher/dist/', '.angular/', 'data/', 'test-output/', 'coverage/'] },
+  {
+    ignores: [
+      'node_modules/',
+      'dist/',
+      'server/dist/',
+      'watcher/dist/',
+      '.angular/',
+      'data/',
+      'test-output/',
+      'coverage/',
+    ],
+  },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {
@@ -22,7 +33,65 @@ export default tseslint.config(
   {
     files: ['**/*.mjs'],
     languageOptions: {
-      globals: { process: 'readonly', console: 'readonly', setTimeout: 'readonly', URL: 'readonly', fetch: 'readonly' },
+      globals: {
+        process: 'readonly',
+        console: 'readonly',
+        setTimeout: 'readonly',
+        URL: 'readonly',
+        fetch: 'readonly',
+      },
+    },
+  },
+  {
+    // The shared modules stay pure: the analysis module and the API contracts run on the server, in the
+    // browser and in the watcher, so they import nothing of Node, Express, TypeORM or Angular (the
+    // contracts: zod and the analysis module only).
+    files: ['server/src/analysis/**/*.ts', 'server/src/contracts/**/*.ts'],
+    ignores: ['**/__tests__/**', '**/*.spec.ts'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              group: [
+                'node:*',
+                'fs',
+                'path',
+                'os',
+                'crypto',
+                'worker_threads',
+                'child_process',
+                'http',
+                'https',
+                'stream',
+                'url',
+                'util',
+              ],
+              message: 'Shared modules run in the browser too: no Node built-ins.',
+            },
+            {
+              group: [
+                'express',
+                'express-*',
+                'typeorm',
+                '@angular/*',
+                'rxjs',
+                'better-sqlite3',
+                'piscina',
+                'chokidar',
+                'pdfkit',
+                'nodemailer',
+              ],
+              message: 'Shared modules are pure: no framework or database imports.',
+            },
+            {
+              group: ['../*', '!../analysis', '!../analysis/*'],
+              message: 'Contracts import only zod, the analysis module and their own files.',
+            },
+          ],
+        },
+      ],
     },
   },
 );

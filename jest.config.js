@@ -21,6 +21,11 @@ const esmPackages = [
   'gyromagnetic-ratio',
 ];
 const transformIgnorePatterns = [`node_modules/(?!(${esmPackages.join('|')})/)`];
+// The shared modules' path aliases (tsconfig.json `paths`), for the projects that run on Node.
+const sharedModules = {
+  '^@equilight/analysis$': '<rootDir>/server/src/analysis/index.ts',
+  '^@equilight/contracts$': '<rootDir>/server/src/contracts/index.ts',
+};
 const nodeTransform = {
   '^.+\\.[tj]sx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.spec.json' }],
 };
@@ -34,6 +39,7 @@ module.exports = {
       testMatch: ['<rootDir>/server/src/**/*.spec.ts', '<rootDir>/watcher/src/**/*.spec.ts'],
       transform: nodeTransform,
       transformIgnorePatterns,
+      moduleNameMapper: sharedModules,
     },
     {
       displayName: 'web',
@@ -45,7 +51,7 @@ module.exports = {
       setupFilesAfterEnv: ['<rootDir>/web/src/setup-jest.ts'],
       testMatch: ['<rootDir>/web/src/**/*.spec.ts'],
       moduleNameMapper: {
-        '^@equilight/analysis$': '<rootDir>/server/src/analysis/index.ts',
+        ...sharedModules,
         // import.meta (new Worker(new URL(…))) does not load under CommonJS; jsdom has no Worker anyway.
         '^\\./what-if-worker$': '<rootDir>/web/src/testing/no-web-worker.ts',
       },
@@ -57,6 +63,7 @@ module.exports = {
       testMatch: ['<rootDir>/web/e2e/**/*.e2e.ts'],
       transform: nodeTransform,
       transformIgnorePatterns,
+      moduleNameMapper: sharedModules,
     },
   ],
 };

@@ -240,7 +240,7 @@ export function parseCommandLine(argv: string[]): CliOptions | 'help' {
         ? null
         : values.plate === 'cuvette'
           ? 'cuvette'
-          : (Number(values.plate) as 96 | 384),
+          : (values.plate as PlateFormat),
     wavelengthNm: positiveOption('wavelength', values.wavelength, 'nm') ?? null,
     pathLengthCm: positiveOption('path-cm', values['path-cm'], 'cm'),
     epsilon,
@@ -293,7 +293,7 @@ function guessPlateFormat(positions: readonly string[]): PlateFormat {
     const m = /^([A-Za-z])(\d+)$/.exec(p);
     return m !== null && (m[1].toUpperCase() > 'H' || Number(m[2]) > 12);
   });
-  return beyond96 ? 384 : 96;
+  return beyond96 ? '384' : '96';
 }
 
 /**

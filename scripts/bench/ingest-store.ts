@@ -16,6 +16,7 @@ import { type IngestJobData, IngestService } from '../../server/src/ingest/inges
 import { InstrumentsService } from '../../server/src/instruments/instruments.service';
 import { SqliteJobQueue } from '../../server/src/queue/sqlite-queue';
 import { closeWorkers } from '../../server/src/workers';
+import { DEFAULT_PARSING_RULES } from '../../server/src/contracts/settings';
 
 const REPEATS = 20;
 /** Untimed runs first, so both sides are measured with warm JIT code. */
@@ -74,22 +75,7 @@ async function main(): Promise<void> {
     kind: 'plate_reader',
     plateFormat: '384',
     fileFormat: 'plate_grid',
-    rules: {
-      delimiter: ',',
-      decimalMark: '.',
-      encoding: 'utf-8',
-      skipLines: 0,
-      columns: {
-        position: 'position',
-        wavelength: 'wavelength_nm',
-        absorbance: 'absorbance',
-        readTime: 'read_time',
-        temperature: 'temperature_c',
-        replicate: 'replicate',
-      },
-      spectrumWavelengthColumn: 'wavelength_nm',
-      jcampPositionFrom: 'title',
-    },
+    rules: { ...DEFAULT_PARSING_RULES, delimiter: ',' },
     pathLengthCm: null,
     fillVolumeUl: 80,
     wellDiameterMm: 3.3,

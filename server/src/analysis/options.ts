@@ -121,6 +121,23 @@ function nonNegative(name: string, v: number): number {
 }
 
 /**
+ * The defaults a batch's settings start from (the batch form shows them; the server stores them;
+ * {@link resolveAnalysisSettings} falls back to them). Sources as documented on {@link AnalysisSettings}.
+ */
+export const ANALYSIS_DEFAULTS = Object.freeze({
+  candidates: Object.freeze(['1:1', '1:2', '2:1', '1:3']) as readonly string[],
+  pathLengthCm: 1,
+  calibrationModel: 'linear' as 'linear' | 'through-origin',
+  linearRangeMaxAbsorbance: 1,
+  r2Min: 0.995,
+  /** Fraction (0.05 = 5 %). */
+  replicateCvMax: 0.05,
+  /** Fraction (0.15 = 15 %). */
+  kCvMax: 0.15,
+  fitBaseline: false,
+});
+
+/**
  * Resolves and checks analysis settings once: fills every default and rejects impossible values
  * (non-positive path length, malformed stoichiometry, negative tolerances…).
  *
@@ -133,7 +150,7 @@ function nonNegative(name: string, v: number): number {
  */
 export function resolveAnalysisSettings(settings: AnalysisSettings = {}): ResolvedAnalysisSettings {
   const s = settings;
-  const candidates = s.candidates ?? ['1:1', '1:2', '2:1', '1:3'];
+  const candidates = s.candidates ?? [...ANALYSIS_DEFAULTS.candidates];
   if (candidates.length === 0)
     throw new AnalysisError('invalid-settings', 'at least one candidate stoichiometry is needed');
   const labels = candidates.map((c) => parseStoichiometry(c).label);
@@ -154,22 +171,25 @@ export function resolveAnalysisSettings(settings: AnalysisSettings = {}): Resolv
   return {
     wavelengthNm: s.wavelengthNm == null ? null : positive('wavelength', s.wavelengthNm),
     wavelengthToleranceNm: nonNegative('wavelength tolerance', s.wavelengthToleranceNm ?? 0.5),
-    pathLengthCm: positive('path length', s.pathLengthCm ?? 1),
+    pathLengthCm: positive('path length', s.pathLengthCm ?? ANALYSIS_DEFAULTS.pathLengthCm),
     pathLengthByPositionCm: byPosition,
-    calibrationModel: s.calibrationModel ?? 'linear',
-    linearRangeMaxAbsorbance: positive('linear-range ceiling', s.linearRangeMaxAbsorbance ?? 1),
+    calibrationModel: s.calibrationModel ?? ANALYSIS_DEFAULTS.calibrationModel,
+    linearRangeMaxAbsorbance: positive(
+      'linear-range ceiling',
+      s.linearRangeMaxAbsorbance ?? ANALYSIS_DEFAULTS.linearRangeMaxAbsorbance,
+    ),
     outlierStudentizedResidual: positive('outlier limit', s.outlierStudentizedResidual ?? 3),
-    r2Min: nonNegative('minimum R²', s.r2Min ?? 0.995),
-    replicateCvMax: positive('maximum replicate CV', s.replicateCvMax ?? 0.05),
+    r2Min: nonNegative('minimum R²', s.r2Min ?? ANALYSIS_DEFAULTS.r2Min),
+    replicateCvMax: positive('maximum replicate CV', s.replicateCvMax ?? ANALYSIS_DEFAULTS.replicateCvMax),
     negativeAbsorbanceTolerance: nonNegative(
       'negative-absorbance tolerance',
       s.negativeAbsorbanceTolerance ?? 0.005,
     ),
     candidates: [...new Set(labels)],
-    kCvMax: positive('maximum K CV', s.kCvMax ?? 0.15),
+    kCvMax: positive('maximum K CV', s.kCvMax ?? ANALYSIS_DEFAULTS.kCvMax),
     ambiguityDeltaAic: nonNegative('ambiguity ΔAIC', s.ambiguityDeltaAic ?? 2),
     ruledOutDeltaAic: positive('ruled-out ΔAIC', s.ruledOutDeltaAic ?? 10),
-    fitBaseline: s.fitBaseline ?? false,
+    fitBaseline: s.fitBaseline ?? ANALYSIS_DEFAULTS.fitBaseline,
     epsilonLPerMolCm: s.epsilonLPerMolCm == null ? null : positive('ε', s.epsilonLPerMolCm),
     epsilonSeLPerMolCm: nonNegative('standard uncertainty of ε', s.epsilonSeLPerMolCm ?? 0),
     exclusions,

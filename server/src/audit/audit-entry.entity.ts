@@ -1,7 +1,8 @@
 import { Column, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
 
-export type AuditEntity =
-  'layout' | 'manifest' | 'batch' | 'instrument_profile' | 'user' | 'intake_file' | 'webhook' | 'watcher';
+import type { AuditEntity } from '../contracts/enums';
+
+export type { AuditEntity } from '../contracts/enums';
 
 /** One change: who, when, what, why. Written by the app, never edited or deleted by it. */
 @Entity('audit_entries')

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues } from '../common/validate';
-import { auditQuerySchema } from './audit.schema';
+import { auditQuerySchema } from '../contracts/audit';
 import type { AuditService } from './audit.service';
 
 /** Read-only: the app offers no way to edit or delete an entry. */

@@ -1,3 +1,4 @@
+import type { AuditDto } from '../contracts/audit';
 import type { DataSource, EntityManager } from 'typeorm';
 import { AuditEntry, type AuditEntity } from './audit-entry.entity';
 
@@ -17,19 +18,7 @@ export interface AuditRecord {
   reason?: string | null;
 }
 
-export interface AuditDto {
-  id: number;
-  at: string;
-  actorId: number | null;
-  actorName: string;
-  action: string;
-  entity: AuditEntity;
-  entityId: number;
-  summary: string;
-  before: unknown;
-  after: unknown;
-  reason: string | null;
-}
+export type { AuditDto } from '../contracts/audit';
 
 export interface AuditQuery {
   entity?: AuditEntity;

@@ -1,12 +1,13 @@
+import { requireSignedIn } from './roles';
 import { Router, type Request, type Response } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type { PassportStatic } from 'passport';
 import { AppError } from '../common/app-error';
 import { validateBody } from '../common/validate';
-import { emailKeyOf } from '../users/email-address';
+import { emailKeyOf } from '../contracts/email-address';
 import { type User, toPublicUser } from '../users/user.entity';
 import type { UsersService } from '../users/users.service';
-import { loginSchema, setPasswordSchema } from './auth.schema';
+import { loginSchema, setPasswordSchema } from '../contracts/auth';
 
 function authenticate(passport: PassportStatic, req: Request): Promise<User> {
   return new Promise((resolve, reject) => {
@@ -61,8 +62,7 @@ export function authRouter(
     res.status(204).end();
   });
 
-  router.get('/me', (req, res) => {
-    if (!req.user) throw AppError.unauthorized('Not signed in.');
+  router.get('/me', requireSignedIn, (req, res) => {
     res.json(toPublicUser(req.user as User));
   });
 

@@ -1,5 +1,6 @@
 import type { RequestHandler } from 'express';
 import { AppError } from '../common/app-error';
+import { ROLES } from '../contracts/enums';
 import type { Role, User } from '../users/user.entity';
 
 declare global {
@@ -14,18 +15,25 @@ declare global {
   }
 }
 
+/** A role check; `roles` says whom it lets through (the route-table test reads it). */
+export type RoleCheck = RequestHandler & { readonly roles: readonly Role[] };
+
 /** The one role check of a router: `router.use(requireRole('admin'))`. */
-export function requireRole(...roles: Role[]): RequestHandler {
-  return (req, _res, next) => {
+export function requireRole(...roles: Role[]): RoleCheck {
+  const check: RequestHandler = (req, _res, next) => {
     const user = req.user as User | undefined;
     if (!user) return next(AppError.unauthorized());
     if (!roles.includes(user.role)) return next(AppError.forbidden());
     next();
   };
+  return Object.assign(check, { roles: Object.freeze([...roles]) });
 }
 
 /** Any signed-in person, whatever the role. */
-export const requireSignedIn: RequestHandler = (req, _res, next) => {
-  if (!req.user) return next(AppError.unauthorized());
-  next();
-};
+export const requireSignedIn: RoleCheck = Object.assign<RequestHandler, { roles: readonly Role[] }>(
+  (req, _res, next) => {
+    if (!req.user) return next(AppError.unauthorized());
+    next();
+  },
+  { roles: ROLES },
+);

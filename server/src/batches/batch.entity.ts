@@ -1,6 +1,8 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
 
-export type BatchState = 'open' | 'reviewed' | 'approved';
+import type { BatchState } from '../contracts/enums';
+
+export type { BatchState } from '../contracts/enums';
 
 /** One run: its instrument, layout and manifest versions, analysis settings, files and review state. */
 @Entity('batches')

@@ -8,7 +8,7 @@ import {
   createBatchSchema,
   reasonSchema,
   updateSettingsSchema,
-} from './batches.schema';
+} from '../contracts/batches';
 import type { Role } from '../users/user.entity';
 import type { BatchesService } from './batches.service';
 

@@ -2,10 +2,8 @@ import { type DataSource, type EntityManager, In, IsNull, type Repository } from
 import {
   type AnalysisSettings,
   type BatchResult,
-  type KStatus,
   type Reading,
   type SampleDefinition,
-  type SpectralAnalysisResult,
   type WaterPeakPathLengths,
   wellPathLengthsFromWaterPeak,
 } from '../analysis';
@@ -35,164 +33,39 @@ import {
 } from './analysis-extras';
 import { Batch, type BatchState } from './batch.entity';
 import { BATCH_RESULT_SCHEMA_VERSION, BatchResultRecord } from './batch-result.entity';
+import type {
+  ApprovalRecordDto,
+  ApprovalRecordFullDto,
+  BatchAnalysisDto,
+  BatchDto,
+  BatchResultSummary,
+  EngineCheckDto,
+  EpsilonCandidateDto,
+  RecordedFile,
+} from '../contracts/batches';
 import {
   type BatchSettings,
   type CreateBatchInput,
   type EpsilonSource,
   type SettingsChange,
   batchSettingsSchema,
-} from './batches.schema';
+} from '../contracts/batches';
 
 /** What a cached summary is valid for: the batch row and its stored files as they are. */
 function summaryKey(updatedAt: string, storedFiles: number, lastFileAt: string): string {
   return `${updatedAt}|${storedFiles}|${lastFileAt}`;
 }
 
-/** The headline of a batch's analysis, for lists: QC flags, the best stoichiometry and its K. */
-export interface BatchResultSummary {
-  qcFlagCount: number;
-  qcErrorCount: number;
-  best: string | null;
-  /** K of the best candidate when it has a value (not for bounds or failed fits). */
-  k: number | null;
-  kSe: number | null;
-  kCi95: [number | null, number | null] | null;
-  kStatus: KStatus | null;
-  kLowerBound95: number | null;
-  kUpperBound95: number | null;
-  kUnit: string | null;
-  /** The K as every screen, report and mail states it (formatK). */
-  kText: string | null;
-}
-
-export interface BatchDto {
-  id: number;
-  name: string;
-  state: BatchState;
-  profileId: number;
-  profileName: string | null;
-  layoutId: number;
-  layoutName: string | null;
-  layoutVersion: number;
-  manifestId: number;
-  manifestName: string | null;
-  manifestVersion: number;
-  runId: string;
-  expectedFiles: number;
-  fileCount: number;
-  systemName: string | null;
-  temperatureC: number | null;
-  settings: BatchSettings;
-  createdAt: string;
-  updatedAt: string;
-  lastActivityAt: string;
-  reviewedBy: string | null;
-  reviewedAt: string | null;
-  approvedBy: string | null;
-  approvedAt: string | null;
-  approvalComment: string | null;
-  createdBy: string | null;
-  /** Null until a file has arrived. For an approved batch: the headline of its approval record. */
-  summary: BatchResultSummary | null;
-}
-
-/** One input file as an approval record names it. */
-export interface RecordedFile {
-  id: number;
-  originalName: string;
-  sha256: string;
-  readingCount: number;
-  receivedAt: string;
-}
-
-/** What one approval froze, without the result itself (GET /api/batches/:id/results lists these). */
-export interface ApprovalRecordDto {
-  id: number;
-  batchId: number;
-  schemaVersion: number;
-  engine: { version: string; packageVersion: string; sourceSha256: string };
-  approvedBy: string | null;
-  approvedAt: string;
-  approvalComment: string;
-  settings: BatchSettings;
-  files: RecordedFile[];
-  /** The headline of the stored result. */
-  summary: BatchResultSummary;
-  /** Set when the batch was reopened after this approval; the record stays as it was. */
-  supersededAt: string | null;
-  supersededBy: string | null;
-  supersededReason: string | null;
-}
-
-/** One approval record in full: also the settings as the analysis module took them, and the result. */
-export interface ApprovalRecordFullDto extends ApprovalRecordDto {
-  analysisSettings: AnalysisSettings;
-  result: BatchResult;
-}
-
-/** Today's engine on an approved batch's inputs, compared with the approval record's headline. */
-export interface EngineCheckDto {
-  /** The engine this server runs. */
-  engineVersion: string;
-  sameEngine: boolean;
-  /** True when best model, K, its interval or its status differ from the record. */
-  differs: boolean;
-  /** False when the files stored now are not those the record names (by SHA-256): then the difference is not the engine's. */
-  inputsMatch: boolean;
-  current: BatchResultSummary | null;
-  /** Why today's engine gave no result, when it failed. */
-  error: string | null;
-}
-
-/** A batch whose calibration may give ε of the complex to another batch. */
-export interface EpsilonCandidateDto {
-  batchId: number;
-  batchName: string;
-  state: BatchState;
-  temperatureC: number | null;
-  /** The approval record the value comes from (approved batches); null: the batch's analysis now. */
-  recordId: number | null;
-  wavelengthNm: number;
-  epsilonLPerMolCm: number;
-  epsilonSe: number;
-}
-
-/** Everything the analysis needs, so the browser can recompute what-if edits with the same module. */
-export interface BatchAnalysisDto {
-  batch: BatchDto;
-  readings: (Reading & { intakeFileId: number })[];
-  samples: SampleDefinition[];
-  layoutPositions: { position: string; role: string; replicateGroup?: string }[];
-  files: {
-    id: number;
-    originalName: string;
-    sha256: string;
-    status: string;
-    readingCount: number;
-    receivedAt: string;
-  }[];
-  /**
-   * Plates read near 977 and 900 nm: each aqueous well's path length from the water peak (used by the
-   * analysis in place of the nominal one), with the k-factor and the wells left at the nominal path; else null.
-   */
-  wellPathLengths: WaterPeakPathLengths | null;
-  settings: AnalysisSettings;
-  result: BatchResult;
-  /**
-   * Batches whose positions are read at 10 or more wavelengths: the whole-spectrum analysis
-   * (`analyzeSpectra`: species count from singular values, K of every candidate fitted to all wavelengths,
-   * species spectra, residuals) on the batch's readings and settings; null otherwise, and for an approved
-   * batch (its approval record holds the single-wavelength result only). `spectralError` says why it failed.
-   */
-  spectral: SpectralAnalysisResult | null;
-  spectralError: string | null;
-  /** Approved batches: the approval record `result` comes from (null if approved before records were kept). */
-  record: ApprovalRecordDto | null;
-  /** Only when asked for, on an approved batch with a record. */
-  engineCheck?: EngineCheckDto;
-  /** Every approval record of the batch, newest first (superseded ones included). */
-  approvals: ApprovalRecordDto[];
-}
+export type {
+  ApprovalRecordDto,
+  ApprovalRecordFullDto,
+  BatchAnalysisDto,
+  BatchDto,
+  BatchResultSummary,
+  EngineCheckDto,
+  EpsilonCandidateDto,
+  RecordedFile,
+};
 
 /** The headline of an analysis result. */
 export function summarize(result: BatchResult): BatchResultSummary {

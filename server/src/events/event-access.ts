@@ -1,17 +1,15 @@
 import { BATCH_READER_ROLES } from '../batches/batches.router';
 import { INTAKE_ROLES } from '../ingest/intake.router';
 import type { Role } from '../users/user.entity';
-import type { LiveEvent, LiveEventType } from './event-bus';
-
-type EventData = LiveEvent['data'];
+import type { LiveEvent, LiveEventData, LiveEventType } from '../contracts/events';
 
 /** What one group of roles sees of an event: the data to send, or null for nothing. */
-interface EventView {
+interface EventView<T extends LiveEventType> {
   roles: readonly Role[];
-  view: (data: EventData) => EventData | null;
+  view: (data: LiveEventData<T>) => LiveEventData<T> | null;
 }
 
-const everything = (data: EventData): EventData => data;
+const everything = <D>(data: D): D => data;
 
 /**
  * The one table of who sees which live event, and which of its fields. The role lists are the ones the
@@ -20,7 +18,7 @@ const everything = (data: EventData): EventData => data;
  * file landed in it), nothing about the file's content or instrument.
  * The first view whose roles include the person's role applies.
  */
-export const EVENT_ACCESS: Record<LiveEventType, readonly EventView[]> = {
+export const EVENT_ACCESS: { [T in LiveEventType]: readonly EventView<T>[] } = {
   'file.received': [{ roles: INTAKE_ROLES, view: everything }],
   'file.duplicate': [{ roles: INTAKE_ROLES, view: everything }],
   'file.quarantined': [{ roles: INTAKE_ROLES, view: everything }],
@@ -41,7 +39,8 @@ export const EVENT_ACCESS: Record<LiveEventType, readonly EventView[]> = {
 
 /** The event as a person with this role may see it, or null when they may not see it at all. */
 export function eventForRole(role: Role, event: LiveEvent): LiveEvent | null {
-  const rule = EVENT_ACCESS[event.type]?.find((r) => r.roles.includes(role));
+  const views = EVENT_ACCESS[event.type] as readonly EventView<LiveEventType>[] | undefined;
+  const rule = views?.find((r) => r.roles.includes(role));
   const data = rule?.view(event.data) ?? null;
-  return data ? { ...event, data } : null;
+  return data ? ({ ...event, data } as LiveEvent) : null;
 }

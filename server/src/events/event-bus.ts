@@ -1,13 +1,8 @@
 import { EventEmitter } from 'node:events';
 
-export type LiveEventType =
-  'file.received' | 'file.stored' | 'file.quarantined' | 'file.duplicate' | 'batch.updated';
+import type { LiveEvent, LiveEventData, LiveEventType } from '../contracts/events';
 
-export interface LiveEvent {
-  type: LiveEventType;
-  data: { id: number } & Record<string, unknown>;
-  at: string;
-}
+export type { LiveEvent, LiveEventType } from '../contracts/events';
 
 /** Something that may end a live connection's right to its events; never sent to a browser. */
 export type AccessChange =
@@ -25,8 +20,8 @@ export class EventBus {
     this.emitter.setMaxListeners(100);
   }
 
-  publish(type: LiveEventType, data: LiveEvent['data']): void {
-    this.emitter.emit('event', { type, data, at: new Date().toISOString() } satisfies LiveEvent);
+  publish<T extends LiveEventType>(type: T, data: LiveEventData<T>): void {
+    this.emitter.emit('event', { type, data, at: new Date().toISOString() } as LiveEvent);
   }
 
   subscribe(listener: (event: LiveEvent) => void): () => void {

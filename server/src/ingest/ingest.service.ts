@@ -1,3 +1,4 @@
+import type { IngestReceipt, IntakeFileDto } from '../contracts/intake';
 import path from 'node:path';
 import { type DataSource, type EntityManager, In, IsNull, type Repository } from 'typeorm';
 import { AppError } from '../common/app-error';
@@ -34,30 +35,7 @@ export interface ReceivedFile {
   sourcePath?: string;
 }
 
-export interface IngestReceipt {
-  id: number;
-  status: Extract<IntakeStatus, 'queued' | 'duplicate'>;
-  duplicateOfId?: number;
-}
-
-export interface IntakeFileDto {
-  id: number;
-  profileId: number | null;
-  profileName: string | null;
-  originalName: string;
-  sha256: string;
-  sizeBytes: number;
-  status: IntakeStatus;
-  duplicateOfId: number | null;
-  error: string | null;
-  warnings: string[];
-  runId: string | null;
-  batchId: number | null;
-  readingCount: number;
-  source: IntakeSource;
-  receivedAt: string;
-  finishedAt: string | null;
-}
+export type { IngestReceipt, IntakeFileDto } from '../contracts/intake';
 
 const FINAL: readonly IntakeStatus[] = ['stored', 'duplicate', 'quarantined', 'unassigned'];
 

@@ -1,7 +1,8 @@
 import { Column, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
 
-export type IntakeStatus = 'queued' | 'parsing' | 'stored' | 'duplicate' | 'quarantined' | 'unassigned';
-export type IntakeSource = 'watcher' | 'upload';
+import type { IntakeSource, IntakeStatus } from '../contracts/enums';
+
+export type { IntakeSource, IntakeStatus } from '../contracts/enums';
 
 /** One received file: where it came from, its archived content, and what became of it. */
 @Entity('intake_files')

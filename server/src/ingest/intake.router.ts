@@ -2,11 +2,11 @@ import { Router } from 'express';
 import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues, idParam, validateBody } from '../common/validate';
-import { assignSchema } from '../batches/batches.schema';
+import { assignSchema } from '../contracts/batches';
 import type { BatchesService } from '../batches/batches.service';
 import type { Role } from '../users/user.entity';
 import type { IngestService } from './ingest.service';
-import { intakeQuerySchema } from './intake.schema';
+import { intakeQuerySchema } from '../contracts/intake';
 
 /** Who sees received files, their states and quarantine messages (also over live events). */
 export const INTAKE_ROLES: readonly Role[] = ['admin', 'lab_manager'];

@@ -1,26 +1,12 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
 
-export type InstrumentKind = 'plate_reader' | 'cuvette_spectrophotometer';
-export type ProfilePlateFormat = '96' | '384' | 'cuvette';
-export type ProfileFileFormat = 'long_table' | 'plate_grid' | 'spectrum' | 'jcamp_dx';
+import type { FileFormat, InstrumentKind, PlateFormat } from '../contracts/enums';
+import type { ParsingRules } from '../contracts/settings';
 
-export interface ProfileRules {
-  delimiter: 'auto' | ',' | ';' | '\t';
-  decimalMark: '.' | ',';
-  encoding: 'utf-8' | 'latin1' | 'utf-16le';
-  skipLines: number;
-  columns: {
-    position: string;
-    wavelength: string;
-    absorbance: string;
-    readTime: string;
-    temperature: string;
-    replicate: string;
-  };
-  spectrumWavelengthColumn: string;
-  /** JCAMP-DX: where a block's position is read (absent in rules stored before JCAMP-DX: the title). */
-  jcampPositionFrom?: 'title' | 'sample_description';
-}
+export type { InstrumentKind } from '../contracts/enums';
+export type ProfilePlateFormat = PlateFormat;
+export type ProfileFileFormat = FileFormat;
+export type ProfileRules = ParsingRules;
 
 /** One instrument: how its exports are read, where they land, and its service-account token. */
 @Entity('instrument_profiles')

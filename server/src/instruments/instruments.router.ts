@@ -4,7 +4,7 @@ import { AppError } from '../common/app-error';
 import { describeIssues, idParam, validateBody } from '../common/validate';
 import { singleFileUpload } from '../ingest/upload';
 import { ParseError, parseInstrumentFile, resolveParseRules } from '../parsers';
-import { createProfileSchema, tryRulesSchema, updateProfileSchema } from './instruments.schema';
+import { createProfileSchema, tryRulesSchema, updateProfileSchema } from '../contracts/instruments';
 import type { InstrumentsService } from './instruments.service';
 
 const PREVIEW_READINGS = 50;
@@ -53,7 +53,7 @@ export function instrumentsRouter(instruments: InstrumentsService, maxBytes: num
         req.file.originalname,
         resolveParseRules({
           ...rest,
-          plateFormat: plateFormat === 'cuvette' ? 'cuvette' : (Number(plateFormat) as 96 | 384),
+          plateFormat,
           defaultWavelengthNm: defaultWavelengthNm ?? undefined,
         }),
       );

@@ -4,28 +4,10 @@ import { AppError } from '../common/app-error';
 import { type ParseRules, resolveParseRules } from '../parsers';
 import { InstrumentProfile, type ProfileRules } from './instrument-profile.entity';
 import { hashInstrumentToken, issueInstrumentToken } from './instrument-token';
-import { type CreateProfileInput, type UpdateProfileInput, rulesSchema } from './instruments.schema';
+import type { ProfileDto, ProfileWithToken } from '../contracts/instruments';
+import { type CreateProfileInput, type UpdateProfileInput, rulesSchema } from '../contracts/instruments';
 
-export interface ProfileDto {
-  id: number;
-  name: string;
-  kind: InstrumentProfile['kind'];
-  plateFormat: InstrumentProfile['plateFormat'];
-  fileFormat: InstrumentProfile['fileFormat'];
-  rules: ProfileRules;
-  pathLengthCm: number | null;
-  fillVolumeUl: number | null;
-  wellDiameterMm: number | null;
-  defaultWavelengthNm: number | null;
-  dropSubfolder: string;
-  fileNamePattern: string | null;
-  active: boolean;
-  hasToken: boolean;
-  tokenPrefix: string | null;
-  tokenCreatedAt: string | null;
-  createdAt: string;
-  updatedAt: string;
-}
+export type { ProfileDto, ProfileWithToken };
 
 export function profileRules(profile: InstrumentProfile): ProfileRules {
   return rulesSchema.parse(JSON.parse(profile.rulesJson));
@@ -60,7 +42,7 @@ export function parseRulesOf(profile: InstrumentProfile): ParseRules {
   return resolveParseRules({
     ...rules,
     format: profile.fileFormat,
-    plateFormat: profile.plateFormat === 'cuvette' ? 'cuvette' : (Number(profile.plateFormat) as 96 | 384),
+    plateFormat: profile.plateFormat,
     defaultWavelengthNm: profile.defaultWavelengthNm ?? undefined,
   });
 }
@@ -71,11 +53,6 @@ export function runIdFromFileName(pattern: string | null, fileName: string): str
   const match = new RegExp(pattern).exec(fileName);
   if (!match) return undefined;
   return match.groups?.['run'] ?? match[1] ?? match[0];
-}
-
-export interface ProfileWithToken {
-  profile: ProfileDto;
-  token: string;
 }
 
 /** Instrument profiles and their tokens. */

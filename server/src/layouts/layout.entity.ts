@@ -1,6 +1,8 @@
 import { Column, CreateDateColumn, Entity, Index, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
 
-export type LayoutFormat = '96' | '384' | 'cuvette';
+import type { PlateFormat as LayoutFormat } from '../contracts/enums';
+
+export type { PlateFormat as LayoutFormat } from '../contracts/enums';
 
 /** A named, reusable plate or cuvette layout; its content lives in numbered versions. */
 @Entity('layouts')

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { requireRole } from '../auth/roles';
 import { idParam, validateBody } from '../common/validate';
-import { createLayoutSchema, updateLayoutSchema } from './layouts.schema';
+import { createLayoutSchema, updateLayoutSchema } from '../contracts/layouts';
 import type { LayoutsService } from './layouts.service';
 
 const READERS = requireRole('admin', 'lab_manager', 'scientist');

@@ -1,27 +1,13 @@
+import type { LayoutDto, LayoutSummaryDto } from '../contracts/layouts';
 import type { DataSource, Repository } from 'typeorm';
 import type { SampleRole } from '../analysis/types';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
 import { isValidPosition } from '../parsers';
 import { Layout, type LayoutFormat, LayoutVersion } from './layout.entity';
-import type { CreateLayoutInput, LayoutPosition, UpdateLayoutInput } from './layouts.schema';
+import type { CreateLayoutInput, LayoutPosition, UpdateLayoutInput } from '../contracts/layouts';
 
-export interface LayoutSummaryDto {
-  id: number;
-  name: string;
-  format: LayoutFormat;
-  cuvetteCount: number | null;
-  currentVersion: number;
-  positionCount: number;
-  roleCounts: Partial<Record<SampleRole, number>>;
-  updatedAt: string;
-}
-
-export interface LayoutDto extends LayoutSummaryDto {
-  version: number;
-  positions: LayoutPosition[];
-  versions: { version: number; createdAt: string; createdById: number | null }[];
-}
+export type { LayoutDto, LayoutSummaryDto } from '../contracts/layouts';
 
 /** Checks every position against the plate or cuvette format; lists every problem at once. */
 export function checkLayoutPositions(
@@ -31,7 +17,7 @@ export function checkLayoutPositions(
 ): void {
   const problems: string[] = [];
   const seen = new Set<string>();
-  const plateFormat = format === 'cuvette' ? 'cuvette' : (Number(format) as 96 | 384);
+  const plateFormat = format;
   for (const p of positions) {
     if (!isValidPosition(p.position, plateFormat))
       problems.push(

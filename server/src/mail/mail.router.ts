@@ -3,12 +3,12 @@ import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import { requireRole, requireSignedIn } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues, idParam, validateBody } from '../common/validate';
-import { emailKeyOf } from '../users/email-address';
+import { emailKeyOf } from '../contracts/email-address';
 import type { UsersService } from '../users/users.service';
 import { RESET_PASSWORD_TTL_HOURS } from '../users/users.service';
 import { passwordResetMail } from './mail-templates';
 import type { MailService } from './mail.service';
-import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from './mail.schema';
+import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from '../contracts/mail';
 import type { NotificationsService } from './notifications.service';
 import type { OutboxService } from './outbox.service';
 

@@ -1,17 +1,9 @@
+import type { OutboxMessageDto } from '../contracts/mail';
 import type { DataSource, Repository } from 'typeorm';
 import { AppError } from '../common/app-error';
 import { OutboxMessage } from './mail.entity';
 
-export interface OutboxMessageDto {
-  id: number;
-  from: string;
-  to: string;
-  subject: string;
-  text: string | null;
-  html: string | null;
-  rawSize: number;
-  receivedAt: string;
-}
+export type { OutboxMessageDto } from '../contracts/mail';
 
 function toDto(m: OutboxMessage): OutboxMessageDto {
   return {

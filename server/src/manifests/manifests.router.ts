@@ -3,7 +3,7 @@ import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues, idParam } from '../common/validate';
 import { MANIFEST_EXTENSIONS, singleFileUpload } from '../ingest/upload';
-import { type ManifestMetaInput, manifestMetaSchema } from './manifests.schema';
+import { type ManifestMetaInput, manifestMetaSchema } from '../contracts/manifests';
 import type { ManifestInput, ManifestsService } from './manifests.service';
 
 const READERS = requireRole('admin', 'lab_manager', 'scientist');

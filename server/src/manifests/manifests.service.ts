@@ -3,55 +3,25 @@ import type { DataSource, Repository } from 'typeorm';
 import type { SampleDefinition } from '../analysis/types';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
-import type { LayoutPosition } from '../layouts/layouts.schema';
+import type { LayoutPosition } from '../contracts/layouts';
 import type { LayoutsService } from '../layouts/layouts.service';
-import { type ManifestProblem, ParseError, parseManifestCsv } from '../parsers';
+import { ParseError, parseManifestCsv } from '../parsers';
+import type {
+  ManifestCheck,
+  ManifestDto,
+  ManifestMismatch,
+  ManifestSummaryDto,
+} from '../contracts/manifests';
 import { Manifest, ManifestVersion } from './manifest.entity';
-import { MANIFEST_COLUMNS, type ManifestRowInput } from './manifests.schema';
+import { MANIFEST_COLUMNS, type ManifestRowInput } from '../contracts/manifests';
 import { xlsxToCsv } from './xlsx-to-csv';
 
-export interface ManifestMismatch {
-  position: string;
-  message: string;
-}
-
-export interface ManifestCheck {
-  source: 'csv' | 'xlsx' | 'form';
-  fileName: string | null;
-  layoutId: number;
-  layoutVersion: number;
-  samples: SampleDefinition[];
-  problems: ManifestProblem[];
-  mismatches: ManifestMismatch[];
-}
+export type { ManifestCheck, ManifestDto, ManifestMismatch, ManifestSummaryDto };
 
 export interface ManifestInput {
   file?: { buffer: Buffer; originalName: string };
   rows?: ManifestRowInput[];
   layoutId: number;
-}
-
-export interface ManifestDto {
-  id: number;
-  name: string;
-  layoutId: number;
-  layoutVersion: number;
-  currentVersion: number;
-  version: number;
-  source: 'csv' | 'xlsx' | 'form';
-  fileName: string | null;
-  samples: SampleDefinition[];
-  versions: { version: number; createdAt: string; createdById: number | null; source: string }[];
-  updatedAt: string;
-}
-
-export interface ManifestSummaryDto {
-  id: number;
-  name: string;
-  layoutId: number;
-  currentVersion: number;
-  sampleCount: number;
-  updatedAt: string;
 }
 
 function csvCell(value: string | number | null | undefined): string {

@@ -1,11 +1,12 @@
 import { z } from 'zod';
-import { API_OPERATIONS, type ApiOperation } from './api-catalogue';
+import { API_OPERATIONS, type ApiOperation } from '../contracts/routes';
 
 type JsonObject = Record<string, unknown>;
 
-function jsonSchema(schema: z.ZodType): JsonObject {
-  // Input side: what a client sends. Transforms (trim, lower-case) have no JSON Schema form and are left open.
-  return z.toJSONSchema(schema, { target: 'openapi-3.0', io: 'input', unrepresentable: 'any' }) as JsonObject;
+function jsonSchema(schema: z.ZodType, io: 'input' | 'output' = 'input'): JsonObject {
+  // Input side: what a client sends. Transforms (trim, lower-case) have no JSON Schema form and are left
+  // open, as are the analysis module's large results (typed with z.custom, checked at their top level).
+  return z.toJSONSchema(schema, { target: 'openapi-3.0', io, unrepresentable: 'any' }) as JsonObject;
 }
 
 function describeAccess(op: ApiOperation): string {
@@ -45,7 +46,7 @@ const ERROR_RESPONSE = {
   },
 };
 
-/** The OpenAPI 3 document of the API, generated from the schemas the routes validate with. */
+/** The OpenAPI 3 document of the API, generated from the contracts' route table (requests and answers). */
 export function buildOpenApiDocument(serverUrl: string): JsonObject {
   const paths: Record<string, JsonObject> = {};
   for (const op of API_OPERATIONS) {
@@ -82,7 +83,12 @@ export function buildOpenApiDocument(serverUrl: string): JsonObject {
         .replace(/[^A-Za-z0-9]/g, '')}`,
       parameters: [...pathParams, ...(op.query ? queryParameters(op.query) : [])],
       responses: {
-        [op.success[0]]: { description: op.success[1] },
+        [op.success[0]]: {
+          description: op.success[1],
+          ...(op.response
+            ? { content: { 'application/json': { schema: jsonSchema(op.response, 'output') } } }
+            : {}),
+        },
         '4XX': ERROR_RESPONSE,
       },
       security:

@@ -1,16 +1,11 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import { overviewQuerySchema } from '../contracts/overview';
 import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues } from '../common/validate';
 import type { OverviewService } from './overview.service';
 
 export const OVERVIEW_ROLES = ['admin', 'lab_manager', 'scientist'] as const;
-
-export const overviewQuerySchema = z.strictObject({
-  /** Start of "today" as the browser sees it (local midnight, ISO 8601); UTC midnight if left out. */
-  since: z.iso.datetime({ offset: true }).optional(),
-});
 
 /** The signed-in person's starting point: every role, each answer cut to what the role may see. */
 export function overviewRouter(overview: OverviewService): Router {

@@ -137,7 +137,7 @@ function readSampleRow(
     if (columnAt.has('position') && !isFormulaLike(cell('position'))) problem('position', 'missing position');
   } else if (
     position === undefined ||
-    !(isValidPosition(position, 384) || isValidPosition(position, 'cuvette'))
+    !(isValidPosition(position, '384') || isValidPosition(position, 'cuvette'))
   ) {
     problem('position', `expected a position such as A1…P24 or C1, C2, …, found ${showCell(positionText)}`);
   } else if (firstRowOf.has(position)) {

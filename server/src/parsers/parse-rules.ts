@@ -1,30 +1,14 @@
 import { ParseError } from './parse-error';
 
-export type FileFormat = 'long_table' | 'plate_grid' | 'spectrum' | 'jcamp_dx';
-export type PlateFormat = 96 | 384 | 'cuvette';
+import type { FileFormat, PlateFormat } from '../contracts/enums';
+import { DEFAULT_PARSING_RULES, type ParsingRules } from '../contracts/settings';
+
+export type { FileFormat, PlateFormat } from '../contracts/enums';
 export type Delimiter = ',' | ';' | '\t';
 
-/** How one instrument profile's files are read. */
-export interface ParseRules {
+/** How one instrument profile's files are read: the profile's parsing rules plus what the parser needs of the profile. */
+export interface ParseRules extends ParsingRules {
   format: FileFormat;
-  /** `auto` picks among `,` `;` and tab from the first lines of the file. */
-  delimiter: 'auto' | Delimiter;
-  decimalMark: '.' | ',';
-  encoding: 'utf-8' | 'latin1' | 'utf-16le';
-  /** Lines to skip before the header row or the first key line. */
-  skipLines: number;
-  /** Long-table header names (matched case-insensitively). */
-  columns: {
-    position: string;
-    wavelength: string;
-    absorbance: string;
-    readTime: string;
-    temperature: string;
-    replicate: string;
-  };
-  spectrumWavelengthColumn: string;
-  /** JCAMP-DX: where a block's position is read (its title or its sample description). */
-  jcampPositionFrom: 'title' | 'sample_description';
   plateFormat: PlateFormat;
   /** Used by plate grids that have no `wavelength_nm` key line. */
   defaultWavelengthNm?: number;
@@ -35,22 +19,9 @@ export type ParseRulesInput = Partial<Omit<ParseRules, 'columns'>> & {
 };
 
 export const DEFAULT_PARSE_RULES: ParseRules = Object.freeze({
+  ...DEFAULT_PARSING_RULES,
   format: 'long_table',
-  delimiter: 'auto',
-  decimalMark: '.',
-  encoding: 'utf-8',
-  skipLines: 0,
-  columns: Object.freeze({
-    position: 'position',
-    wavelength: 'wavelength_nm',
-    absorbance: 'absorbance',
-    readTime: 'read_time',
-    temperature: 'temperature_c',
-    replicate: 'replicate',
-  }),
-  spectrumWavelengthColumn: 'wavelength_nm',
-  jcampPositionFrom: 'title',
-  plateFormat: 96,
+  plateFormat: '96',
 }) as ParseRules;
 
 const FORMATS: readonly FileFormat[] = ['long_table', 'plate_grid', 'spectrum', 'jcamp_dx'];
@@ -100,7 +71,7 @@ export function resolveParseRules(partial: ParseRulesInput = {}): ParseRules {
   if (!Number.isInteger(rules.skipLines) || rules.skipLines < 0 || rules.skipLines > MAX_SKIP_LINES) {
     throw rulesError(`lines to skip must be a whole number from 0 to ${MAX_SKIP_LINES}`);
   }
-  if (rules.plateFormat !== 96 && rules.plateFormat !== 384 && rules.plateFormat !== 'cuvette') {
+  if (rules.plateFormat !== '96' && rules.plateFormat !== '384' && rules.plateFormat !== 'cuvette') {
     throw rulesError(`unknown plate format "${String(rules.plateFormat)}": expected 96, 384 or cuvette`);
   }
   if (

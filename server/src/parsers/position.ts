@@ -1,7 +1,7 @@
 import type { PlateFormat } from './parse-rules';
 
 const POSITION_SYNTAX = /^([A-Za-z])0*(\d{1,4})$/;
-const PLATE_SIZE = { 96: { rows: 8, columns: 12 }, 384: { rows: 16, columns: 24 } } as const;
+const PLATE_SIZE = { '96': { rows: 8, columns: 12 }, '384': { rows: 16, columns: 24 } } as const;
 const MAX_CUVETTES = 9999;
 
 /** `a01` → `A1`; undefined when the text is not a letter followed by a number. */
@@ -39,5 +39,5 @@ export function isValidPosition(position: string, plateFormat: PlateFormat): boo
 /** What a position looks like in a plate format, for messages. */
 export function describePositions(plateFormat: PlateFormat): string {
   if (plateFormat === 'cuvette') return 'a cuvette position C1, C2, …';
-  return plateFormat === 96 ? 'a 96-well position A1…H12' : 'a 384-well position A1…P24';
+  return plateFormat === '96' ? 'a 96-well position A1…H12' : 'a 384-well position A1…P24';
 }

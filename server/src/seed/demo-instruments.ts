@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import type { InstrumentsService } from '../instruments/instruments.service';
-import { rulesSchema } from '../instruments/instruments.schema';
+import { rulesSchema } from '../contracts/instruments';
 
 /**
  * Demo-only instrument profiles of an invented lab, and a watcher configuration that holds their tokens

@@ -1,13 +1,9 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues } from '../common/validate';
+import { temperaturesQuerySchema } from '../contracts/temperatures';
 import type { TemperaturesService } from './temperatures.service';
-
-export const temperaturesQuerySchema = z.strictObject({
-  includeUnapproved: z.enum(['true', 'false']).default('false'),
-});
 
 /** K across temperatures per chemical system: every signed-in role. */
 export function temperaturesRouter(temperatures: TemperaturesService): Router {

@@ -1,29 +1,8 @@
 import { type VantHoffResult, vantHoff } from '../analysis';
+import type { SystemTemperatures, TemperaturePoint } from '../contracts/temperatures';
 import type { BatchesService } from '../batches/batches.service';
 
-export interface TemperaturePoint {
-  batchId: number;
-  batchName: string;
-  state: string;
-  temperatureC: number;
-  model: string | null;
-  k: number | null;
-  kSe: number | null;
-  kCi95: [number | null, number | null] | null;
-  /** K as every screen and report states it (a bound or a failed fit reads as such). */
-  kText: string | null;
-  /** Why this batch is not in the fit, when it is not. */
-  excludedBecause: string | null;
-}
-
-export interface SystemTemperatures {
-  systemName: string;
-  /** The stoichiometry the fit uses: the one most batches found best. */
-  model: string | null;
-  points: TemperaturePoint[];
-  vantHoff: VantHoffResult | null;
-  note: string;
-}
+export type { SystemTemperatures, TemperaturePoint } from '../contracts/temperatures';
 
 /** K of one system at several temperatures (approved batches) and the van 't Hoff fit across them. */
 export class TemperaturesService {

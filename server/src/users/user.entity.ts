@@ -1,7 +1,9 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
 
-export type Role = 'admin' | 'lab_manager' | 'scientist';
-export const ROLES: readonly Role[] = ['admin', 'lab_manager', 'scientist'];
+import type { Role } from '../contracts/enums';
+import type { PublicUser } from '../contracts/users';
+
+export { ROLES, type Role } from '../contracts/enums';
 
 @Entity('users')
 export class User {
@@ -40,13 +42,7 @@ export class User {
 }
 
 /** What the API shows of a person: never the hash or token. */
-export interface PublicUser {
-  id: number;
-  email: string;
-  displayName: string;
-  role: Role;
-  active: boolean;
-}
+export type { PublicUser } from '../contracts/users';
 
 export function toPublicUser(user: User): PublicUser {
   return {

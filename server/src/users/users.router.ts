@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { requireRole } from '../auth/roles';
 import { idParam, validateBody } from '../common/validate';
-import { createUserSchema, updateUserSchema } from './users.schema';
+import { createUserSchema, updateUserSchema } from '../contracts/users';
 import type { UsersService } from './users.service';
 
 /** People: admins only. */

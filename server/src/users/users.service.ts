@@ -3,9 +3,9 @@ import bcrypt from 'bcryptjs';
 import type { DataSource, EntityManager, Repository } from 'typeorm';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
-import { normaliseEmail } from './email-address';
+import { normaliseEmail } from '../contracts/email-address';
 import { type PublicUser, type Role, User, toPublicUser } from './user.entity';
-import type { CreateUserInput, UpdateUserInput } from './users.schema';
+import type { CreateUserInput, UpdateUserInput } from '../contracts/users';
 
 const BCRYPT_ROUNDS = 10;
 const SET_PASSWORD_TTL_MS = 72 * 3_600_000;

@@ -3,7 +3,7 @@ import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { idParam, validateBody } from '../common/validate';
 import { INTAKE_ROLES } from '../ingest/intake.router';
-import { createWatcherSchema, heartbeatSchema } from './watchers.schema';
+import { createWatcherSchema, heartbeatSchema } from '../contracts/watchers';
 import type { WatcherCaller, WatchersService } from './watchers.service';
 
 /** Watcher credentials (admins) and where watchers stand (admins and lab managers). */

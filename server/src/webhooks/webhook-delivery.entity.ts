@@ -1,7 +1,9 @@
 import { Column, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
 import type { WebhookEvent } from './webhook.entity';
 
-export type DeliveryStatus = 'pending' | 'delivered' | 'failed';
+import type { DeliveryStatus } from '../contracts/enums';
+
+export type { DeliveryStatus } from '../contracts/enums';
 
 /**
  * One event for one receiver: the exact body it gets, and how the tries went. The unique index on

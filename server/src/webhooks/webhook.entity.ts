@@ -1,7 +1,6 @@
 import { Column, Entity, PrimaryGeneratedColumn } from 'typeorm';
 
-export const WEBHOOK_EVENTS = ['batch.approved', 'batch.qc_failed', 'file.quarantined'] as const;
-export type WebhookEvent = (typeof WEBHOOK_EVENTS)[number];
+export { WEBHOOK_EVENTS, type WebhookEvent } from '../contracts/enums';
 
 /** A receiver the lab registered (its LIMS or ELN): where to post, which events, and the signing secret. */
 @Entity('webhooks')

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues, idParam, validateBody } from '../common/validate';
-import { createWebhookSchema, deliveriesQuerySchema, updateWebhookSchema } from './webhooks.schema';
+import { createWebhookSchema, deliveriesQuerySchema, updateWebhookSchema } from '../contracts/webhooks';
 import type { WebhooksService } from './webhooks.service';
 
 /** `/api/webhooks`: receivers, their delivery log and sending again. Admins only. */

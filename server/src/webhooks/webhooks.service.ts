@@ -8,40 +8,14 @@ import type { Job, JobQueue } from '../queue/job-queue';
 import { SecretBox, signatureHeader, uuidV5 } from './webhook-crypto';
 import { type DeliveryStatus, WebhookDelivery } from './webhook-delivery.entity';
 import { Webhook, type WebhookEvent } from './webhook.entity';
-import type { CreateWebhookInput, DeliveriesQuery, UpdateWebhookInput } from './webhooks.schema';
+import type { DeliveryDto, WebhookDto } from '../contracts/webhooks';
+import type { CreateWebhookInput, DeliveriesQuery, UpdateWebhookInput } from '../contracts/webhooks';
 
 export interface WebhookJobData {
   deliveryId: number;
 }
 
-export interface WebhookDto {
-  id: number;
-  url: string;
-  events: WebhookEvent[];
-  active: boolean;
-  /** The secret masked: only its last four characters. */
-  secretMasked: string;
-  createdAt: string;
-  updatedAt: string;
-  /** Deliveries by status, for the list. */
-  counts: Record<DeliveryStatus, number>;
-}
-
-export interface DeliveryDto {
-  id: number;
-  eventId: string;
-  event: WebhookEvent;
-  webhookId: number;
-  url: string | null;
-  status: DeliveryStatus;
-  attempts: number;
-  lastResponseCode: number | null;
-  lastError: string | null;
-  createdAt: string;
-  lastAttemptAt: string | null;
-  deliveredAt: string | null;
-  payload: unknown;
-}
+export type { DeliveryDto, WebhookDto } from '../contracts/webhooks';
 
 /** What the receiver gets as the JSON body. */
 export interface WebhookPayload {

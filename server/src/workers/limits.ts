@@ -4,7 +4,7 @@
  */
 
 /** An analysis draws at most this many Monte Carlo samples (about 0.4 s of one worker thread). */
-export const MAX_MONTE_CARLO_DRAWS = 5000;
+export { MAX_MONTE_CARLO_DRAWS } from '../contracts/settings';
 /** Beyond this many tasks waiting for a worker thread, a request is answered 503 (busy, try again). */
 export const MAX_QUEUED_TASKS = 500;
 /** Files with at least this many readings are stored by the worker, in chunks (see tasks.ts). */

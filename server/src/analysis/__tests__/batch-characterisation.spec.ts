@@ -359,7 +359,7 @@ const cases: Case[] = [
     load: () =>
       fromFiles(['samples/demo/exports/plate-reader-1/FE-101.csv'], 'samples/demo/water/manifest.csv', {
         format: 'plate_grid',
-        plateFormat: 96,
+        plateFormat: '96',
       }),
   },
 ];

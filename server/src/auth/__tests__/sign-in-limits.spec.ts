@@ -1,6 +1,6 @@
 import { loadConfig } from '../../config';
 import { DEMO_EMAILS, DEMO_PASSWORD, startTestApp, type TestApp } from '../../testing/test-app';
-import { normaliseEmail } from '../../users/email-address';
+import { normaliseEmail } from '../../contracts/email-address';
 
 const WRONG = 'not-the-password';
 

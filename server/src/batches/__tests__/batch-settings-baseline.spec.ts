@@ -5,7 +5,7 @@ import {
   type Reading,
   type SampleDefinition,
 } from '../../analysis';
-import { batchSettingsSchema, updateSettingsSchema } from '../batches.schema';
+import { batchSettingsSchema, updateSettingsSchema } from '../../contracts/batches';
 import { toAnalysisSettings } from '../batches.service';
 
 /** Settings as a batch stored them before the baseline option existed. */

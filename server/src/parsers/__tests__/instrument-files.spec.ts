@@ -121,7 +121,7 @@ describe('long table', () => {
 
   it('reads a 384-well long table and refuses its far wells on a 96-well profile', async () => {
     const text = 'position,wavelength_nm,absorbance\nP24,520,0.3\n';
-    const run = await parseInstrumentFile(Buffer.from(text), 'p.csv', { plateFormat: 384 });
+    const run = await parseInstrumentFile(Buffer.from(text), 'p.csv', { plateFormat: '384' });
     expect(run.readings[0].position).toBe('P24');
     await expect(parseInstrumentFile(Buffer.from(text), 'p.csv')).rejects.toThrow(/found "P24"/);
   });
@@ -159,7 +159,7 @@ describe('plate grid', () => {
   it('reads three 16×24 grids with a BOM, ";" and a decimal comma', async () => {
     const run = await parseInstrumentFile(good('grid-384-three.csv'), 'g384.csv', {
       format: 'plate_grid',
-      plateFormat: 384,
+      plateFormat: '384',
       decimalMark: ',',
     });
     expect(run.readings).toHaveLength(3 * 384);
@@ -302,22 +302,22 @@ describe('file names', () => {
 
 describe('isValidPosition', () => {
   it.each([
-    ['A1', 96, true],
-    ['h12', 96, true],
-    ['a01', 96, true],
-    ['I1', 96, false],
-    ['A13', 96, false],
-    ['A0', 96, false],
-    ['P24', 384, true],
-    ['Q1', 384, false],
-    ['A25', 384, false],
+    ['A1', '96', true],
+    ['h12', '96', true],
+    ['a01', '96', true],
+    ['I1', '96', false],
+    ['A13', '96', false],
+    ['A0', '96', false],
+    ['P24', '384', true],
+    ['Q1', '384', false],
+    ['A25', '384', false],
     ['C1', 'cuvette', true],
     ['c017', 'cuvette', true],
     ['A1', 'cuvette', false],
     ['C0', 'cuvette', false],
-    ['AA1', 96, false],
-    ['1A', 96, false],
-    ['', 96, false],
+    ['AA1', '96', false],
+    ['1A', '96', false],
+    ['', '96', false],
   ] as const)('%j on %s → %s', (position, format, valid) => {
     expect(isValidPosition(position, format)).toBe(valid);
   });

@@ -25,7 +25,7 @@ describe('resolveParseRules', () => {
       },
       spectrumWavelengthColumn: 'wavelength_nm',
       jcampPositionFrom: 'title',
-      plateFormat: 96,
+      plateFormat: '96',
     });
     expect(resolveParseRules()).toEqual(DEFAULT_PARSE_RULES);
   });

@@ -3,7 +3,7 @@ import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { analyzeBatch } from '../../analysis/batch';
-import { updateSettingsSchema } from '../../batches/batches.schema';
+import { updateSettingsSchema } from '../../contracts/batches';
 import { loadConfig } from '../../config';
 import { createProfile, readingCount, settled } from '../../ingest/__tests__/ingest-helpers';
 import { parseInstrumentFile, parseManifestCsv, ParseError } from '../../parsers';

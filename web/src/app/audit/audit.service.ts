@@ -1,7 +1,9 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, map } from 'rxjs';
-import { type AuditPage, type AuditQuery, isAuditPage } from './audit-entry';
+import { auditPageSchema } from '@equilight/contracts';
+import type { Observable } from 'rxjs';
+import { parsed } from '../core/http/api-response';
+import type { AuditPage, AuditQuery } from './audit-entry';
 
 /** The /api/audit resource: read-only, filtered and paged on the server. */
 @Injectable({ providedIn: 'root' })
@@ -13,11 +15,6 @@ export class AuditService {
     for (const [key, value] of Object.entries(query)) {
       if (value !== undefined && value !== null && value !== '') params = params.set(key, String(value));
     }
-    return this.http.get<unknown>('/api/audit', { params }).pipe(
-      map((page) => {
-        if (!isAuditPage(page)) throw new Error('The server answered with an unexpected audit page.');
-        return page;
-      }),
-    );
+    return this.http.get<unknown>('/api/audit', { params }).pipe(parsed(auditPageSchema, 'audit page'));
   }
 }

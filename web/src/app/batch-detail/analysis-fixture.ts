@@ -8,6 +8,7 @@ import {
 } from '@equilight/analysis';
 import type { Batch } from '../batches/batch';
 import type { BatchAnalysis } from './batch-analysis';
+import { DEFAULT_BATCH_SETTINGS } from '@equilight/contracts';
 
 export const FIXTURE_K = 620;
 export const FIXTURE_EPSILON = 1400;
@@ -98,18 +99,9 @@ export function fixtureBatch(changes: Partial<Batch> = {}): Batch {
     systemName: 'Co–L',
     temperatureC: 25,
     settings: {
+      ...DEFAULT_BATCH_SETTINGS,
       wavelengthNm: null,
-      pathLengthCm: 1,
       candidates: ['1:1', '1:2', '2:1'],
-      calibrationModel: 'linear',
-      linearRangeMaxAbsorbance: 1,
-      r2Min: 0.995,
-      replicateCvMax: 0.05,
-      kCvMax: 0.15,
-      epsilonLPerMolCm: null,
-      monteCarloDraws: 0,
-      fitBaseline: false,
-      exclusions: [],
     },
     createdAt: '2031-05-02T08:00:00Z',
     updatedAt: '2031-05-02T08:10:00Z',
@@ -117,6 +109,7 @@ export function fixtureBatch(changes: Partial<Batch> = {}): Batch {
     reviewedBy: null,
     reviewedAt: null,
     approvedBy: null,
+    createdBy: null,
     approvedAt: null,
     approvalComment: null,
     summary: null,
@@ -130,7 +123,7 @@ export function fixtureAnalysis(
 ): BatchAnalysis {
   const batch = fixtureBatch(options.batch);
   const samples = fixtureSamples();
-  const readings = options.readings ?? fixtureReadings(samples);
+  const readings = (options.readings ?? fixtureReadings(samples)).map((r) => ({ ...r, intakeFileId: 1 }));
   const settings: AnalysisSettings = options.settings ?? {
     wavelengthNm: batch.settings.wavelengthNm,
     pathLengthCm: batch.settings.pathLengthCm,
@@ -166,5 +159,7 @@ export function fixtureAnalysis(
     ],
     settings,
     result: analyzeBatch(readings, samples, settings),
+    record: null,
+    approvals: [],
   };
 }

@@ -278,6 +278,7 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
         engineVersion: '0.2.0+ffffffffffff',
         sameEngine: false,
         differs: true,
+        inputsMatch: true,
         current: { ...summary, best: '1:2', k: 1.5e7, kCi95: null, kText: null },
         error: null,
       },

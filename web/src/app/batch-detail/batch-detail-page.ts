@@ -63,7 +63,8 @@ export const WHAT_IF_DEBOUNCE_MS = 40;
 
 /** Does a live event concern this batch? */
 export function concernsBatch(event: LiveEvent, batchId: number): boolean {
-  return event.type === 'batch.updated' ? event.data.id === batchId : event.data['batchId'] === batchId;
+  if (event.type === 'batch.updated') return event.data.id === batchId;
+  return event.type === 'file.stored' && event.data.batchId === batchId;
 }
 
 /**

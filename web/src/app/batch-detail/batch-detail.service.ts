@@ -1,18 +1,12 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
+import { batchAnalysisSchema, batchSchema, epsilonCandidateSchema, layoutSchema } from '@equilight/contracts';
 import { type Observable, map } from 'rxjs';
-import { type Batch, type PlateFormat, type SettingsChange, isBatch } from '../batches/batch';
-import {
-  type BatchAnalysis,
-  type EpsilonCandidate,
-  isBatchAnalysis,
-  isEpsilonCandidate,
-} from './batch-analysis';
+import { parsed } from '../core/http/api-response';
+import type { Batch, PlateFormat, SettingsChange } from '../batches/batch';
+import type { BatchAnalysis, EpsilonCandidate } from './batch-analysis';
 
-function checkBatch(value: unknown): Batch {
-  if (!isBatch(value)) throw new Error('The server answered with an unexpected batch record.');
-  return value;
-}
+const batch = parsed(batchSchema, 'batch record');
 
 /** The batch page's calls: its analysis, settings, review and approval. */
 @Injectable({ providedIn: 'root' })
@@ -25,22 +19,16 @@ export class BatchDetailService {
    */
   analysis(id: number, engineCheck = false): Observable<BatchAnalysis> {
     const query = engineCheck ? '?engineCheck=true' : '';
-    return this.http.get<unknown>(`/api/batches/${id}/analysis${query}`).pipe(
-      map((value) => {
-        if (!isBatchAnalysis(value)) throw new Error('The server answered with an unexpected analysis.');
-        return value;
-      }),
-    );
+    return this.http
+      .get<unknown>(`/api/batches/${id}/analysis${query}`)
+      .pipe(parsed(batchAnalysisSchema, 'analysis'));
   }
 
   /** The plate format of a layout (96, 384 or cuvette). */
   layoutFormat(layoutId: number): Observable<PlateFormat> {
-    return this.http.get<{ format?: unknown }>(`/api/layouts/${layoutId}`).pipe(
-      map((l) => {
-        if (l.format !== '96' && l.format !== '384' && l.format !== 'cuvette')
-          throw new Error('The layout has no known format.');
-        return l.format;
-      }),
+    return this.http.get<unknown>(`/api/layouts/${layoutId}`).pipe(
+      parsed(layoutSchema, 'layout'),
+      map((l) => l.format),
     );
   }
 
@@ -48,22 +36,22 @@ export class BatchDetailService {
   epsilonSources(id: number): Observable<EpsilonCandidate[]> {
     return this.http
       .get<unknown>(`/api/batches/${id}/epsilon-sources`)
-      .pipe(map((list) => (Array.isArray(list) ? list.filter(isEpsilonCandidate) : [])));
+      .pipe(parsed(epsilonCandidateSchema.array(), 'list of ε sources'));
   }
 
   saveSettings(id: number, settings: SettingsChange, reason: string): Observable<Batch> {
-    return this.http.put<unknown>(`/api/batches/${id}/settings`, { settings, reason }).pipe(map(checkBatch));
+    return this.http.put<unknown>(`/api/batches/${id}/settings`, { settings, reason }).pipe(batch);
   }
 
   review(id: number): Observable<Batch> {
-    return this.http.post<unknown>(`/api/batches/${id}/review`, {}).pipe(map(checkBatch));
+    return this.http.post<unknown>(`/api/batches/${id}/review`, {}).pipe(batch);
   }
 
   approve(id: number, comment: string): Observable<Batch> {
-    return this.http.post<unknown>(`/api/batches/${id}/approve`, { comment }).pipe(map(checkBatch));
+    return this.http.post<unknown>(`/api/batches/${id}/approve`, { comment }).pipe(batch);
   }
 
   reopen(id: number, reason: string): Observable<Batch> {
-    return this.http.post<unknown>(`/api/batches/${id}/reopen`, { reason }).pipe(map(checkBatch));
+    return this.http.post<unknown>(`/api/batches/${id}/reopen`, { reason }).pipe(batch);
   }
 }

@@ -1,4 +1,5 @@
 import type { Batch } from './batch';
+import { DEFAULT_BATCH_SETTINGS } from '@equilight/contracts';
 
 /** An invented batch for component tests. */
 export function batchFixture(overrides: Partial<Batch> = {}): Batch {
@@ -20,18 +21,9 @@ export function batchFixture(overrides: Partial<Batch> = {}): Batch {
     systemName: 'Fe(III) + ligand L',
     temperatureC: 25,
     settings: {
+      ...DEFAULT_BATCH_SETTINGS,
       wavelengthNm: 480,
-      pathLengthCm: 1,
       candidates: ['1:1', '1:2'],
-      calibrationModel: 'linear',
-      linearRangeMaxAbsorbance: 1,
-      r2Min: 0.995,
-      replicateCvMax: 0.05,
-      kCvMax: 0.15,
-      epsilonLPerMolCm: null,
-      monteCarloDraws: 0,
-      fitBaseline: false,
-      exclusions: [],
     },
     createdAt: '2026-03-02T09:00:00.000Z',
     updatedAt: '2026-03-02T09:00:00.000Z',
@@ -39,6 +31,7 @@ export function batchFixture(overrides: Partial<Batch> = {}): Batch {
     reviewedBy: null,
     reviewedAt: null,
     approvedBy: null,
+    createdBy: null,
     approvedAt: null,
     approvalComment: null,
     summary: null,

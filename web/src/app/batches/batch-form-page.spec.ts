@@ -141,7 +141,7 @@ describe('BatchFormPage', () => {
     const layoutSelect = await select('batch-layout');
     await layoutSelect.open();
     expect(await Promise.all((await layoutSelect.getOptions()).map((o) => o.getText()))).toEqual([
-      'Cuvette row · Cuvettes · 8 positions',
+      'Cuvette row · Cuvette sequence · 8 positions',
     ]);
     await layoutSelect.clickOptions({ text: /Cuvette row/ });
     http

@@ -1,38 +1,24 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, map } from 'rxjs';
 import {
-  type Batch,
-  type InstrumentChoice,
-  type LayoutChoice,
-  type ManifestChoice,
-  type ManifestVersions,
-  type NewBatch,
-  type VersionChoice,
-  isBatch,
-  isInstrumentChoice,
-  isLayoutChoice,
-  isManifestChoice,
-  versionsOf,
+  batchSchema,
+  instrumentSummarySchema,
+  layoutSchema,
+  layoutSummarySchema,
+  manifestSchema,
+  manifestSummarySchema,
+} from '@equilight/contracts';
+import { type Observable, map } from 'rxjs';
+import { parsed } from '../core/http/api-response';
+import type {
+  Batch,
+  InstrumentChoice,
+  LayoutChoice,
+  ManifestChoice,
+  ManifestVersions,
+  NewBatch,
+  VersionChoice,
 } from './batch';
-
-function checked<T>(guard: (v: unknown) => v is T, what: string): (value: unknown) => T {
-  return (value) => {
-    if (!guard(value)) throw new Error(`The server answered with an unexpected ${what}.`);
-    return value;
-  };
-}
-
-function checkedList<T>(guard: (v: unknown) => v is T, what: string): (value: unknown) => T[] {
-  const one = checked(guard, what);
-  return (value) => {
-    if (!Array.isArray(value))
-      throw new Error(`The server answered with something other than a list of ${what}s.`);
-    return value.map(one);
-  };
-}
-
-const checkBatch = checked(isBatch, 'batch record');
 
 /** The /api/batches resource, and the instruments, layouts and manifests a new batch is made of. */
 @Injectable({ providedIn: 'root' })
@@ -40,41 +26,46 @@ export class BatchesService {
   private readonly http = inject(HttpClient);
 
   list(): Observable<Batch[]> {
-    return this.http.get<unknown>('/api/batches').pipe(map(checkedList(isBatch, 'batch record')));
+    return this.http.get<unknown>('/api/batches').pipe(parsed(batchSchema.array(), 'list of batch records'));
   }
 
   get(id: number): Observable<Batch> {
-    return this.http.get<unknown>(`/api/batches/${id}`).pipe(map(checkBatch));
+    return this.http.get<unknown>(`/api/batches/${id}`).pipe(parsed(batchSchema, 'batch record'));
   }
 
   create(batch: NewBatch): Observable<Batch> {
-    return this.http.post<unknown>('/api/batches', batch).pipe(map(checkBatch));
+    return this.http.post<unknown>('/api/batches', batch).pipe(parsed(batchSchema, 'batch record'));
   }
 
   instruments(): Observable<InstrumentChoice[]> {
     return this.http
       .get<unknown>('/api/instruments/summary')
-      .pipe(map(checkedList(isInstrumentChoice, 'instrument')));
+      .pipe(parsed(instrumentSummarySchema.array(), 'list of instruments'));
   }
 
   layouts(): Observable<LayoutChoice[]> {
-    return this.http.get<unknown>('/api/layouts').pipe(map(checkedList(isLayoutChoice, 'layout')));
+    return this.http
+      .get<unknown>('/api/layouts')
+      .pipe(parsed(layoutSummarySchema.array(), 'list of layouts'));
   }
 
   layoutVersions(layoutId: number): Observable<VersionChoice[]> {
-    return this.http.get<unknown>(`/api/layouts/${layoutId}`).pipe(map(versionsOf));
+    return this.http.get<unknown>(`/api/layouts/${layoutId}`).pipe(
+      parsed(layoutSchema, 'layout'),
+      map((l) => l.versions),
+    );
   }
 
   manifests(): Observable<ManifestChoice[]> {
-    return this.http.get<unknown>('/api/manifests').pipe(map(checkedList(isManifestChoice, 'manifest')));
+    return this.http
+      .get<unknown>('/api/manifests')
+      .pipe(parsed(manifestSummarySchema.array(), 'list of manifests'));
   }
 
   manifestVersions(manifestId: number): Observable<ManifestVersions> {
     return this.http.get<unknown>(`/api/manifests/${manifestId}`).pipe(
-      map((m) => ({
-        layoutVersion: Number((m as { layoutVersion?: unknown }).layoutVersion) || 0,
-        versions: versionsOf(m),
-      })),
+      parsed(manifestSchema, 'manifest'),
+      map((m) => ({ layoutVersion: m.layoutVersion, versions: m.versions })),
     );
   }
 }

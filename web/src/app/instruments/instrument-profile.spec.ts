@@ -1,4 +1,5 @@
-import { fileNamePatternProblem, isInstrumentProfile, runIdFromFileName } from './instrument-profile';
+import { profileSchema } from '@equilight/contracts';
+import { fileNamePatternProblem, runIdFromFileName } from './instrument-profile';
 
 describe('file-name pattern', () => {
   it('accepts a pattern with a first capture group or a group named run', () => {
@@ -19,9 +20,9 @@ describe('file-name pattern', () => {
   });
 });
 
-describe('isInstrumentProfile', () => {
+describe('the profile response schema', () => {
   it('refuses a record with an unknown kind', () => {
-    expect(isInstrumentProfile({ id: 1, name: 'x', kind: 'fluorimeter' })).toBe(false);
-    expect(isInstrumentProfile(null)).toBe(false);
+    expect(profileSchema.safeParse({ id: 1, name: 'x', kind: 'fluorimeter' }).success).toBe(false);
+    expect(profileSchema.safeParse(null).success).toBe(false);
   });
 });

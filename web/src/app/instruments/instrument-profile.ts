@@ -1,65 +1,37 @@
-export type InstrumentKind = 'plate_reader' | 'cuvette_spectrophotometer';
-export type PlateFormat = '96' | '384' | 'cuvette';
-export type FileFormat = 'long_table' | 'plate_grid' | 'spectrum' | 'jcamp_dx';
-export type JcampPositionFrom = 'title' | 'sample_description';
-export type Delimiter = 'auto' | ',' | ';' | '\t';
-export type DecimalMark = '.' | ',';
-export type TextEncoding = 'utf-8' | 'latin1' | 'utf-16le';
+import type { FileFormat, ParsingRules, PlateFormat, ProfileDto } from '@equilight/contracts';
 
-export interface ColumnNames {
-  position: string;
-  wavelength: string;
-  absorbance: string;
-  readTime: string;
-  temperature: string;
-  replicate: string;
-}
-
-/** How a profile's files are read. */
-export interface ParsingRules {
-  delimiter: Delimiter;
-  decimalMark: DecimalMark;
-  encoding: TextEncoding;
-  skipLines: number;
-  columns: ColumnNames;
-  spectrumWavelengthColumn: string;
-  /** JCAMP-DX: where a block's position is read. */
-  jcampPositionFrom: JcampPositionFrom;
-}
+export type {
+  ColumnNames,
+  DecimalMark,
+  Delimiter,
+  FileFormat,
+  InstrumentKind,
+  JcampPositionFrom,
+  ParsingRules,
+  PlateFormat,
+  ProfileWithToken,
+  TextEncoding,
+  TryResult,
+} from '@equilight/contracts';
+export {
+  DECIMAL_MARK_LABELS,
+  DEFAULT_PARSING_RULES as DEFAULT_RULES,
+  DELIMITER_LABELS,
+  ENCODING_LABELS,
+  FILE_FORMAT_LABELS,
+  JCAMP_POSITION_LABELS,
+  KIND_LABELS,
+  PLATE_FORMAT_LABELS,
+} from '@equilight/contracts';
 
 /** An instrument profile as the API returns it. */
-export interface InstrumentProfile {
-  id: number;
-  name: string;
-  kind: InstrumentKind;
-  plateFormat: PlateFormat;
-  fileFormat: FileFormat;
-  rules: ParsingRules;
-  pathLengthCm: number | null;
-  fillVolumeUl: number | null;
-  wellDiameterMm: number | null;
-  defaultWavelengthNm: number | null;
-  dropSubfolder: string;
-  fileNamePattern: string | null;
-  active: boolean;
-  hasToken: boolean;
-  tokenPrefix: string | null;
-  tokenCreatedAt: string | null;
-  createdAt: string;
-  updatedAt: string;
-}
+export type InstrumentProfile = ProfileDto;
 
 /** The fields a person edits; the server fills in missing rules and column names. */
 export type ProfileFields = Omit<
   InstrumentProfile,
   'id' | 'hasToken' | 'tokenPrefix' | 'tokenCreatedAt' | 'createdAt' | 'updatedAt'
 >;
-
-/** A profile together with its plaintext token, which the server shows this once only. */
-export interface ProfileWithToken {
-  profile: InstrumentProfile;
-  token: string;
-}
 
 /** What "try a file" sends: the parsing rules plus what the parser needs to know of the profile. */
 export interface TryRules extends ParsingRules {
@@ -68,134 +40,11 @@ export interface TryRules extends ParsingRules {
   defaultWavelengthNm?: number;
 }
 
-export interface TryReading {
-  position: string;
-  wavelengthNm: number;
-  absorbance: number | null;
-  flag?: 'saturated' | 'missing';
-  readTime?: string;
-  temperatureC?: number;
-  replicate?: number;
-}
-
-export interface TryResult {
-  readingCount: number;
-  readings: TryReading[];
-  metadata: {
-    runId?: string;
-    wavelengthsNm: number[];
-    temperatureC?: number;
-    readTime?: string;
-    extra: Record<string, string>;
-  };
-  warnings: string[];
-}
-
 /** Why a tried file did not parse, with where in the file when the parser knows. */
 export interface TryFailure {
   message: string;
   line?: number;
   column?: string | number;
-}
-
-export const KIND_LABELS: Record<InstrumentKind, string> = {
-  plate_reader: 'Plate reader',
-  cuvette_spectrophotometer: 'Cuvette spectrophotometer',
-};
-
-export const PLATE_FORMAT_LABELS: Record<PlateFormat, string> = {
-  '96': '96-well plate',
-  '384': '384-well plate',
-  cuvette: 'Cuvette sequence',
-};
-
-export const FILE_FORMAT_LABELS: Record<FileFormat, string> = {
-  long_table: 'Long table',
-  plate_grid: 'Plate grid',
-  spectrum: 'Spectrum',
-  jcamp_dx: 'JCAMP-DX (UV-Vis)',
-};
-
-export const JCAMP_POSITION_LABELS: Record<JcampPositionFrom, string> = {
-  title: 'Block title (##TITLE)',
-  sample_description: 'Sample description (##SAMPLE DESCRIPTION)',
-};
-
-export const DELIMITER_LABELS: Record<Delimiter, string> = {
-  auto: 'Detect from the file',
-  ',': 'Comma ( , )',
-  ';': 'Semicolon ( ; )',
-  '\t': 'Tab',
-};
-
-export const DECIMAL_MARK_LABELS: Record<DecimalMark, string> = {
-  '.': 'Point ( 1.25 )',
-  ',': 'Comma ( 1,25 )',
-};
-
-export const ENCODING_LABELS: Record<TextEncoding, string> = {
-  'utf-8': 'UTF-8',
-  latin1: 'Latin-1 (ISO 8859-1)',
-  'utf-16le': 'UTF-16 LE',
-};
-
-export const DEFAULT_RULES: ParsingRules = {
-  delimiter: 'auto',
-  decimalMark: '.',
-  encoding: 'utf-8',
-  skipLines: 0,
-  columns: {
-    position: 'position',
-    wavelength: 'wavelength_nm',
-    absorbance: 'absorbance',
-    readTime: 'read_time',
-    temperature: 'temperature_c',
-    replicate: 'replicate',
-  },
-  spectrumWavelengthColumn: 'wavelength_nm',
-  jcampPositionFrom: 'title',
-};
-
-function isNumberOrNull(v: unknown): boolean {
-  return v === null || typeof v === 'number';
-}
-
-/** Check the shape of a profile where it arrives from the API. */
-export function isInstrumentProfile(value: unknown): value is InstrumentProfile {
-  const v = value as Partial<InstrumentProfile> | null;
-  return (
-    !!v &&
-    typeof v.id === 'number' &&
-    typeof v.name === 'string' &&
-    typeof v.kind === 'string' &&
-    v.kind in KIND_LABELS &&
-    typeof v.plateFormat === 'string' &&
-    v.plateFormat in PLATE_FORMAT_LABELS &&
-    typeof v.fileFormat === 'string' &&
-    v.fileFormat in FILE_FORMAT_LABELS &&
-    !!v.rules &&
-    typeof v.rules === 'object' &&
-    !!v.rules.columns &&
-    isNumberOrNull(v.pathLengthCm) &&
-    isNumberOrNull(v.fillVolumeUl) &&
-    isNumberOrNull(v.wellDiameterMm) &&
-    isNumberOrNull(v.defaultWavelengthNm) &&
-    typeof v.dropSubfolder === 'string' &&
-    typeof v.active === 'boolean' &&
-    typeof v.hasToken === 'boolean'
-  );
-}
-
-export function isTryResult(value: unknown): value is TryResult {
-  const v = value as Partial<TryResult> | null;
-  return (
-    !!v &&
-    typeof v.readingCount === 'number' &&
-    Array.isArray(v.readings) &&
-    !!v.metadata &&
-    Array.isArray(v.metadata.wavelengthsNm) &&
-    Array.isArray(v.warnings)
-  );
 }
 
 /**

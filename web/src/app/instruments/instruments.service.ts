@@ -1,29 +1,26 @@
 import { HttpClient, HttpErrorResponse } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, catchError, map, throwError } from 'rxjs';
-import { apiErrorMessage } from '../core/http/auth.interceptor';
 import {
-  type InstrumentProfile,
-  type ProfileFields,
-  type ProfileWithToken,
-  type TryFailure,
-  type TryResult,
-  type TryRules,
-  isInstrumentProfile,
-  isTryResult,
+  type InstrumentSummary,
+  instrumentSummarySchema,
+  profileSchema,
+  profileWithTokenSchema,
+  tryResultSchema,
+} from '@equilight/contracts';
+import { type Observable, catchError, throwError } from 'rxjs';
+import { parsed } from '../core/http/api-response';
+import { apiErrorMessage } from '../core/http/auth.interceptor';
+import type {
+  InstrumentProfile,
+  ProfileFields,
+  ProfileWithToken,
+  TryFailure,
+  TryResult,
+  TryRules,
 } from './instrument-profile';
 
-function checkProfile(value: unknown): InstrumentProfile {
-  if (!isInstrumentProfile(value))
-    throw new Error('The server answered with an unexpected instrument profile.');
-  return value;
-}
-
-function checkWithToken(value: unknown): ProfileWithToken {
-  const v = value as { profile?: unknown; token?: unknown } | null;
-  if (typeof v?.token !== 'string') throw new Error('The server answered without the instrument token.');
-  return { profile: checkProfile(v.profile), token: v.token };
-}
+const profile = parsed(profileSchema, 'instrument profile');
+const withToken = parsed(profileWithTokenSchema, 'instrument profile and token');
 
 /** The error of a tried file: the API's message plus line and column, when it gives them. */
 export function tryFailure(err: unknown): TryFailure {
@@ -47,39 +44,34 @@ export class InstrumentsService {
   private readonly http = inject(HttpClient);
 
   /** Names and formats only, readable by every signed-in role (for choosing an instrument). */
-  summary(): Observable<{ id: number; name: string; plateFormat: string; active: boolean }[]> {
-    return this.http.get<unknown[]>('/api/instruments/summary').pipe(
-      map((rows) =>
-        rows.map((row) => {
-          const r = row as { id?: unknown; name?: unknown; plateFormat?: unknown; active?: unknown };
-          if (typeof r.id !== 'number' || typeof r.name !== 'string')
-            throw new Error('Unexpected instrument summary.');
-          return { id: r.id, name: r.name, plateFormat: String(r.plateFormat), active: r.active === true };
-        }),
-      ),
-    );
+  summary(): Observable<InstrumentSummary[]> {
+    return this.http
+      .get<unknown>('/api/instruments/summary')
+      .pipe(parsed(instrumentSummarySchema.array(), 'instrument summary'));
   }
 
   list(): Observable<InstrumentProfile[]> {
-    return this.http.get<unknown[]>('/api/instruments').pipe(map((rows) => rows.map(checkProfile)));
+    return this.http
+      .get<unknown>('/api/instruments')
+      .pipe(parsed(profileSchema.array(), 'list of instrument profiles'));
   }
 
   /** Creates the profile and its first token; the token is in the answer this once only. */
   create(fields: ProfileFields): Observable<ProfileWithToken> {
-    return this.http.post<unknown>('/api/instruments', fields).pipe(map(checkWithToken));
+    return this.http.post<unknown>('/api/instruments', fields).pipe(withToken);
   }
 
   update(id: number, changes: Partial<ProfileFields>): Observable<InstrumentProfile> {
-    return this.http.patch<unknown>(`/api/instruments/${id}`, changes).pipe(map(checkProfile));
+    return this.http.patch<unknown>(`/api/instruments/${id}`, changes).pipe(profile);
   }
 
   /** A new token replaces the old one at once. */
   rotateToken(id: number): Observable<ProfileWithToken> {
-    return this.http.post<unknown>(`/api/instruments/${id}/token`, {}).pipe(map(checkWithToken));
+    return this.http.post<unknown>(`/api/instruments/${id}/token`, {}).pipe(withToken);
   }
 
   revokeToken(id: number): Observable<InstrumentProfile> {
-    return this.http.delete<unknown>(`/api/instruments/${id}/token`).pipe(map(checkProfile));
+    return this.http.delete<unknown>(`/api/instruments/${id}/token`).pipe(profile);
   }
 
   /** Parses a sample file with rules not yet saved. Errors arrive as a TryFailure. */
@@ -88,10 +80,7 @@ export class InstrumentsService {
     body.append('file', file, file.name);
     body.append('rules', JSON.stringify(rules));
     return this.http.post<unknown>('/api/instruments/try', body).pipe(
-      map((res) => {
-        if (!isTryResult(res)) throw new Error('The server answered the try with an unexpected shape.');
-        return res;
-      }),
+      parsed(tryResultSchema, 'try result'),
       catchError((err: unknown) => throwError(() => tryFailure(err))),
     );
   }

@@ -24,6 +24,7 @@ const FILE: IntakeFile = {
   source: 'watcher',
   receivedAt: '2031-03-01T08:00:00Z',
   finishedAt: '2031-03-01T08:00:01Z',
+  warnings: [],
 };
 
 jest.setTimeout(30_000);

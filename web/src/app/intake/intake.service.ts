@@ -1,19 +1,9 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, map } from 'rxjs';
-import {
-  type IngestReceipt,
-  type IntakeFile,
-  type IntakePage,
-  type IntakeQuery,
-  isIngestReceipt,
-  isIntakeFile,
-} from './intake-file';
-
-function checkFile(value: unknown): IntakeFile {
-  if (!isIntakeFile(value)) throw new Error('The server answered with an unexpected intake record.');
-  return value;
-}
+import { ingestReceiptSchema, intakeFileSchema, intakePageSchema } from '@equilight/contracts';
+import type { Observable } from 'rxjs';
+import { parsed } from '../core/http/api-response';
+import type { IngestReceipt, IntakeFile, IntakePage, IntakeQuery } from './intake-file';
 
 /** The /api/intake resource and the manual upload to /api/ingest. */
 @Injectable({ providedIn: 'root' })
@@ -29,24 +19,21 @@ export class IntakeService {
     if (query.status) params = params.set('status', query.status);
     if (query.profileId !== null) params = params.set('profileId', query.profileId);
     if (query.q.trim()) params = params.set('q', query.q.trim());
-    return this.http.get<{ items?: unknown; total?: unknown }>('/api/intake', { params }).pipe(
-      map((res) => {
-        if (!Array.isArray(res.items) || typeof res.total !== 'number') {
-          throw new Error('The server answered the intake list with an unexpected shape.');
-        }
-        return { items: res.items.map(checkFile), total: res.total };
-      }),
-    );
+    return this.http.get<unknown>('/api/intake', { params }).pipe(parsed(intakePageSchema, 'intake list'));
   }
 
   /** Sends a quarantined file through the parser again, e.g. after its profile was fixed. */
   requeue(id: number): Observable<IntakeFile> {
-    return this.http.post<unknown>(`/api/intake/${id}/requeue`, {}).pipe(map(checkFile));
+    return this.http
+      .post<unknown>(`/api/intake/${id}/requeue`, {})
+      .pipe(parsed(intakeFileSchema, 'intake record'));
   }
 
   /** Put an unassigned file into a batch of the same instrument (lab managers, admins). */
   assign(id: number, batchId: number): Observable<IntakeFile> {
-    return this.http.post<unknown>(`/api/intake/${id}/assign`, { batchId }).pipe(map(checkFile));
+    return this.http
+      .post<unknown>(`/api/intake/${id}/assign`, { batchId })
+      .pipe(parsed(intakeFileSchema, 'intake record'));
   }
 
   /** A person's upload: the same route the watcher uses, answered at once with the intake id. */
@@ -54,12 +41,6 @@ export class IntakeService {
     const body = new FormData();
     body.append('profileId', String(profileId));
     body.append('file', file, file.name);
-    return this.http.post<unknown>('/api/ingest', body).pipe(
-      map((res) => {
-        if (!isIngestReceipt(res))
-          throw new Error('The server answered the upload with an unexpected shape.');
-        return res;
-      }),
-    );
+    return this.http.post<unknown>('/api/ingest', body).pipe(parsed(ingestReceiptSchema, 'upload receipt'));
   }
 }

@@ -1,8 +1,10 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, map } from 'rxjs';
+import { layoutSchema, layoutSummarySchema } from '@equilight/contracts';
+import type { Observable } from 'rxjs';
+import { parsed } from '../core/http/api-response';
 import type { PlateFormat } from '../shared/plate-grid/plate-geometry';
-import { type Layout, type LayoutPosition, type LayoutSummary, isLayout, isLayoutSummary } from './layout';
+import type { Layout, LayoutPosition, LayoutSummary } from './layout';
 
 export interface NewLayout {
   name: string;
@@ -18,15 +20,7 @@ export interface LayoutChanges {
   reason?: string;
 }
 
-function checkLayout(value: unknown): Layout {
-  if (!isLayout(value)) throw new Error('The server answered with an unexpected layout record.');
-  return value;
-}
-
-function checkSummary(value: unknown): LayoutSummary {
-  if (!isLayoutSummary(value)) throw new Error('The server answered with an unexpected layout summary.');
-  return value;
-}
+const layoutRecord = parsed(layoutSchema, 'layout record');
 
 /** The /api/layouts resource. */
 @Injectable({ providedIn: 'root' })
@@ -34,21 +28,23 @@ export class LayoutsService {
   private readonly http = inject(HttpClient);
 
   list(): Observable<LayoutSummary[]> {
-    return this.http.get<unknown[]>('/api/layouts').pipe(map((rows) => rows.map(checkSummary)));
+    return this.http
+      .get<unknown>('/api/layouts')
+      .pipe(parsed(layoutSummarySchema.array(), 'list of layouts'));
   }
 
   /** The current version, or the given older one. */
   get(id: number, version?: number): Observable<Layout> {
     const url = version === undefined ? `/api/layouts/${id}` : `/api/layouts/${id}/versions/${version}`;
-    return this.http.get<unknown>(url).pipe(map(checkLayout));
+    return this.http.get<unknown>(url).pipe(layoutRecord);
   }
 
   create(layout: NewLayout): Observable<Layout> {
-    return this.http.post<unknown>('/api/layouts', layout).pipe(map(checkLayout));
+    return this.http.post<unknown>('/api/layouts', layout).pipe(layoutRecord);
   }
 
   /** Saves a new version; old versions stay. */
   update(id: number, changes: LayoutChanges): Observable<Layout> {
-    return this.http.put<unknown>(`/api/layouts/${id}`, changes).pipe(map(checkLayout));
+    return this.http.put<unknown>(`/api/layouts/${id}`, changes).pipe(layoutRecord);
   }
 }

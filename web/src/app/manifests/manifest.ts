@@ -1,23 +1,18 @@
 import { HttpErrorResponse } from '@angular/common/http';
 import type { SampleDefinition } from '@equilight/analysis';
+import {
+  MANIFEST_COLUMNS,
+  type ManifestMismatch,
+  type ManifestProblem,
+  manifestMismatchSchema,
+  manifestProblemSchema,
+} from '@equilight/contracts';
 import { comparePositions } from '../shared/plate-grid/plate-geometry';
+
+export { MANIFEST_COLUMNS };
 
 export type { SampleDefinition };
 
-/** The manifest CSV's columns, in the file's order. */
-export const MANIFEST_COLUMNS = [
-  'position',
-  'sample_id',
-  'role',
-  'concentration_M',
-  'dilution_factor',
-  'stock_a_M',
-  'volume_a_mL',
-  'stock_b_M',
-  'volume_b_mL',
-  'total_volume_mL',
-  'replicate_group',
-] as const;
 export type ManifestColumn = (typeof MANIFEST_COLUMNS)[number];
 export type ManifestRow = Record<ManifestColumn, string>;
 
@@ -32,119 +27,15 @@ export const COLUMN_UNITS: Partial<Record<ManifestColumn, string>> = {
   total_volume_mL: 'mL',
 };
 
-export type ManifestSource = 'csv' | 'xlsx' | 'form';
-
-/** One thing wrong with a manifest; `row` is the line in the file, the header being row 1. */
-export interface ManifestProblem {
-  row: number;
-  column: string;
-  message: string;
-}
-
-export interface ManifestMismatch {
-  position: string;
-  message: string;
-}
-
-export interface ManifestCheck {
-  source: ManifestSource;
-  fileName: string | null;
-  layoutId: number;
-  layoutVersion: number;
-  samples: SampleDefinition[];
-  problems: ManifestProblem[];
-  mismatches: ManifestMismatch[];
-}
-
-export interface ManifestSummary {
-  id: number;
-  name: string;
-  layoutId: number;
-  currentVersion: number;
-  sampleCount: number;
-  updatedAt: string;
-}
-
-export interface ManifestVersionInfo {
-  version: number;
-  createdAt: string;
-  createdById: number | null;
-  source: string;
-}
-
-export interface Manifest {
-  id: number;
-  name: string;
-  layoutId: number;
-  layoutVersion: number;
-  currentVersion: number;
-  version: number;
-  source: ManifestSource;
-  fileName: string | null;
-  samples: SampleDefinition[];
-  versions: ManifestVersionInfo[];
-  updatedAt: string;
-}
-
-const isProblem = (v: unknown): v is ManifestProblem =>
-  !!v &&
-  typeof (v as ManifestProblem).row === 'number' &&
-  typeof (v as ManifestProblem).column === 'string' &&
-  typeof (v as ManifestProblem).message === 'string';
-
-const isMismatch = (v: unknown): v is ManifestMismatch =>
-  !!v &&
-  typeof (v as ManifestMismatch).position === 'string' &&
-  typeof (v as ManifestMismatch).message === 'string';
-
-const isSample = (v: unknown): v is SampleDefinition =>
-  !!v &&
-  typeof (v as SampleDefinition).position === 'string' &&
-  typeof (v as SampleDefinition).sampleId === 'string' &&
-  typeof (v as SampleDefinition).role === 'string';
-
-export function isManifestCheck(value: unknown): value is ManifestCheck {
-  const v = value as Partial<ManifestCheck> | null;
-  return (
-    !!v &&
-    typeof v.layoutId === 'number' &&
-    typeof v.layoutVersion === 'number' &&
-    Array.isArray(v.samples) &&
-    v.samples.every(isSample) &&
-    Array.isArray(v.problems) &&
-    v.problems.every(isProblem) &&
-    Array.isArray(v.mismatches) &&
-    v.mismatches.every(isMismatch)
-  );
-}
-
-export function isManifestSummary(value: unknown): value is ManifestSummary {
-  const v = value as Partial<ManifestSummary> | null;
-  return (
-    !!v &&
-    typeof v.id === 'number' &&
-    typeof v.name === 'string' &&
-    typeof v.layoutId === 'number' &&
-    typeof v.currentVersion === 'number' &&
-    typeof v.sampleCount === 'number' &&
-    typeof v.updatedAt === 'string'
-  );
-}
-
-export function isManifest(value: unknown): value is Manifest {
-  const v = value as Partial<Manifest> | null;
-  return (
-    !!v &&
-    typeof v.id === 'number' &&
-    typeof v.name === 'string' &&
-    typeof v.layoutId === 'number' &&
-    typeof v.version === 'number' &&
-    typeof v.currentVersion === 'number' &&
-    Array.isArray(v.samples) &&
-    v.samples.every(isSample) &&
-    Array.isArray(v.versions)
-  );
-}
+export type {
+  ManifestCheck,
+  ManifestDto as Manifest,
+  ManifestMismatch,
+  ManifestProblem,
+  ManifestSource,
+  ManifestSummaryDto as ManifestSummary,
+  ManifestVersionInfo,
+} from '@equilight/contracts';
 
 /** What a refused save says: the code and the problems and mismatches the server listed. */
 export function manifestRefusal(
@@ -157,8 +48,12 @@ export function manifestRefusal(
   const details = (body?.error?.details ?? {}) as { problems?: unknown; mismatches?: unknown };
   return {
     code,
-    problems: Array.isArray(details.problems) ? details.problems.filter(isProblem) : [],
-    mismatches: Array.isArray(details.mismatches) ? details.mismatches.filter(isMismatch) : [],
+    problems: Array.isArray(details.problems)
+      ? details.problems.filter((p) => manifestProblemSchema.safeParse(p).success)
+      : [],
+    mismatches: Array.isArray(details.mismatches)
+      ? details.mismatches.filter((m) => manifestMismatchSchema.safeParse(m).success)
+      : [],
   };
 }
 

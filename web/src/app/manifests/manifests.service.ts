@@ -1,15 +1,9 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, map } from 'rxjs';
-import {
-  type Manifest,
-  type ManifestCheck,
-  type ManifestRow,
-  type ManifestSummary,
-  isManifest,
-  isManifestCheck,
-  isManifestSummary,
-} from './manifest';
+import { manifestCheckSchema, manifestSchema, manifestSummarySchema } from '@equilight/contracts';
+import type { Observable } from 'rxjs';
+import { parsed } from '../core/http/api-response';
+import type { Manifest, ManifestCheck, ManifestRow, ManifestSummary } from './manifest';
 
 /** A manifest to check or save: an uploaded file, or rows typed into the app. */
 export interface ManifestInput {
@@ -18,14 +12,6 @@ export interface ManifestInput {
   rows?: ManifestRow[];
 }
 
-function checked<T>(guard: (v: unknown) => v is T, what: string) {
-  return (value: unknown): T => {
-    if (!guard(value)) throw new Error(`The server answered with an unexpected ${what}.`);
-    return value;
-  };
-}
-
-/** The body the API takes: multipart with the file, or JSON with the rows. */
 function body(input: ManifestInput, extra: Record<string, string | boolean | undefined>): FormData | object {
   const fields = Object.fromEntries(Object.entries(extra).filter(([, v]) => v !== undefined && v !== ''));
   if (input.file) {
@@ -45,26 +31,26 @@ export class ManifestsService {
 
   list(): Observable<ManifestSummary[]> {
     return this.http
-      .get<unknown[]>('/api/manifests')
-      .pipe(map((rows) => rows.map(checked(isManifestSummary, 'manifest summary'))));
+      .get<unknown>('/api/manifests')
+      .pipe(parsed(manifestSummarySchema.array(), 'list of manifests'));
   }
 
   get(id: number, version?: number): Observable<Manifest> {
     const url = version === undefined ? `/api/manifests/${id}` : `/api/manifests/${id}/versions/${version}`;
-    return this.http.get<unknown>(url).pipe(map(checked(isManifest, 'manifest')));
+    return this.http.get<unknown>(url).pipe(parsed(manifestSchema, 'manifest'));
   }
 
   /** Every problem and every mismatch with the layout; saves nothing. */
   check(input: ManifestInput): Observable<ManifestCheck> {
     return this.http
       .post<unknown>('/api/manifests/check', body(input, {}))
-      .pipe(map(checked(isManifestCheck, 'manifest check')));
+      .pipe(parsed(manifestCheckSchema, 'manifest check'));
   }
 
   create(name: string, input: ManifestInput, acceptMismatches = false): Observable<Manifest> {
     return this.http
       .post<unknown>('/api/manifests', body(input, { name, acceptMismatches: acceptMismatches || undefined }))
-      .pipe(map(checked(isManifest, 'manifest')));
+      .pipe(parsed(manifestSchema, 'manifest'));
   }
 
   /** Saves a new version. */
@@ -74,6 +60,6 @@ export class ManifestsService {
         `/api/manifests/${id}`,
         body(input, { acceptMismatches: acceptMismatches || undefined, reason: reason?.trim() }),
       )
-      .pipe(map(checked(isManifest, 'manifest')));
+      .pipe(parsed(manifestSchema, 'manifest'));
   }
 }

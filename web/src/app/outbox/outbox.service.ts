@@ -1,35 +1,10 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
+import { type OutboxPage, outboxPageSchema, outboxStatusSchema } from '@equilight/contracts';
 import { type Observable, map } from 'rxjs';
+import { parsed } from '../core/http/api-response';
 
-/** One message the local SMTP stand-in received. */
-export interface OutboxMessage {
-  id: number;
-  from: string;
-  to: string;
-  subject: string;
-  text: string | null;
-  html: string | null;
-  rawSize: number;
-  receivedAt: string;
-}
-
-export interface OutboxPage {
-  items: OutboxMessage[];
-  total: number;
-}
-
-function isMessage(value: unknown): value is OutboxMessage {
-  const m = value as Partial<OutboxMessage> | null;
-  return (
-    !!m &&
-    typeof m.id === 'number' &&
-    typeof m.from === 'string' &&
-    typeof m.to === 'string' &&
-    typeof m.subject === 'string' &&
-    typeof m.receivedAt === 'string'
-  );
-}
+export type { OutboxMessageDto as OutboxMessage, OutboxPage } from '@equilight/contracts';
 
 /** The /api/outbox resource (admins; only while the server runs its mail stand-in). */
 @Injectable({ providedIn: 'root' })
@@ -38,19 +13,14 @@ export class OutboxService {
 
   list(page: number, pageSize: number): Observable<OutboxPage> {
     const params = new HttpParams().set('page', page).set('pageSize', pageSize);
-    return this.http.get<{ items: unknown[]; total: unknown }>('/api/outbox', { params }).pipe(
-      map((res) => {
-        if (!Array.isArray(res?.items) || typeof res.total !== 'number' || !res.items.every(isMessage))
-          throw new Error('The server answered with an unexpected outbox page.');
-        return { items: res.items, total: res.total };
-      }),
-    );
+    return this.http.get<unknown>('/api/outbox', { params }).pipe(parsed(outboxPageSchema, 'outbox page'));
   }
 
   /** Whether the server runs the stand-in at all. */
   status(): Observable<boolean> {
-    return this.http
-      .get<{ standIn?: unknown }>('/api/outbox/status')
-      .pipe(map((res) => res?.standIn === true));
+    return this.http.get<unknown>('/api/outbox/status').pipe(
+      parsed(outboxStatusSchema, 'outbox status'),
+      map((res) => res.standIn),
+    );
   }
 }

@@ -1,7 +1,9 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, map } from 'rxjs';
-import { type Role, type User, isUser } from '../core/auth/user';
+import { createdUserSchema, publicUserSchema } from '@equilight/contracts';
+import type { Observable } from 'rxjs';
+import { parsed } from '../core/http/api-response';
+import type { Role, User } from '../core/auth/user';
 
 export interface NewPerson {
   email: string;
@@ -17,10 +19,7 @@ export interface CreatedPerson {
 
 export type PersonChanges = Partial<Pick<User, 'displayName' | 'role' | 'active'>>;
 
-function checkUser(value: unknown): User {
-  if (!isUser(value)) throw new Error('The server answered with an unexpected person record.');
-  return value;
-}
+const person = parsed(publicUserSchema, 'person record');
 
 /** The /api/users resource. */
 @Injectable({ providedIn: 'root' })
@@ -28,16 +27,14 @@ export class PeopleService {
   private readonly http = inject(HttpClient);
 
   list(): Observable<User[]> {
-    return this.http.get<unknown[]>('/api/users').pipe(map((rows) => rows.map(checkUser)));
+    return this.http.get<unknown>('/api/users').pipe(parsed(publicUserSchema.array(), 'list of people'));
   }
 
   create(person: NewPerson): Observable<CreatedPerson> {
-    return this.http
-      .post<{ user: unknown; setPasswordUrl?: string }>('/api/users', person)
-      .pipe(map((res) => ({ user: checkUser(res.user), setPasswordUrl: res.setPasswordUrl })));
+    return this.http.post<unknown>('/api/users', person).pipe(parsed(createdUserSchema, 'new person'));
   }
 
   update(id: number, changes: PersonChanges): Observable<User> {
-    return this.http.patch<unknown>(`/api/users/${id}`, changes).pipe(map(checkUser));
+    return this.http.patch<unknown>(`/api/users/${id}`, changes).pipe(person);
   }
 }

@@ -1,52 +1,9 @@
 import type { ScatterChartModel } from '../shared/chart/chart-data';
 
-/** GET /api/temperatures: one chemical system's K across batches and its van 't Hoff fit. */
-export interface TemperaturePoint {
-  batchId: number;
-  batchName: string;
-  state: string;
-  temperatureC: number;
-  model: string | null;
-  /** K of the batch's best candidate when it has a value (not for bounds or failed fits). */
-  k: number | null;
-  kSe: number | null;
-  /** 95 % interval; an end is null when the data do not bound it. */
-  kCi95: [number | null, number | null] | null;
-  /** K as every screen and report states it (a bound or a failed fit reads as such). */
-  kText: string | null;
-  excludedBecause: string | null;
-}
+import type { SystemTemperatures, TemperaturePoint } from '@equilight/contracts';
 
-export interface VantHoffFit {
-  n: number;
-  deltaHJPerMol: number;
-  deltaHSe: number | null;
-  deltaSJPerMolK: number;
-  deltaSSe: number | null;
-  slope: number;
-  intercept: number;
-  r2: number;
-}
-
-export interface SystemTemperatures {
-  systemName: string;
-  model: string | null;
-  points: TemperaturePoint[];
-  vantHoff: VantHoffFit | null;
-  note: string;
-}
-
-const isObj = (v: unknown): v is Record<string, unknown> => !!v && typeof v === 'object';
-
-export function isSystemTemperatures(v: unknown): v is SystemTemperatures {
-  return (
-    isObj(v) &&
-    typeof v['systemName'] === 'string' &&
-    Array.isArray(v['points']) &&
-    typeof v['note'] === 'string' &&
-    (v['vantHoff'] === null || isObj(v['vantHoff']))
-  );
-}
+export type { SystemTemperatures, TemperaturePoint } from '@equilight/contracts';
+export type { VantHoffResult as VantHoffFit } from '@equilight/analysis';
 
 const KELVIN_OFFSET = 273.15;
 

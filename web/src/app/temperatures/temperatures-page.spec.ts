@@ -27,7 +27,7 @@ function system(): SystemTemperatures {
       ...POINTS.map((p, i) => ({
         batchId: 10 + i,
         batchName: `Ni–L ${p.temperatureC} °C`,
-        state: 'approved',
+        state: 'approved' as const,
         temperatureC: p.temperatureC,
         model: '1:1',
         k: p.k,
@@ -46,7 +46,7 @@ function system(): SystemTemperatures {
       {
         batchId: 20,
         batchName: 'Ni–L 45 °C',
-        state: 'open',
+        state: 'open' as const,
         temperatureC: 45,
         model: '1:2',
         k: 3.1e6,
@@ -65,7 +65,7 @@ function system(): SystemTemperatures {
       {
         batchId: 21,
         batchName: 'Ni–L 55 °C',
-        state: 'approved',
+        state: 'approved' as const,
         temperatureC: 55,
         model: '1:1',
         k: null,

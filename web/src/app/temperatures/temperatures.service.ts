@@ -1,7 +1,9 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, map } from 'rxjs';
-import { type SystemTemperatures, isSystemTemperatures } from './temperature-system';
+import { systemTemperaturesSchema } from '@equilight/contracts';
+import type { Observable } from 'rxjs';
+import { parsed } from '../core/http/api-response';
+import type { SystemTemperatures } from './temperature-system';
 
 /** GET /api/temperatures. */
 @Injectable({ providedIn: 'root' })
@@ -11,12 +13,6 @@ export class TemperaturesService {
   systems(includeUnapproved: boolean): Observable<SystemTemperatures[]> {
     return this.http
       .get<unknown>('/api/temperatures', { params: { includeUnapproved: String(includeUnapproved) } })
-      .pipe(
-        map((list) => {
-          if (!Array.isArray(list) || !list.every(isSystemTemperatures))
-            throw new Error('The server answered with an unexpected list of systems.');
-          return list;
-        }),
-      );
+      .pipe(parsed(systemTemperaturesSchema.array(), 'list of systems'));
   }
 }

@@ -1,28 +1,12 @@
-export type Role = 'admin' | 'lab_manager' | 'scientist';
+import { type PublicUser, publicUserSchema } from '@equilight/contracts';
 
-export const ROLE_LABELS: Record<Role, string> = {
-  admin: 'Administrator',
-  lab_manager: 'Lab manager',
-  scientist: 'Scientist',
-};
+export type { Role } from '@equilight/contracts';
+export { ROLE_LABELS } from '@equilight/contracts';
 
-export interface User {
-  id: number;
-  email: string;
-  displayName: string;
-  role: Role;
-  active: boolean;
-}
+/** A person as the API shows them. */
+export type User = PublicUser;
 
 /** Check the shape of a user where it arrives from the API. */
 export function isUser(value: unknown): value is User {
-  const v = value as Partial<User> | null;
-  return (
-    !!v &&
-    typeof v.id === 'number' &&
-    typeof v.email === 'string' &&
-    typeof v.displayName === 'string' &&
-    typeof v.role === 'string' &&
-    v.role in ROLE_LABELS
-  );
+  return publicUserSchema.safeParse(value).success;
 }

@@ -8,6 +8,8 @@ import iconSet from './icon-set.json';
  * name in letters, so every use must be in the set, and every entry must still be used.
  */
 const APP_DIR = path.resolve(__dirname, '..', '..');
+/** The contracts' word lists carry the icons of states (batch, intake file) that the pages show. */
+const CONTRACTS_DIR = path.resolve(__dirname, '..', '..', '..', '..', '..', 'server', 'src', 'contracts');
 
 function sourceFiles(dir: string): string[] {
   return fs.readdirSync(dir, { withFileTypes: true }).flatMap((entry) => {
@@ -43,7 +45,7 @@ export function iconsUsedIn(source: string): string[] {
 }
 
 describe('the icon set the icon font is cut to', () => {
-  const files = sourceFiles(APP_DIR);
+  const files = [...sourceFiles(APP_DIR), ...sourceFiles(CONTRACTS_DIR)];
   const used = new Map<string, string[]>();
   for (const file of files) {
     for (const name of iconsUsedIn(fs.readFileSync(file, 'utf8'))) {

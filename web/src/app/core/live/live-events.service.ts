@@ -15,26 +15,14 @@ import {
   timer,
 } from 'rxjs';
 import { webSocket } from 'rxjs/webSocket';
+import { type LiveEventOf, type LiveEventType, liveEventSchema } from '@equilight/contracts';
 import { AuthService } from '../auth/auth.service';
 
-export type LiveEventType =
-  'file.received' | 'file.stored' | 'file.quarantined' | 'file.duplicate' | 'batch.updated';
+export type { LiveEventType } from '@equilight/contracts';
+export { LIVE_EVENT_TYPES } from '@equilight/contracts';
 
-export const LIVE_EVENT_TYPES: readonly LiveEventType[] = [
-  'file.received',
-  'file.stored',
-  'file.quarantined',
-  'file.duplicate',
-  'batch.updated',
-];
-
-/** One message of /api/events. `data` always names the record by id; other fields depend on the type. */
-export interface LiveEvent<T extends LiveEventType = LiveEventType> {
-  type: T;
-  data: { id: number; [key: string]: unknown };
-  /** ISO 8601 time the server sent it. */
-  at: string;
-}
+/** One message of /api/events (of one type, or any). `data` always names the record by id. */
+export type LiveEvent<T extends LiveEventType = LiveEventType> = LiveEventOf<T>;
 
 /** The socket class; tests replace it with a fake so no unit test opens a real connection. */
 export type WebSocketCtor = new (url: string, protocols?: string | string[]) => WebSocket;
@@ -62,17 +50,7 @@ export function reconnectDelayMs(attempt: number): number {
 }
 
 export function isLiveEvent(value: unknown): value is LiveEvent {
-  const v = value as Partial<LiveEvent> | null;
-  return (
-    !!v &&
-    typeof v === 'object' &&
-    typeof v.type === 'string' &&
-    (LIVE_EVENT_TYPES as readonly string[]).includes(v.type) &&
-    !!v.data &&
-    typeof v.data === 'object' &&
-    typeof v.data.id === 'number' &&
-    typeof v.at === 'string'
-  );
+  return liveEventSchema.safeParse(value).success;
 }
 
 /**

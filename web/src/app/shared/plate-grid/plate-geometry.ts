@@ -1,7 +1,9 @@
 import type { SampleRole } from '@equilight/analysis';
 
 export type { SampleRole };
-export type PlateFormat = '96' | '384' | 'cuvette';
+export type { PlateFormat } from '@equilight/contracts';
+export { PLATE_FORMAT_LABELS as FORMAT_LABELS } from '@equilight/contracts';
+import type { PlateFormat } from '@equilight/contracts';
 
 export const SAMPLE_ROLES: readonly SampleRole[] = ['blank', 'standard', 'unknown', 'mixture', 'control'];
 
@@ -12,12 +14,6 @@ export const ROLE_INFO: Record<SampleRole, { label: string; letter: string; patt
   unknown: { label: 'Unknown', letter: 'U', pattern: 'diagonal stripes' },
   mixture: { label: 'Mixture', letter: 'M', pattern: 'dots' },
   control: { label: 'Control', letter: 'C', pattern: 'cross-hatch' },
-};
-
-export const FORMAT_LABELS: Record<PlateFormat, string> = {
-  '96': '96-well plate',
-  '384': '384-well plate',
-  cuvette: 'Cuvette sequence',
 };
 
 /** What one position holds, as far as the grid shows it. */

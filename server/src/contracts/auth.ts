@@ -1,6 +1,6 @@
 import { z } from 'zod';
-import { normaliseEmail } from '../users/email-address';
-import { passwordSchema } from '../users/users.schema';
+import { normaliseEmail } from './email-address';
+import { passwordSchema } from './users';
 
 export const loginSchema = z.strictObject({
   email: z

@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import type { SampleRole } from '../analysis/types';
+import { PLATE_FORMATS, plateFormatSchema } from './enums';
 import { SAMPLE_ROLES } from '../analysis/types';
 
 export const layoutPositionSchema = z.strictObject({
@@ -10,7 +12,7 @@ export const layoutPositionSchema = z.strictObject({
       /^(?:[A-P](?:[1-9]|1\d|2[0-4])|C[1-9]\d{0,2})$/,
       'must be a well such as A1…P24 or a cuvette such as C1',
     ),
-  role: z.enum(SAMPLE_ROLES as [string, ...string[]], {
+  role: z.enum(SAMPLE_ROLES as [SampleRole, ...SampleRole[]], {
     message: `must be one of ${SAMPLE_ROLES.join(', ')}`,
   }),
   replicateGroup: z.string().trim().min(1).max(60).optional(),
@@ -22,7 +24,7 @@ const positions = z.array(layoutPositionSchema).max(384);
 export const createLayoutSchema = z
   .strictObject({
     name: z.string().trim().min(1, 'is required').max(120),
-    format: z.enum(['96', '384', 'cuvette']),
+    format: z.enum(PLATE_FORMATS),
     cuvetteCount: z.number().int().min(1).max(999).nullable().optional(),
     positions,
   })
@@ -39,3 +41,33 @@ export const updateLayoutSchema = z.strictObject({
   reason: z.string().trim().max(500).optional(),
 });
 export type UpdateLayoutInput = z.infer<typeof updateLayoutSchema>;
+
+// ---------------------------------------------------------------------------------------------------
+// Responses
+
+const sampleRole = z.enum(SAMPLE_ROLES as [SampleRole, ...SampleRole[]]);
+
+/** GET /api/layouts lists these. */
+export const layoutSummarySchema = z.object({
+  id: z.number(),
+  name: z.string(),
+  format: plateFormatSchema,
+  cuvetteCount: z.number().nullable(),
+  currentVersion: z.number(),
+  positionCount: z.number(),
+  roleCounts: z.partialRecord(sampleRole, z.number()),
+  updatedAt: z.string(),
+});
+export type LayoutSummaryDto = z.infer<typeof layoutSummarySchema>;
+
+/** A layout at one version, with the list of its versions. */
+export const layoutSchema = layoutSummarySchema.extend({
+  version: z.number(),
+  positions: z.array(
+    z.object({ position: z.string(), role: sampleRole, replicateGroup: z.string().optional() }),
+  ),
+  versions: z.array(
+    z.object({ version: z.number(), createdAt: z.string(), createdById: z.number().nullable() }),
+  ),
+});
+export type LayoutDto = z.infer<typeof layoutSchema>;

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { normaliseEmail } from './email-address';
-import { ROLES } from './user.entity';
+import { ROLES, roleSchema } from './enums';
 
 export const emailSchema = z
   .string()
@@ -11,7 +11,7 @@ export const passwordSchema = z
   .string()
   .min(10, 'must be at least 10 characters')
   .max(200, 'must be at most 200 characters');
-const role = z.enum(ROLES as [string, ...string[]], { message: `must be one of ${ROLES.join(', ')}` });
+const role = z.enum(ROLES, { message: `must be one of ${ROLES.join(', ')}` });
 
 export const createUserSchema = z.strictObject({
   email: emailSchema,
@@ -32,3 +32,19 @@ export const updateUserSchema = z
     message: 'give at least one of displayName, role, active',
   });
 export type UpdateUserInput = z.infer<typeof updateUserSchema>;
+
+// ---------------------------------------------------------------------------------------------------
+// Responses
+
+/** A person as the API shows them (never a password hash). */
+export const publicUserSchema = z.object({
+  id: z.number(),
+  email: z.string(),
+  displayName: z.string(),
+  role: roleSchema,
+  active: z.boolean(),
+});
+export type PublicUser = z.infer<typeof publicUserSchema>;
+
+/** POST /api/users: the person and, for an invitation, the set-password link (shown once). */
+export const createdUserSchema = z.object({ user: publicUserSchema, setPasswordUrl: z.string().optional() });

@@ -1,25 +1,53 @@
-import type { z } from 'zod';
-import { auditQuerySchema } from '../audit/audit.schema';
-import { loginSchema, setPasswordSchema } from '../auth/auth.schema';
+import { z } from 'zod';
+import { auditPageSchema, auditQuerySchema } from './audit';
+import { loginSchema, setPasswordSchema } from './auth';
 import {
   analysisQuerySchema,
+  approvalRecordFullSchema,
+  approvalRecordSchema,
   approveSchema,
   assignSchema,
+  batchAnalysisSchema,
+  batchSchema,
   createBatchSchema,
+  epsilonCandidateSchema,
   reasonSchema,
   updateSettingsSchema,
-} from '../batches/batches.schema';
-import { intakeQuerySchema } from '../ingest/intake.schema';
-import { createProfileSchema, updateProfileSchema } from '../instruments/instruments.schema';
-import { createLayoutSchema, updateLayoutSchema } from '../layouts/layouts.schema';
-import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from '../mail/mail.schema';
-import { manifestMetaSchema } from '../manifests/manifests.schema';
-import { overviewQuerySchema } from '../overview/overview.router';
-import { temperaturesQuerySchema } from '../temperatures/temperatures.router';
-import { createUserSchema, updateUserSchema } from '../users/users.schema';
-import { createWatcherSchema, heartbeatSchema } from '../watchers/watchers.schema';
-import { createWebhookSchema, deliveriesQuerySchema, updateWebhookSchema } from '../webhooks/webhooks.schema';
-import type { Role } from '../users/user.entity';
+} from './batches';
+import { ADMIN_ONLY, EVERYONE, MANAGERS, type Role } from './enums';
+import { ingestReceiptSchema, intakeFileSchema, intakePageSchema, intakeQuerySchema } from './intake';
+import {
+  createProfileSchema,
+  instrumentSummarySchema,
+  profileSchema,
+  profileWithTokenSchema,
+  tryResultSchema,
+  updateProfileSchema,
+} from './instruments';
+import { createLayoutSchema, layoutSchema, layoutSummarySchema, updateLayoutSchema } from './layouts';
+import {
+  acceptedSchema,
+  forgotPasswordSchema,
+  notificationSettingsResponseSchema,
+  notificationSettingsSchema,
+  outboxMessageSchema,
+  outboxPageSchema,
+  outboxQuerySchema,
+  outboxStatusSchema,
+} from './mail';
+import { manifestCheckSchema, manifestMetaSchema, manifestSchema, manifestSummarySchema } from './manifests';
+import { systemTemperaturesSchema, temperaturesQuerySchema } from './temperatures';
+import { createUserSchema, createdUserSchema, publicUserSchema, updateUserSchema } from './users';
+import {
+  createWebhookSchema,
+  deliveriesPageSchema,
+  deliveriesQuerySchema,
+  deliverySchema,
+  updateWebhookSchema,
+  webhookSchema,
+} from './webhooks';
+import { overviewQuerySchema } from './overview';
+import { createWatcherSchema, heartbeatSchema } from './watchers';
 
 /** `instrument`: an instrument token or a signed-in uploader; `watcher`: a watcher credential (eqw_) or an instrument token. */
 export type Access = 'public' | 'instrument' | 'watcher' | readonly Role[];
@@ -38,15 +66,18 @@ export interface ApiOperation {
   query?: z.ZodType;
   /** Success status and what it returns. */
   success: [status: number, description: string];
+  /** The schema of the success answer's JSON body (none: no body, or not JSON). */
+  response?: z.ZodType;
 }
 
-const ALL: readonly Role[] = ['admin', 'lab_manager', 'scientist'];
-const MANAGERS: readonly Role[] = ['admin', 'lab_manager'];
-const ADMIN: readonly Role[] = ['admin'];
+const ALL = EVERYONE;
+const ADMIN = ADMIN_ONLY;
 
 /**
- * Every API operation, with the same zod schemas the routes validate with. The OpenAPI document is
- * generated from this list; a test checks that each entry is a mounted route.
+ * The route table: every API operation with its roles and the zod schemas of its request and its
+ * answer. The routes validate with these schemas and check these roles (a test walks the mounted
+ * routes and compares); the OpenAPI document is generated from this list; the web app parses answers
+ * with the same response schemas.
  */
 export const API_OPERATIONS: readonly ApiOperation[] = [
   {
@@ -57,6 +88,9 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       'Health: touches the database; status ok, or degraded with reasons (503 when the database does not answer)',
     access: 'public',
     success: [200, 'The server is up: {status: ok} or {status: degraded, reasons: [...]}'],
+    response: z
+      .object({ status: z.enum(['ok', 'degraded']), reasons: z.array(z.string()).optional() })
+      .loose(),
   },
   {
     method: 'post',
@@ -66,6 +100,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'public',
     body: loginSchema,
     success: [200, 'The signed-in person'],
+    response: publicUserSchema,
   },
   {
     method: 'post',
@@ -82,6 +117,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Who is signed in',
     access: ALL,
     success: [200, 'The signed-in person'],
+    response: publicUserSchema,
   },
   {
     method: 'post',
@@ -91,6 +127,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'public',
     body: setPasswordSchema,
     success: [200, 'The person'],
+    response: publicUserSchema,
   },
   {
     method: 'get',
@@ -99,6 +136,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List people',
     access: ADMIN,
     success: [200, 'People'],
+    response: z.array(publicUserSchema),
   },
   {
     method: 'post',
@@ -108,6 +146,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: createUserSchema,
     success: [201, 'The person and, for an invitation, the set-password link'],
+    response: createdUserSchema,
   },
   {
     method: 'patch',
@@ -117,6 +156,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: updateUserSchema,
     success: [200, 'The person'],
+    response: publicUserSchema,
   },
   {
     method: 'get',
@@ -125,6 +165,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List instrument profiles (lab managers read, admins change)',
     access: MANAGERS,
     success: [200, 'Profiles (tokens are never listed)'],
+    response: z.array(profileSchema),
   },
   {
     method: 'get',
@@ -146,6 +187,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Instrument names and formats',
     access: ALL,
     success: [200, 'id, name, kind, plateFormat, active'],
+    response: z.array(instrumentSummarySchema),
   },
   {
     method: 'post',
@@ -155,6 +197,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: createProfileSchema,
     success: [201, 'The profile and its token'],
+    response: profileWithTokenSchema,
   },
   {
     method: 'patch',
@@ -164,6 +207,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: updateProfileSchema,
     success: [200, 'The profile'],
+    response: profileSchema,
   },
   {
     method: 'post',
@@ -172,6 +216,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Issue a new token (the old one stops working)',
     access: ADMIN,
     success: [200, 'The profile and its new token'],
+    response: profileWithTokenSchema,
   },
   {
     method: 'delete',
@@ -180,6 +225,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Revoke the token',
     access: ADMIN,
     success: [200, 'The profile'],
+    response: profileSchema,
   },
   {
     method: 'post',
@@ -192,6 +238,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       200,
       'Reading count, first readings, metadata, warnings (422 with line and column on a parse error)',
     ],
+    response: tryResultSchema,
   },
   {
     method: 'post',
@@ -201,6 +248,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'instrument',
     multipart: { fileTypes: '.csv .tsv .txt .dat .jdx .dx .jcamp' },
     success: [202, 'Receipt: intake id, queued or duplicate'],
+    response: ingestReceiptSchema,
   },
   {
     method: 'get',
@@ -270,6 +318,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     query: intakeQuerySchema,
     success: [200, 'A page of files and the total'],
+    response: intakePageSchema,
   },
   {
     method: 'get',
@@ -278,6 +327,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One received file',
     access: MANAGERS,
     success: [200, 'The file'],
+    response: intakeFileSchema,
   },
   {
     method: 'get',
@@ -294,6 +344,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Queue a quarantined file again',
     access: MANAGERS,
     success: [202, 'The file'],
+    response: intakeFileSchema,
   },
   {
     method: 'post',
@@ -303,6 +354,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     body: assignSchema,
     success: [200, 'The file'],
+    response: intakeFileSchema,
   },
   {
     method: 'get',
@@ -311,6 +363,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List layouts',
     access: ALL,
     success: [200, 'Layouts'],
+    response: z.array(layoutSummarySchema),
   },
   {
     method: 'get',
@@ -319,6 +372,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'A layout at its current version',
     access: ALL,
     success: [200, 'The layout'],
+    response: layoutSchema,
   },
   {
     method: 'get',
@@ -327,6 +381,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'A layout at a version',
     access: ALL,
     success: [200, 'The layout'],
+    response: layoutSchema,
   },
   {
     method: 'post',
@@ -336,6 +391,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     body: createLayoutSchema,
     success: [201, 'The layout'],
+    response: layoutSchema,
   },
   {
     method: 'put',
@@ -345,6 +401,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     body: updateLayoutSchema,
     success: [200, 'The layout'],
+    response: layoutSchema,
   },
   {
     method: 'get',
@@ -353,6 +410,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List manifests',
     access: ALL,
     success: [200, 'Manifests'],
+    response: z.array(manifestSummarySchema),
   },
   {
     method: 'get',
@@ -361,6 +419,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'A manifest at its current version',
     access: ALL,
     success: [200, 'The manifest'],
+    response: manifestSchema,
   },
   {
     method: 'get',
@@ -369,6 +428,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'A manifest at a version',
     access: ALL,
     success: [200, 'The manifest'],
+    response: manifestSchema,
   },
   {
     method: 'post',
@@ -379,6 +439,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     body: manifestMetaSchema,
     multipart: { fields: manifestMetaSchema, fileTypes: '.csv .tsv .txt .xlsx' },
     success: [200, 'Samples, every problem with row and column, and mismatches with the layout'],
+    response: manifestCheckSchema,
   },
   {
     method: 'post',
@@ -389,6 +450,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     body: manifestMetaSchema,
     multipart: { fields: manifestMetaSchema, fileTypes: '.csv .tsv .txt .xlsx' },
     success: [201, 'The manifest'],
+    response: manifestSchema,
   },
   {
     method: 'put',
@@ -399,6 +461,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     body: manifestMetaSchema,
     multipart: { fields: manifestMetaSchema, fileTypes: '.csv .tsv .txt .xlsx' },
     success: [200, 'The manifest'],
+    response: manifestSchema,
   },
   {
     method: 'get',
@@ -407,6 +470,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'List batches',
     access: ALL,
     success: [200, 'Batches'],
+    response: z.array(batchSchema),
   },
   {
     method: 'post',
@@ -416,6 +480,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     body: createBatchSchema,
     success: [201, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'get',
@@ -424,6 +489,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One batch',
     access: ALL,
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'get',
@@ -437,6 +503,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       200,
       'Readings, samples, settings, the analysis result and, when approved, its approval record',
     ],
+    response: batchAnalysisSchema,
   },
   {
     method: 'get',
@@ -445,6 +512,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Approval records of a batch, newest first (one per approval; a reopening keeps the old one)',
     access: ALL,
     success: [200, 'Approval records without their full results'],
+    response: z.array(approvalRecordSchema),
   },
   {
     method: 'get',
@@ -453,6 +521,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One approval record: engine version, settings, input file hashes and the full stored result',
     access: ALL,
     success: [200, 'The approval record'],
+    response: approvalRecordFullSchema,
   },
   {
     method: 'get',
@@ -462,6 +531,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       'Batches that can lend ε of the complex: same chemical system, wavelength within ±1 nm, with a calibration',
     access: ALL,
     success: [200, 'Candidate batches with their ε and the record it comes from'],
+    response: z.array(epsilonCandidateSchema),
   },
   {
     method: 'put',
@@ -471,6 +541,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ['lab_manager', 'scientist'],
     body: updateSettingsSchema,
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'post',
@@ -479,6 +550,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Mark a batch reviewed',
     access: ['lab_manager', 'scientist'],
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'post',
@@ -489,6 +561,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ['lab_manager'],
     body: approveSchema,
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'post',
@@ -498,6 +571,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ['lab_manager'],
     body: reasonSchema,
     success: [200, 'The batch'],
+    response: batchSchema,
   },
   {
     method: 'get',
@@ -507,6 +581,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: MANAGERS,
     query: auditQuerySchema,
     success: [200, 'A page of entries and the total'],
+    response: auditPageSchema,
   },
   {
     method: 'get',
@@ -542,6 +617,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'public',
     body: forgotPasswordSchema,
     success: [202, 'Accepted'],
+    response: acceptedSchema,
   },
   {
     method: 'get',
@@ -550,6 +626,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'My notification settings',
     access: ALL,
     success: [200, 'batchComplete, qcFailure, batchApproved'],
+    response: notificationSettingsResponseSchema,
   },
   {
     method: 'put',
@@ -559,6 +636,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ALL,
     body: notificationSettingsSchema,
     success: [200, 'The settings'],
+    response: notificationSettingsResponseSchema,
   },
   {
     method: 'get',
@@ -567,6 +645,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Whether the built-in SMTP stand-in runs',
     access: ALL,
     success: [200, '{ standIn }'],
+    response: outboxStatusSchema,
   },
   {
     method: 'get',
@@ -576,6 +655,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     query: outboxQuerySchema,
     success: [200, 'A page of messages and the total'],
+    response: outboxPageSchema,
   },
   {
     method: 'get',
@@ -584,6 +664,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One received mail',
     access: ADMIN,
     success: [200, 'The message'],
+    response: outboxMessageSchema,
   },
   {
     method: 'get',
@@ -592,6 +673,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Registered webhook receivers (secrets masked) with their delivery counts',
     access: ADMIN,
     success: [200, 'The receivers'],
+    response: z.array(webhookSchema),
   },
   {
     method: 'post',
@@ -602,6 +684,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: createWebhookSchema,
     success: [201, 'The receiver; the secret is never sent back, only masked'],
+    response: webhookSchema,
   },
   {
     method: 'get',
@@ -610,6 +693,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One receiver',
     access: ADMIN,
     success: [200, 'The receiver'],
+    response: webhookSchema,
   },
   {
     method: 'patch',
@@ -619,6 +703,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: updateWebhookSchema,
     success: [200, 'The receiver'],
+    response: webhookSchema,
   },
   {
     method: 'delete',
@@ -636,6 +721,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     query: deliveriesQuerySchema,
     success: [200, 'A page of deliveries and the total'],
+    response: deliveriesPageSchema,
   },
   {
     method: 'get',
@@ -644,6 +730,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'One delivery with its payload',
     access: ADMIN,
     success: [200, 'The delivery'],
+    response: deliverySchema,
   },
   {
     method: 'post',
@@ -652,6 +739,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Send a delivered or failed event again (same id and body, new signature)',
     access: ADMIN,
     success: [202, 'The delivery, pending again'],
+    response: deliverySchema,
   },
   {
     method: 'get',
@@ -661,6 +749,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ALL,
     query: temperaturesQuerySchema,
     success: [200, 'Systems with their points and fit'],
+    response: z.array(systemTemperaturesSchema),
   },
   {
     method: 'get',
@@ -671,3 +760,13 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     success: [200, 'OpenAPI 3 document'],
   },
 ];
+
+/**
+ * The roles of a signed-in operation of the table: the web app's pages take their roles from the
+ * route that lists what they show, so a page and its API never disagree.
+ */
+export function rolesOf(method: ApiOperation['method'], path: string): readonly Role[] {
+  const op = API_OPERATIONS.find((o) => o.method === method && o.path === path);
+  if (!op || typeof op.access === 'string') throw new Error(`No signed-in operation ${method} ${path}`);
+  return op.access;
+}

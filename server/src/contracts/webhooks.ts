@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { WEBHOOK_EVENTS } from './webhook.entity';
+import { pageOf } from './common';
+import { DELIVERY_STATUSES, WEBHOOK_EVENTS, deliveryStatusSchema, webhookEventSchema } from './enums';
 
 const LOCAL_HOSTS = new Set(['localhost', '127.0.0.1', '[::1]']);
 
@@ -48,6 +49,7 @@ export const createWebhookSchema = z.strictObject({
   events: webhookEventsSchema,
 });
 export type CreateWebhookInput = z.infer<typeof createWebhookSchema>;
+export type CreateWebhookRequest = z.input<typeof createWebhookSchema>;
 
 export const updateWebhookSchema = z
   .strictObject({
@@ -61,8 +63,45 @@ export type UpdateWebhookInput = z.infer<typeof updateWebhookSchema>;
 
 export const deliveriesQuerySchema = z.strictObject({
   webhookId: z.coerce.number().int().positive().optional(),
-  status: z.enum(['pending', 'delivered', 'failed']).optional(),
+  status: z.enum(DELIVERY_STATUSES).optional(),
   page: z.coerce.number().int().min(0).default(0),
   pageSize: z.coerce.number().int().min(1).max(200).default(25),
 });
 export type DeliveriesQuery = z.infer<typeof deliveriesQuerySchema>;
+
+// ---------------------------------------------------------------------------------------------------
+// Responses
+
+/** A registered receiver (the secret only masked: its last four characters), with delivery counts. */
+export const webhookSchema = z.object({
+  id: z.number(),
+  url: z.string(),
+  events: z.array(webhookEventSchema),
+  active: z.boolean(),
+  secretMasked: z.string(),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+  /** Deliveries by status, for the list. */
+  counts: z.object({ pending: z.number(), delivered: z.number(), failed: z.number() }),
+});
+export type WebhookDto = z.infer<typeof webhookSchema>;
+
+/** One attempt to tell a receiver of an event, with its payload. */
+export const deliverySchema = z.object({
+  id: z.number(),
+  eventId: z.string(),
+  event: webhookEventSchema,
+  webhookId: z.number(),
+  url: z.string().nullable(),
+  status: deliveryStatusSchema,
+  attempts: z.number(),
+  lastResponseCode: z.number().nullable(),
+  lastError: z.string().nullable(),
+  createdAt: z.string(),
+  lastAttemptAt: z.string().nullable(),
+  deliveredAt: z.string().nullable(),
+  payload: z.unknown(),
+});
+export type DeliveryDto = z.infer<typeof deliverySchema>;
+export const deliveriesPageSchema = pageOf(deliverySchema);
+export type DeliveriesPage = z.infer<typeof deliveriesPageSchema>;

@@ -1,0 +1,25 @@
+/**
+ * The API's contracts, shared by server, web app and watcher (alias `@equilight/contracts`): the
+ * request and response schemas of every route and the route table, the settings with their
+ * defaults, the enums with their labels, and the live events. Pure: zod and the analysis module only.
+ */
+export * from './enums';
+export * from './common';
+export * from './settings';
+export * from './analysis-types';
+export * from './email-address';
+export * from './users';
+export * from './auth';
+export * from './instruments';
+export * from './intake';
+export * from './layouts';
+export * from './manifests';
+export * from './batches';
+export * from './audit';
+export * from './mail';
+export * from './temperatures';
+export * from './webhooks';
+export * from './overview';
+export * from './watchers';
+export * from './events';
+export * from './routes';

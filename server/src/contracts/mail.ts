@@ -1,0 +1,44 @@
+import { z } from 'zod';
+import { pageOf } from './common';
+import { emailSchema } from './users';
+
+export const notificationSettingsSchema = z.strictObject({
+  batchComplete: z.boolean().optional(),
+  qcFailure: z.boolean().optional(),
+  batchApproved: z.boolean().optional(),
+});
+
+export const forgotPasswordSchema = z.strictObject({
+  email: emailSchema,
+});
+
+export const outboxQuerySchema = z.strictObject({
+  page: z.coerce.number().int().min(0).default(0),
+  pageSize: z.coerce.number().int().min(1).max(200).default(25),
+});
+
+/** My notification settings (GET/PUT /api/me/notifications). */
+export const notificationSettingsResponseSchema = z.object({
+  batchComplete: z.boolean(),
+  qcFailure: z.boolean(),
+  batchApproved: z.boolean(),
+});
+
+/** One message the local SMTP stand-in received. */
+export const outboxMessageSchema = z.object({
+  id: z.number(),
+  from: z.string(),
+  to: z.string(),
+  subject: z.string(),
+  text: z.string().nullable(),
+  html: z.string().nullable(),
+  rawSize: z.number(),
+  receivedAt: z.string(),
+});
+export type OutboxMessageDto = z.infer<typeof outboxMessageSchema>;
+export const outboxPageSchema = pageOf(outboxMessageSchema);
+export type OutboxPage = z.infer<typeof outboxPageSchema>;
+export const outboxStatusSchema = z.object({ standIn: z.boolean() });
+
+/** POST /api/auth/forgot-password answers the same for every address. */
+export const acceptedSchema = z.object({ status: z.literal('accepted'), message: z.string() });
