@@ -46,8 +46,17 @@ import {
   updateWebhookSchema,
   webhookSchema,
 } from './webhooks';
-import { overviewQuerySchema } from './overview';
-import { createWatcherSchema, heartbeatSchema } from './watchers';
+import { overviewQuerySchema, overviewSchema } from './overview';
+import {
+  createWatcherSchema,
+  createdWatcherSchema,
+  fileStatusSchema,
+  heartbeatAnswerSchema,
+  heartbeatSchema,
+  presenceSchema,
+  watchedFoldersSchema,
+  watcherCredentialSchema,
+} from './watchers';
 
 /** `instrument`: an instrument token or a signed-in uploader; `watcher`: a watcher credential (eqw_) or an instrument token. */
 export type Access = 'public' | 'instrument' | 'watcher' | readonly Role[];
@@ -179,6 +188,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       200,
       'role, openBatches, awaitingMe, and for lab managers and admins quarantinedToday and silentInstruments',
     ],
+    response: overviewSchema,
   },
   {
     method: 'get',
@@ -258,6 +268,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       "The active profiles' drop folders and file rules, with a revision that changes when they do (watcher credential only)",
     access: 'watcher',
     success: [200, '{revision, folders: [{profileId, name, folder, kind, fileFormat, fileNamePattern}]}'],
+    response: watchedFoldersSchema,
   },
   {
     method: 'post',
@@ -267,6 +278,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: 'watcher',
     body: heartbeatSchema,
     success: [200, '{profiles: ids of the profiles the report covers}'],
+    response: heartbeatAnswerSchema,
   },
   {
     method: 'get',
@@ -276,6 +288,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
       "A sent file's state (queued, parsing, stored, unassigned, duplicate, quarantined with its reason)",
     access: 'watcher',
     success: [200, '{id, status, error, duplicateOfId}'],
+    response: fileStatusSchema,
   },
   {
     method: 'get',
@@ -284,6 +297,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Watcher credentials with their last report',
     access: ADMIN,
     success: [200, 'Credentials (never the token)'],
+    response: z.array(watcherCredentialSchema),
   },
   {
     method: 'post',
@@ -293,6 +307,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     access: ADMIN,
     body: createWatcherSchema,
     success: [201, '{watcher, token}'],
+    response: createdWatcherSchema,
   },
   {
     method: 'delete',
@@ -301,6 +316,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Revoke a watcher credential',
     access: ADMIN,
     success: [200, 'The credential'],
+    response: watcherCredentialSchema,
   },
   {
     method: 'get',
@@ -309,6 +325,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     summary: 'Per instrument profile: the last watcher report for its drop folder, and whether it is silent',
     access: MANAGERS,
     success: [200, '[{profileId, watcherName, version, hostname, lastSeenAt, silent}]'],
+    response: z.array(presenceSchema),
   },
   {
     method: 'get',
@@ -335,7 +352,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     tag: 'intake',
     summary: 'Download the archived raw file by its SHA-256 (Content-Disposition with the cleaned file name)',
     access: MANAGERS,
-    success: [200, 'The raw bytes; X-Content-SHA256 names their hash'],
+    success: [200, 'application/octet-stream: the raw bytes; X-Content-SHA256 names their hash'],
   },
   {
     method: 'post',
@@ -607,7 +624,7 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     tag: 'reports',
     summary: 'XLSX workbook of the report: a Batch sheet of details, then one sheet per table of the results',
     access: ALL,
-    success: [200, 'XLSX attachment'],
+    success: [200, 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet (XLSX attachment)'],
   },
   {
     method: 'post',

@@ -1,3 +1,11 @@
+import type { z } from 'zod';
+import type {
+  FileStatusDto,
+  PresenceDto,
+  WatchedFolders,
+  WatcherCredentialDto,
+  heartbeatSchema,
+} from '../contracts/watchers';
 import crypto from 'node:crypto';
 import { type DataSource, In, IsNull, Not, type Repository } from 'typeorm';
 import type { Actor, AuditService } from '../audit/audit.service';
@@ -32,55 +40,7 @@ export function bearerOf(
 export type WatcherCaller =
   { kind: 'watcher'; credential: WatcherCredential } | { kind: 'instrument'; profile: InstrumentProfile };
 
-export interface WatcherCredentialDto {
-  id: number;
-  name: string;
-  tokenPrefix: string;
-  createdAt: string;
-  revokedAt: string | null;
-  lastSeenAt: string | null;
-  version: string | null;
-  hostname: string | null;
-  folders: string[];
-}
-
-export interface PresenceDto {
-  profileId: number;
-  watcherName: string;
-  version: string | null;
-  hostname: string | null;
-  lastSeenAt: string;
-  /** No report for longer than INSTRUMENT_SILENT_MINUTES. */
-  silent: boolean;
-}
-
-/** What a watcher with a credential watches: the active profiles' drop folders and how their files are named. */
-export interface WatchedFolders {
-  /** Changes whenever a folder is added, removed or its rules change; the watcher reloads on a new value. */
-  revision: string;
-  folders: Array<{
-    profileId: number;
-    name: string;
-    folder: string;
-    kind: InstrumentProfile['kind'];
-    fileFormat: InstrumentProfile['fileFormat'];
-    fileNamePattern: string | null;
-  }>;
-}
-
-export interface HeartbeatInput {
-  version: string;
-  hostname?: string | undefined;
-  folders: string[];
-}
-
-export interface FileStatusDto {
-  id: number;
-  status: IntakeStatus;
-  /** Why a quarantined file was set aside. */
-  error: string | null;
-  duplicateOfId: number | null;
-}
+export type HeartbeatInput = z.infer<typeof heartbeatSchema>;
 
 const FINAL: readonly IntakeStatus[] = ['stored', 'duplicate', 'quarantined', 'unassigned'];
 
@@ -400,3 +360,5 @@ export class WatchersService {
     await this.checking;
   }
 }
+
+export type { FileStatusDto, PresenceDto, WatchedFolders, WatcherCredentialDto };
