@@ -1,54 +1,20 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { type Observable, map } from 'rxjs';
+import {
+  type PresenceDto,
+  type WatcherCredentialDto,
+  createdWatcherSchema,
+  presenceSchema,
+  watcherCredentialSchema,
+} from '@equilight/contracts';
+import type { Observable } from 'rxjs';
+import { z } from 'zod';
+import { parsed } from '../core/http/api-response';
 
 /** The last report of a watcher watching a profile's drop folder. */
-export interface WatcherPresence {
-  profileId: number;
-  watcherName: string;
-  version: string | null;
-  hostname: string | null;
-  lastSeenAt: string;
-  /** No report for longer than the server's INSTRUMENT_SILENT_MINUTES. */
-  silent: boolean;
-}
-
+export type WatcherPresence = PresenceDto;
 /** A watcher credential (the token itself is shown once, at creation). */
-export interface WatcherCredential {
-  id: number;
-  name: string;
-  tokenPrefix: string;
-  createdAt: string;
-  revokedAt: string | null;
-  lastSeenAt: string | null;
-  version: string | null;
-  hostname: string | null;
-  folders: string[];
-}
-
-function isPresence(v: unknown): v is WatcherPresence {
-  const p = v as Partial<WatcherPresence> | null;
-  return (
-    !!p &&
-    typeof p.profileId === 'number' &&
-    typeof p.watcherName === 'string' &&
-    typeof p.lastSeenAt === 'string' &&
-    typeof p.silent === 'boolean'
-  );
-}
-
-function isCredential(v: unknown): v is WatcherCredential {
-  const c = v as Partial<WatcherCredential> | null;
-  return !!c && typeof c.id === 'number' && typeof c.name === 'string' && Array.isArray(c.folders);
-}
-
-function checked<T>(guard: (v: unknown) => v is T, what: string) {
-  return (rows: unknown): T[] => {
-    if (!Array.isArray(rows) || !rows.every(guard))
-      throw new Error(`The server answered with unexpected ${what}.`);
-    return rows;
-  };
-}
+export type WatcherCredential = WatcherCredentialDto;
 
 /** /api/watchers: credentials (admins) and presence per profile (admins, lab managers). */
 @Injectable({ providedIn: 'root' })
@@ -56,30 +22,26 @@ export class WatchersService {
   private readonly http = inject(HttpClient);
 
   presence(): Observable<WatcherPresence[]> {
-    return this.http.get<unknown>('/api/watchers/presence').pipe(map(checked(isPresence, 'watcher reports')));
+    return this.http
+      .get<unknown>('/api/watchers/presence')
+      .pipe(parsed(z.array(presenceSchema), 'watcher reports'));
   }
 
   list(): Observable<WatcherCredential[]> {
-    return this.http.get<unknown>('/api/watchers').pipe(map(checked(isCredential, 'watcher credentials')));
+    return this.http
+      .get<unknown>('/api/watchers')
+      .pipe(parsed(z.array(watcherCredentialSchema), 'watcher credentials'));
   }
 
   create(name: string): Observable<{ watcher: WatcherCredential; token: string }> {
-    return this.http.post<unknown>('/api/watchers', { name }).pipe(
-      map((res) => {
-        const r = res as { watcher?: unknown; token?: unknown } | null;
-        if (!isCredential(r?.watcher) || typeof r?.token !== 'string')
-          throw new Error('The server answered without the watcher credential.');
-        return { watcher: r.watcher, token: r.token };
-      }),
-    );
+    return this.http
+      .post<unknown>('/api/watchers', { name })
+      .pipe(parsed(createdWatcherSchema, 'new watcher credential'));
   }
 
   revoke(id: number): Observable<WatcherCredential> {
-    return this.http.delete<unknown>(`/api/watchers/${id}`).pipe(
-      map((res) => {
-        if (!isCredential(res)) throw new Error('The server answered with an unexpected credential.');
-        return res;
-      }),
-    );
+    return this.http
+      .delete<unknown>(`/api/watchers/${id}`)
+      .pipe(parsed(watcherCredentialSchema, 'watcher credential'));
   }
 }
