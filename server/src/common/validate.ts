@@ -1,4 +1,5 @@
 import type { RequestHandler } from 'express';
+import type { ParamsDictionary } from 'express-serve-static-core';
 import type { z } from 'zod';
 import { AppError } from './app-error';
 
@@ -9,8 +10,13 @@ export function describeIssues(issues: readonly z.core.$ZodIssue[]): string {
     .join('; ');
 }
 
-/** Parse `req.body` with the schema at the boundary; the handler then sees typed, checked data. */
-export function validateBody<T extends z.ZodType>(schema: T): RequestHandler {
+/**
+ * Parse `req.body` with the schema at the boundary; the handler then sees typed, checked data: the
+ * handler that follows in the same route gets `req.body` typed as the schema's output.
+ */
+export function validateBody<T extends z.ZodType>(
+  schema: T,
+): RequestHandler<ParamsDictionary, unknown, z.output<T>> {
   return (req, _res, next) => {
     const result = schema.safeParse(req.body ?? {});
     if (!result.success) {
