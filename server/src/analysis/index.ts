@@ -50,4 +50,5 @@ export * from './spectral-fit';
 export * from './spectral-options';
 export * from './spectral-matrix';
 export * from './spectral-analysis';
+export * from './qc-findings';
 export * from './qc-guidance';

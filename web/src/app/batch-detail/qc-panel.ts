@@ -24,7 +24,7 @@ import { SEVERITY_DISPLAY, guidanceFor } from '../shared/qc/qc-guidance';
                 <span class="eq-qc__where">{{ item.flag.sampleId }}</span>
               }
             </div>
-            <p class="eq-qc__message">{{ item.flag.message }}</p>
+            <p class="eq-qc__message">{{ item.message }}</p>
             <p><span class="eq-qc__label">What it means:</span> {{ item.guidance.meaning }}</p>
             <p><span class="eq-qc__label">What to do:</span> {{ item.guidance.action }}</p>
           </li>
@@ -97,7 +97,23 @@ export class QcPanel {
 
   protected readonly items = computed(() =>
     [...this.flags()]
-      .map((flag) => ({ flag, severity: SEVERITY_DISPLAY[flag.severity], guidance: guidanceFor(flag.code) }))
+      .map((flag) => ({
+        flag,
+        message: messageAfterPlace(flag),
+        severity: SEVERITY_DISPLAY[flag.severity],
+        guidance: guidanceFor(flag.code),
+      }))
       .sort((a, b) => a.severity.rank - b.severity.rank),
   );
+}
+
+/**
+ * A finding's message without its leading "C8: " when the line already says where ("at C8"), so the
+ * position is not read twice.
+ */
+export function messageAfterPlace(flag: QcFlag): string {
+  const place = flag.position ?? flag.sampleId;
+  if (!place) return flag.message;
+  const prefix = `${place}: `;
+  return flag.message.startsWith(prefix) ? flag.message.slice(prefix.length) : flag.message;
 }
