@@ -1,10 +1,4 @@
-import {
-  DASH,
-  formatNumber,
-  guidanceFor,
-  roundSignificant,
-  significantDigits,
-} from '../analysis';
+import { DASH, formatNumber, guidanceFor, roundSignificant, significantDigits } from '../analysis';
 import type { ReportCell, ReportColumn, ReportDetail, ReportFormat, ReportValue } from './report-model';
 
 /** Building blocks of the report model: cells, columns, details and a row's own QC findings. */
