@@ -71,7 +71,7 @@ export function calibrationOnlyAnalysis(): BatchAnalysis {
 /** The fixture batch with the unknown WQ-41's second replicate (C10) read 30 % high: its replicates disagree. */
 export function replicateSpreadAnalysis(): BatchAnalysis {
   const readings = fixtureReadings().map((r) =>
-    r.position === 'C10' ? { ...r, absorbance: Number((r.absorbance * 1.3).toFixed(4)) } : r,
+    r.position === 'C10' ? { ...r, absorbance: Number(((r.absorbance ?? 0) * 1.3).toFixed(4)) } : r,
   );
   return fixtureAnalysis({ readings });
 }
