@@ -5,11 +5,10 @@ import { CalibrationPanel } from './calibration-panel';
 import { calibrationChart, jobChart, residualChart } from '../shared/chart/chart-data';
 import { EquilibriumPanel } from './equilibrium-panel';
 import { formatKValue, formatNumber } from '../shared/format/number-format';
-import { QcPanel } from './qc-panel';
 import { ScatterChart } from '../shared/chart/scatter-chart';
 import { ScatterChartStub } from '../shared/chart/scatter-chart-stub';
 import { UnknownsTable, sampleFindings } from './unknowns-table';
-import { messageAfterPlace } from './qc-panel';
+import { QcPanel, messageAfterPlace, placeOf } from './qc-panel';
 import { replicateSpreadAnalysis } from './analysis-variants-fixture';
 import type { QcFlag, UnknownResult } from '@equilight/analysis';
 
@@ -143,6 +142,16 @@ describe('batch page tables (real analysis of an invented batch)', () => {
     };
     expect(messageAfterPlace(f)).toBe('saturated reading skipped');
     expect(messageAfterPlace({ ...f, position: null })).toBe('C8: saturated reading skipped');
+    const group: QcFlag = {
+      ...f,
+      code: 'replicate-cv-high',
+      position: 'C1 C2 C3',
+      sampleId: 'TAP-001',
+      message: 'TAP-001: replicate CV 9.0 % is above the limit',
+    };
+    expect(messageAfterPlace(group)).toBe('replicate CV 9.0 % is above the limit');
+    expect(placeOf(group)).toBe('TAP-001 at C1, C2, C3');
+    expect(placeOf(f)).toBe('at C8');
   });
 
   it('equilibrium: the verdict, K per candidate with units and CI, ICE tables and a candidate switch', async () => {

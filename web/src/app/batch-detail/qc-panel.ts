@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import type { QcFlag } from '@equilight/analysis';
+import { type QcFlag, qcFindingPositions } from '@equilight/analysis';
 import { SEVERITY_DISPLAY, guidanceFor } from '../shared/qc/qc-guidance';
 
 /** Every QC flag, worst first, with what it means and what to do; severity as icon and word. */
@@ -18,10 +18,8 @@ import { SEVERITY_DISPLAY, guidanceFor } from '../shared/qc/qc-guidance';
                 >{{ item.severity.label }}</span
               >
               <strong>{{ item.guidance.title }}</strong>
-              @if (item.flag.position) {
-                <span class="eq-qc__where">at {{ item.flag.position }}</span>
-              } @else if (item.flag.sampleId) {
-                <span class="eq-qc__where">{{ item.flag.sampleId }}</span>
+              @if (item.where) {
+                <span class="eq-qc__where">{{ item.where }}</span>
               }
             </div>
             <p class="eq-qc__message">{{ item.message }}</p>
@@ -100,6 +98,7 @@ export class QcPanel {
       .map((flag) => ({
         flag,
         message: messageAfterPlace(flag),
+        where: placeOf(flag),
         severity: SEVERITY_DISPLAY[flag.severity],
         guidance: guidanceFor(flag.code),
       }))
@@ -112,8 +111,16 @@ export class QcPanel {
  * position is not read twice.
  */
 export function messageAfterPlace(flag: QcFlag): string {
-  const place = flag.position ?? flag.sampleId;
-  if (!place) return flag.message;
-  const prefix = `${place}: `;
-  return flag.message.startsWith(prefix) ? flag.message.slice(prefix.length) : flag.message;
+  for (const place of [flag.position, flag.sampleId]) {
+    const prefix = place ? `${place}: ` : null;
+    if (prefix && flag.message.startsWith(prefix)) return flag.message.slice(prefix.length);
+  }
+  return flag.message;
+}
+
+/** Where a finding is, once: "TAP-001 at C1, C2, C3", "at C8" or "TAP-001". */
+export function placeOf(flag: QcFlag): string {
+  const positions = qcFindingPositions(flag).join(', ');
+  const at = positions ? `at ${positions}` : '';
+  return [flag.sampleId ?? '', at].filter(Boolean).join(' ');
 }
