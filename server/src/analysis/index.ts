@@ -50,5 +50,6 @@ export * from './spectral-fit';
 export * from './spectral-options';
 export * from './spectral-matrix';
 export * from './spectral-analysis';
+export * from './qc-findings';
 export * from './qc-guidance';
 export * from './pathlength-water-wells';

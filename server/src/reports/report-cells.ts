@@ -1,11 +1,4 @@
-import {
-  DASH,
-  type QcFlag,
-  formatNumber,
-  guidanceFor,
-  roundSignificant,
-  significantDigits,
-} from '../analysis';
+import { DASH, formatNumber, guidanceFor, roundSignificant, significantDigits } from '../analysis';
 import type { ReportCell, ReportColumn, ReportDetail, ReportFormat, ReportValue } from './report-model';
 
 /** Building blocks of the report model: cells, columns, details and a row's own QC findings. */
@@ -74,22 +67,8 @@ export const col = (
 ): ReportColumn => ({ key, header, width, ...more });
 export const right = { align: 'right' as const };
 
-/** The positions a finding names (a replicate group's finding names all of them, space-separated). */
-function positionsOf(f: QcFlag): string[] {
-  return f.position ? f.position.split(/[\s,;]+/).filter(Boolean) : [];
-}
-
-/** The QC findings that concern one row: its sample id or one of its positions. */
-export function ownFindings(
-  qc: readonly QcFlag[],
-  sampleId: string | null,
-  positions: readonly string[],
-): QcFlag[] {
-  return qc.filter(
-    (f) =>
-      (sampleId !== null && f.sampleId === sampleId) || positionsOf(f).some((p) => positions.includes(p)),
-  );
-}
+/** The QC findings that concern one row (the rule lives in the analysis module, shared with the screens). */
+export { ownFindings } from '../analysis';
 
 /** Codes (spreadsheets) and plain words (PDF) of a row's findings, each code once. */
 export function findingsCell(codes: readonly string[]): ReportCell {

@@ -119,10 +119,15 @@ export function fixtureBatch(changes: Partial<Batch> = {}): Batch {
 
 /** The analysis the server would answer with, computed by the real analysis module. */
 export function fixtureAnalysis(
-  options: { batch?: Partial<Batch>; readings?: Reading[]; settings?: AnalysisSettings } = {},
+  options: {
+    batch?: Partial<Batch>;
+    readings?: Reading[];
+    settings?: AnalysisSettings;
+    samples?: SampleDefinition[];
+  } = {},
 ): BatchAnalysis {
   const batch = fixtureBatch(options.batch);
-  const samples = fixtureSamples();
+  const samples = options.samples ?? fixtureSamples();
   const readings = (options.readings ?? fixtureReadings(samples)).map((r) => ({ ...r, intakeFileId: 1 }));
   const settings: AnalysisSettings = options.settings ?? {
     wavelengthNm: batch.settings.wavelengthNm,

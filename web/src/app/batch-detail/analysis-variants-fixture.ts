@@ -3,7 +3,7 @@
 // bends at the top) or analysed with a fit held to too few iterations. Not measurements.
 import type { AnalysisSettings, Reading } from '@equilight/analysis';
 import type { BatchAnalysis } from './batch-analysis';
-import { FIXTURE_EPSILON, fixtureAnalysis, fixtureSamples } from './analysis-fixture';
+import { FIXTURE_EPSILON, fixtureAnalysis, fixtureReadings, fixtureSamples } from './analysis-fixture';
 
 const BLANK = 0.041;
 const WAVELENGTH_NM = 590;
@@ -60,4 +60,18 @@ export function notConvergedAnalysis(): BatchAnalysis {
   const base = fixtureAnalysis();
   const settings: AnalysisSettings = { ...base.settings, fit: { maxIterations: 1 } };
   return fixtureAnalysis({ settings });
+}
+
+/** The fixture batch without its mixtures: a plain calibration batch (blanks, standards, unknowns). */
+export function calibrationOnlyAnalysis(): BatchAnalysis {
+  const samples = fixtureSamples().filter((s) => s.role !== 'mixture');
+  return fixtureAnalysis({ samples, readings: fixtureReadings(samples) });
+}
+
+/** The fixture batch with the unknown WQ-41's second replicate (C10) read 30 % high: its replicates disagree. */
+export function replicateSpreadAnalysis(): BatchAnalysis {
+  const readings = fixtureReadings().map((r) =>
+    r.position === 'C10' ? { ...r, absorbance: Number(((r.absorbance ?? 0) * 1.3).toFixed(4)) } : r,
+  );
+  return fixtureAnalysis({ readings });
 }

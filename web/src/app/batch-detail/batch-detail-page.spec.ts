@@ -1,7 +1,7 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { signal } from '@angular/core';
-import { TestBed } from '@angular/core/testing';
+import { DeferBlockState, TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { provideRouter } from '@angular/router';
 import { Subject, filter } from 'rxjs';
@@ -10,6 +10,7 @@ import { AuthService } from '../core/auth/auth.service';
 import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
 import { By } from '@angular/platform-browser';
 import { fixtureAnalysis } from './analysis-fixture';
+import { calibrationOnlyAnalysis } from './analysis-variants-fixture';
 import type { ApprovalRecord, BatchAnalysis, EpsilonCandidate } from './batch-analysis';
 import { WhatIfPanel } from './what-if-panel';
 import { BatchDetailPage, LIVE_REFRESH_DEBOUNCE_MS, WHAT_IF_DEBOUNCE_MS } from './batch-detail-page';
@@ -357,5 +358,77 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     expect(text(el.querySelector('[data-testid="epsilon-source"]'))).toBe(
       '1380 L·mol⁻¹·cm⁻¹, from batch "Run 9", approval record 4',
     );
+  });
+
+  /** Renders the page's deferred blocks (the tab group waits for the viewport, which jsdom lacks). */
+  async function renderDeferred(fixture: Awaited<ReturnType<typeof setup>>['fixture']) {
+    for (let round = 0; round < 4; round++) {
+      for (const block of await fixture.getDeferBlocks()) await block.render(DeferBlockState.Complete);
+      fixture.detectChanges();
+      await wait(5);
+      await fixture.whenStable();
+    }
+  }
+
+  it('says the result in one short sentence and shows the long verdict once, on demand', async () => {
+    const analysis = fixtureAnalysis();
+    const { fixture, el } = await setup('scientist', analysis);
+    const r = analysis.result;
+    // formatK of the headline: value, unit and 95 % interval, as every report states it.
+    expect(text(el.querySelector('[data-testid="verdict"]'))).toBe(`1:1 fits best: K = ${r.headline!.text}`);
+    expect(text(el.querySelector('[data-testid="best-k-value"]'))).toBe(r.headline!.text);
+    expect(r.headline!.text).toMatch(/^6\d\d(\.\d+)? L·mol⁻¹ \(95 % CI [\d.]+ to [\d.]+\)$/);
+    expect(text(el.querySelector('[data-testid="verdict"]'))).not.toContain('ruled out');
+
+    const toggle = el.querySelector<HTMLButtonElement>('[data-testid="verdict-details-toggle"]')!;
+    const detail = el.querySelector<HTMLElement>('[data-testid="verdict-detail"]')!;
+    expect(toggle.getAttribute('aria-expanded')).toBe('false');
+    expect(toggle.getAttribute('aria-controls')).toBe(detail.id);
+    expect(detail.hidden).toBe(true);
+    toggle.click();
+    await fixture.whenStable();
+    expect(toggle.getAttribute('aria-expanded')).toBe('true');
+    expect(detail.hidden).toBe(false);
+    expect(text(detail)).toBe(r.stoichiometry!.verdict);
+
+    // Once (the equilibrium panel's own spec checks that it does not repeat it).
+    await renderDeferred(fixture);
+    expect(el.querySelectorAll('[data-testid="verdict-detail"]')).toHaveLength(1);
+    expect(
+      [...el.querySelectorAll('*')].filter(
+        (n) => n.children.length === 0 && text(n) === r.stoichiometry!.verdict,
+      ),
+    ).toHaveLength(1);
+  });
+
+  it('a plain calibration batch opens on Calibration and hides the equilibrium tab and controls', async () => {
+    const analysis = calibrationOnlyAnalysis();
+    expect(analysis.result.mixtures).toHaveLength(0);
+    const { fixture, el } = await setup('scientist', analysis);
+    await renderDeferred(fixture);
+    expect(text(el.querySelector('[data-testid="verdict"]'))).toBe('No equilibrium mixtures in this batch.');
+    expect(el.querySelector('[data-testid="best-k"]')).toBeNull();
+    expect(el.querySelector('[data-testid="verdict-details-toggle"]')).toBeNull();
+    const tabs = [...el.querySelectorAll('[role="tab"]')];
+    expect(tabs.map((t) => text(t))).not.toContain('Equilibrium');
+    const selected = tabs.find((t) => t.getAttribute('aria-selected') === 'true');
+    expect(text(selected ?? null)).toBe('Calibration');
+    // What-if: the controls only an equilibrium fit reads are gone; wavelength and path stay.
+    expect(el.querySelector('[data-testid="what-if-candidates"]')).toBeNull();
+    expect(el.querySelector('[data-testid="what-if-baseline"]')).toBeNull();
+    expect(el.querySelector('[data-testid="what-if-epsilon"]')).toBeNull();
+    expect(el.querySelector('[data-testid="what-if-wavelength"]')).not.toBeNull();
+    expect(el.querySelector('[data-testid="what-if-path"]')).not.toBeNull();
+  });
+
+  it('a batch with mixtures opens on Equilibrium with its controls', async () => {
+    const { fixture, el } = await setup();
+    await renderDeferred(fixture);
+    const selected = [...el.querySelectorAll('[role="tab"]')].find(
+      (t) => t.getAttribute('aria-selected') === 'true',
+    );
+    expect(text(selected ?? null)).toBe('Equilibrium');
+    expect(el.querySelector('[data-testid="what-if-candidates"]')).not.toBeNull();
+    expect(el.querySelector('[data-testid="what-if-baseline"]')).not.toBeNull();
   });
 });

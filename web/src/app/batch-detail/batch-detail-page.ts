@@ -40,6 +40,7 @@ import { SpectraPanel } from './spectra-panel';
 import { hasSpectra } from './spectra-presence';
 import type { ReasonDialogData } from './reason-dialog';
 import { UnknownsTable } from './unknowns-table';
+import { noVerdictText, shortVerdict } from './verdict-sentence';
 import {
   NO_EDITS,
   type WhatIfEdits,
@@ -184,6 +185,20 @@ export class BatchDetailPage {
     const source = this.batch()?.settings.epsilonSource;
     return source ? epsilonSourceLabel(source) : null;
   });
+  /** The result in one short sentence (model and K); the long verdict is behind "Details". */
+  protected readonly verdict = computed(() => {
+    const r = this.result();
+    return r ? shortVerdict(r) : null;
+  });
+  protected readonly noVerdict = computed(() => {
+    const r = this.result();
+    return r ? noVerdictText(r) : '';
+  });
+  protected readonly detailsOpen = signal(false);
+  /** A batch with equilibrium mixtures; a plain calibration batch hides the equilibrium tab and controls. */
+  protected readonly equilibrium = computed(() => (this.result()?.mixtures.length ?? 0) > 0);
+  /** The tab the page opens on: Equilibrium, or Calibration for a batch without mixtures. */
+  protected readonly firstTab = computed(() => (this.equilibrium() ? 0 : this.spectra() ? 1 : 0));
   protected readonly best = computed(() => {
     const s = this.result()?.stoichiometry;
     return s?.candidates.find((c) => c.model === s.best) ?? null;

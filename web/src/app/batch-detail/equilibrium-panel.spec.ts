@@ -50,6 +50,9 @@ describe('equilibrium panel (real analyses of invented batches)', () => {
       new RegExp(`^14\\d\\d(\\.\\d)? ± [\\d.]+ ${EPSILON_UNIT}$`),
     );
     expect(text(el.querySelector('[data-testid="epsilon-note"]'))).toBe(result.epsilonSource.note);
+    // The long verdict is at the top of the page behind "Details", not repeated here.
+    expect(el.querySelector('[data-testid="verdict-detail"]')).toBeNull();
+    expect(text(el)).not.toContain(result.stoichiometry!.verdict);
   });
 
   it('lists the candidates in the order of the settings, not by rank, with the rank as a column', async () => {

@@ -5,10 +5,12 @@ import { CalibrationPanel } from './calibration-panel';
 import { calibrationChart, jobChart, residualChart } from '../shared/chart/chart-data';
 import { EquilibriumPanel } from './equilibrium-panel';
 import { formatKValue, formatNumber } from '../shared/format/number-format';
-import { QcPanel } from './qc-panel';
 import { ScatterChart } from '../shared/chart/scatter-chart';
 import { ScatterChartStub } from '../shared/chart/scatter-chart-stub';
-import { UnknownsTable } from './unknowns-table';
+import { UnknownsTable, sampleFindings } from './unknowns-table';
+import { QcPanel, messageAfterPlace, placeOf } from './qc-panel';
+import { replicateSpreadAnalysis } from './analysis-variants-fixture';
+import type { QcFlag, UnknownResult } from '@equilight/analysis';
 
 const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' ').trim();
 
@@ -78,12 +80,88 @@ describe('batch page tables (real analysis of an invented batch)', () => {
     expect(u.concentrationM).toBeCloseTo(3.4e-4, 5);
   });
 
+  it("unknowns: each sample's QC column shows its own findings, not 'none' for all", async () => {
+    const spread = replicateSpreadAnalysis().result;
+    const fixture = TestBed.createComponent(UnknownsTable);
+    fixture.componentRef.setInput('unknowns', spread.unknowns);
+    fixture.componentRef.setInput('controls', spread.controls);
+    fixture.componentRef.setInput('qc', spread.qc);
+    await fixture.whenStable();
+    const el = fixture.nativeElement as HTMLElement;
+    // C10 read 30 % above C9: the replicate check (CV over the batch's limit) names WQ-41's positions.
+    const finding = spread.qc.find((f) => f.code === 'replicate-cv-high');
+    expect(finding).toBeDefined();
+    const cell = text(el.querySelector('[data-sample="WQ-41"] [data-testid="unknown-qc"]'));
+    expect(cell).not.toContain('none');
+    expect(cell).toContain('Replicates disagree');
+    // Every other row with no finding of its own still says none.
+    const others = [...el.querySelectorAll('tbody tr')].filter(
+      (r) => r.getAttribute('data-sample') !== 'WQ-41',
+    );
+    for (const row of others) {
+      const own = sampleFindings(
+        [...spread.unknowns, ...spread.controls].find((u) => u.sampleId === row.getAttribute('data-sample'))!,
+        spread.qc,
+      );
+      expect(text(row.querySelector('[data-testid="unknown-qc"]'))).toBe(
+        own.length ? own.map((f) => f.title).join(' ') : 'none',
+      );
+    }
+  });
+
+  it('a finding naming a replicate group\'s positions ("C9 C10") belongs to each of them, each code once', () => {
+    const row: UnknownResult = {
+      ...result.unknowns[0],
+      sampleId: 'WQ-41',
+      positions: ['C10'],
+      flags: ['replicate-cv-high'],
+    };
+    const flag = (position: string | null, sampleId: string | null): QcFlag => ({
+      code: 'replicate-cv-high',
+      severity: 'warning',
+      message: 'replicates differ',
+      position,
+      sampleId,
+      value: 0.2,
+      threshold: 0.05,
+    });
+    expect(sampleFindings(row, [flag('C9 C10', null)]).map((f) => f.code)).toEqual(['replicate-cv-high']);
+    expect(sampleFindings({ ...row, flags: [] }, [flag('C11 C12', null)])).toEqual([]);
+    expect(sampleFindings({ ...row, flags: [] }, [flag(null, 'WQ-41')])).toHaveLength(1);
+  });
+
+  it('QC lines do not repeat the position ("at C8" then "C8: …")', () => {
+    const f: QcFlag = {
+      code: 'saturated-reading',
+      severity: 'warning',
+      message: 'C8: saturated reading skipped',
+      position: 'C8',
+      sampleId: null,
+      value: null,
+      threshold: null,
+    };
+    expect(messageAfterPlace(f)).toBe('saturated reading skipped');
+    expect(messageAfterPlace({ ...f, position: null })).toBe('C8: saturated reading skipped');
+    const group: QcFlag = {
+      ...f,
+      code: 'replicate-cv-high',
+      position: 'C1 C2 C3',
+      sampleId: 'TAP-001',
+      message: 'TAP-001: replicate CV 9.0 % is above the limit',
+    };
+    expect(messageAfterPlace(group)).toBe('replicate CV 9.0 % is above the limit');
+    expect(placeOf(group)).toBe('TAP-001 at C1, C2, C3');
+    expect(placeOf(f)).toBe('at C8');
+  });
+
   it('equilibrium: the verdict, K per candidate with units and CI, ICE tables and a candidate switch', async () => {
     const fixture = TestBed.createComponent(EquilibriumPanel);
     fixture.componentRef.setInput('result', result);
     await fixture.whenStable();
     const el = fixture.nativeElement as HTMLElement;
-    expect(text(el.querySelector('[data-testid="verdict-detail"]'))).toMatch(/^1:1 fits best/);
+    // The long verdict is said once, at the top of the page, not again in this panel.
+    expect(el.querySelector('[data-testid="verdict-detail"]')).toBeNull();
+    expect(text(el)).not.toContain(result.stoichiometry!.verdict);
     const oneToOne = el.querySelector('[data-testid="candidates-table"] [data-model="1:1"]')!;
     const fit = result.stoichiometry!.candidates.find((c) => c.model === '1:1')!.fit!;
     expect(text(oneToOne.querySelector('[data-testid="candidate-k"]'))).toBe(`${formatKValue(fit)} L·mol⁻¹`);

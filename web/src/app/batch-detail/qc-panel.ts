@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import type { QcFlag } from '@equilight/analysis';
+import { type QcFlag, qcFindingPositions } from '@equilight/analysis';
 import { SEVERITY_DISPLAY, guidanceFor } from '../shared/qc/qc-guidance';
 
 /** Every QC flag, worst first, with what it means and what to do; severity as icon and word. */
@@ -18,13 +18,11 @@ import { SEVERITY_DISPLAY, guidanceFor } from '../shared/qc/qc-guidance';
                 >{{ item.severity.label }}</span
               >
               <strong>{{ item.guidance.title }}</strong>
-              @if (item.flag.position) {
-                <span class="eq-qc__where">at {{ item.flag.position }}</span>
-              } @else if (item.flag.sampleId) {
-                <span class="eq-qc__where">{{ item.flag.sampleId }}</span>
+              @if (item.where) {
+                <span class="eq-qc__where">{{ item.where }}</span>
               }
             </div>
-            <p class="eq-qc__message">{{ item.flag.message }}</p>
+            <p class="eq-qc__message">{{ item.message }}</p>
             <p><span class="eq-qc__label">What it means:</span> {{ item.guidance.meaning }}</p>
             <p><span class="eq-qc__label">What to do:</span> {{ item.guidance.action }}</p>
           </li>
@@ -97,7 +95,32 @@ export class QcPanel {
 
   protected readonly items = computed(() =>
     [...this.flags()]
-      .map((flag) => ({ flag, severity: SEVERITY_DISPLAY[flag.severity], guidance: guidanceFor(flag.code) }))
+      .map((flag) => ({
+        flag,
+        message: messageAfterPlace(flag),
+        where: placeOf(flag),
+        severity: SEVERITY_DISPLAY[flag.severity],
+        guidance: guidanceFor(flag.code),
+      }))
       .sort((a, b) => a.severity.rank - b.severity.rank),
   );
+}
+
+/**
+ * A finding's message without its leading "C8: " when the line already says where ("at C8"), so the
+ * position is not read twice.
+ */
+export function messageAfterPlace(flag: QcFlag): string {
+  for (const place of [flag.position, flag.sampleId]) {
+    const prefix = place ? `${place}: ` : null;
+    if (prefix && flag.message.startsWith(prefix)) return flag.message.slice(prefix.length);
+  }
+  return flag.message;
+}
+
+/** Where a finding is, once: "TAP-001 at C1, C2, C3", "at C8" or "TAP-001". */
+export function placeOf(flag: QcFlag): string {
+  const positions = qcFindingPositions(flag).join(', ');
+  const at = positions ? `at ${positions}` : '';
+  return [flag.sampleId ?? '', at].filter(Boolean).join(' ');
 }

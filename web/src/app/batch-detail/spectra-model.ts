@@ -224,12 +224,12 @@ export interface SpectraCandidateRow {
   reason: string;
 }
 
-/** The candidates in the order of the ranking (best first). */
+/** The candidates in the order they were fitted (the settings' order), so rows never jump; "best" marks the best. */
 export function candidateRows(r: SpectralAnalysisResult): SpectraCandidateRow[] {
-  const byModel = new Map(r.candidates.map((c) => [c.model, c]));
-  return r.ranking.ranked.flatMap((ranked) => {
-    const fit = byModel.get(ranked.model);
-    if (!fit) return [];
+  const byModel = new Map(r.ranking.ranked.map((ranked) => [ranked.model, ranked]));
+  return r.candidates.flatMap((fit) => {
+    const ranked = byModel.get(fit.model);
+    if (!ranked) return [];
     return [
       {
         model: fit.model,

@@ -59,7 +59,7 @@ describe('Spectra panel (an invented titration read as spectra)', () => {
     const section = el.querySelector('[data-testid="spectra-section"]')!;
     expect(section.querySelector('h2')?.textContent).toBe('Spectra');
     expect([...section.querySelectorAll('h3')].map((h) => text(h))).toEqual([
-      'Candidates ranked by AIC',
+      'Candidates',
       'Spectra of the mixtures',
       'Singular values',
       'Species spectra (1:1)',

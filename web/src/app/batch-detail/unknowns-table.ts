@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import type { UnknownResult } from '@equilight/analysis';
+import { ownFindings, type QcFlag, type UnknownResult } from '@equilight/analysis';
 import { formatAbsorbance, formatNumber } from '../shared/format/number-format';
 import { guidanceFor } from '../shared/qc/qc-guidance';
 
@@ -39,10 +39,10 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
                 <td class="eq-n">× {{ u.row.dilutionFactor }}</td>
                 <td class="eq-n" data-testid="unknown-concentration">{{ fmt(u.row.concentrationM, 4) }}</td>
                 <td class="eq-n">{{ fmt(u.row.seM, 2) }}</td>
-                <td>
-                  @for (code of u.row.flags; track code) {
-                    <span class="eq-flag"
-                      ><mat-icon inline aria-hidden="true">flag</mat-icon>{{ title(code) }}</span
+                <td data-testid="unknown-qc">
+                  @for (f of u.findings; track f.code) {
+                    <span class="eq-flag" [attr.title]="f.detail"
+                      ><mat-icon inline aria-hidden="true">flag</mat-icon>{{ f.title }}</span
                     >
                   } @empty {
                     <span class="eq-flag"><mat-icon inline aria-hidden="true">check</mat-icon>none</span>
@@ -63,14 +63,32 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
 export class UnknownsTable {
   readonly unknowns = input.required<readonly UnknownResult[]>();
   readonly controls = input<readonly UnknownResult[]>([]);
+  /** The batch's QC findings; each row shows those naming its sample or one of its positions. */
+  readonly qc = input<readonly QcFlag[]>([]);
 
   protected readonly rows = computed(() => [
-    ...this.unknowns().map((row) => ({ kind: 'unknown', row })),
-    ...this.controls().map((row) => ({ kind: 'control', row })),
+    ...this.unknowns().map((row) => ({ kind: 'unknown', row, findings: sampleFindings(row, this.qc()) })),
+    ...this.controls().map((row) => ({ kind: 'control', row, findings: sampleFindings(row, this.qc()) })),
   ]);
   protected readonly fmt = formatNumber;
   protected readonly abs = formatAbsorbance;
-  protected title(code: string): string {
-    return guidanceFor(code).title;
+}
+
+/**
+ * One sample's own QC findings: the codes on its row plus every batch finding that names its sample id
+ * or one of its positions (a replicate-group finding naming "C10 C11" counts for both), each code once.
+ */
+export function sampleFindings(
+  row: UnknownResult,
+  qc: readonly QcFlag[],
+): { code: string; title: string; detail: string }[] {
+  const messages = new Map<string, string[]>();
+  for (const code of row.flags) messages.set(code, messages.get(code) ?? []);
+  for (const f of ownFindings(qc, row.sampleId, row.positions)) {
+    messages.set(f.code, [...(messages.get(f.code) ?? []), f.message]);
   }
+  return [...messages].map(([code, list]) => {
+    const title = guidanceFor(code).title;
+    return { code, title, detail: [...new Set(list)].join(' ') || title };
+  });
 }

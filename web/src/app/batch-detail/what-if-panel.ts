@@ -73,6 +73,8 @@ export class WhatIfPanel {
   /** Calibrations of the same system at this wavelength (±1 nm), as the server offers them. */
   readonly epsilonCandidates = input<readonly EpsilonCandidate[]>([]);
   readonly fitBaseline = input(false);
+  /** False for a batch without equilibrium mixtures: candidates, ε of the complex and the baseline fit are hidden. */
+  readonly equilibrium = input(true);
 
   readonly exclude = output<Exclusion>();
   readonly restore = output<string>();
