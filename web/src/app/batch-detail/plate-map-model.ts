@@ -1,4 +1,5 @@
 import type { PositionResult, PositionStatus, QcFlag, SampleRole } from '@equilight/analysis';
+import { qcFindingPositions } from '@equilight/analysis';
 import type { PlateFormat } from '../batches/batch';
 import { type ScaleRange, colourFor, scaleRange, textColourOn } from '../shared/chart/colour-scale';
 import { formatAbsorbance } from '../shared/format/number-format';
@@ -91,9 +92,12 @@ export function buildPlateModel(
   const layout = new Map(layoutPositions.map((p) => [p.position.toUpperCase(), p]));
   const flags = new Map<string, string[]>();
   for (const f of qc) {
-    if (!f.position || f.severity === 'info') continue;
-    const key = f.position.toUpperCase();
-    flags.set(key, [...(flags.get(key) ?? []), f.message]);
+    if (f.severity === 'info') continue;
+    // A replicate group's finding names each of its positions ("C10 C11"): it marks every one of them.
+    for (const position of qcFindingPositions(f)) {
+      const key = position.toUpperCase();
+      flags.set(key, [...(flags.get(key) ?? []), f.message]);
+    }
   }
   const range = scaleRange(positions.map((p) => p.absorbanceCorrected));
 

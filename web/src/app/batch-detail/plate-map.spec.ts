@@ -137,6 +137,27 @@ describe('PlateMap', () => {
     expect(cell('B1').getAttribute('aria-label')).toBe('B1, empty');
   });
 
+  it("marks every position a replicate group's finding names", async () => {
+    const { cell } = await setup(
+      '96',
+      [position('A1'), position('A2'), position('A3')],
+      [
+        {
+          code: 'replicate-cv-high',
+          severity: 'warning',
+          message: 'Replicates disagree',
+          position: 'A1 A2',
+          sampleId: 'WQ-9',
+          value: 0.3,
+          threshold: 0.1,
+        },
+      ],
+    );
+    expect(cell('A1').getAttribute('data-marker')).toBe('flagged');
+    expect(cell('A2').getAttribute('data-marker')).toBe('flagged');
+    expect(cell('A3').getAttribute('data-marker')).not.toBe('flagged');
+  });
+
   it('keeps one tab stop and moves it with the arrow keys; focus shows the tooltip', async () => {
     const { cell, fixture, el } = await setup('96', [
       position('A1', {
