@@ -1,3 +1,4 @@
+import { InstrumentPresence } from '../watchers/watcher-credential.entity';
 import { type DataSource, In } from 'typeorm';
 import type { BatchesService } from '../batches/batches.service';
 import { Batch } from '../batches/batch.entity';
@@ -207,8 +208,8 @@ export class OverviewService {
   }
 
   /**
-   * When each instrument last showed it is alive. Today: the newest file it sent, whatever became of
-   * it. The one place to change when instruments report presence of their own.
+   * When each instrument last showed it is alive: the newer of the last file it sent (whatever became
+   * of it) and the last report of a watcher watching its drop folder.
    */
   private async lastSignsOfLife(): Promise<Map<number, string>> {
     const raw = await this.dataSource.manager
@@ -218,6 +219,11 @@ export class OverviewService {
       .where('f.profileId IS NOT NULL')
       .groupBy('f.profileId')
       .getRawMany<{ profileId: number; lastAt: string }>();
-    return new Map(raw.map((r) => [Number(r.profileId), r.lastAt]));
+    const seen = new Map(raw.map((r) => [Number(r.profileId), r.lastAt]));
+    for (const p of await this.dataSource.getRepository(InstrumentPresence).find()) {
+      const file = seen.get(p.profileId);
+      if (!file || p.lastSeenAt > file) seen.set(p.profileId, p.lastSeenAt);
+    }
+    return seen;
   }
 }

@@ -1,3 +1,4 @@
+import { InstrumentPresence } from '../../watchers/watcher-credential.entity';
 import request from 'supertest';
 import { InstrumentProfile } from '../../instruments/instrument-profile.entity';
 import { createProfile, LONG_TABLE_PROFILE, settled } from '../../ingest/__tests__/ingest-helpers';
@@ -126,6 +127,28 @@ describe('GET /api/overview', () => {
     expect(o.openBatches.total).toBe(4);
     expect(o.quarantinedToday?.count).toBe(1);
     expect(o.silentInstruments).toBeDefined();
+  });
+
+  it('when a watcher reports for an instrument that sent no file then it is not silent', async () => {
+    const admin = await t.agent('admin');
+    const heard = await createProfile(admin, {
+      ...LONG_TABLE_PROFILE,
+      name: 'Heard reader',
+      dropSubfolder: 'heard',
+    });
+    await t.dataSource.getRepository(InstrumentPresence).save({
+      profileId: heard.profile.id,
+      watcherName: 'bench PC',
+      watcherId: null,
+      version: '1.0.0',
+      hostname: null,
+      lastSeenAt: new Date().toISOString(),
+      silentNotifiedAt: null,
+    });
+    const o = await overviewAs('admin');
+    const silent = o.silentInstruments!.items.map((i) => i.id);
+    expect(silent).not.toContain(heard.profile.id);
+    expect(silent).toContain(quietProfileId);
   });
 
   it('when today starts after the quarantine then none is counted', async () => {
