@@ -58,7 +58,7 @@ if (await waitForServer()) {
   if (!fs.existsSync(watcherConfig))
     console.log('[start] no demo watcher configuration (SEED_DEMO=false?): the watcher is not started');
   else if (process.env.START_WATCHER !== 'false') {
-    run('watcher', ['watcher/dist/main.js'], {
+    run('watcher', ['watcher/dist/watcher/src/main.js'], {
       EQUILIGHT_WATCHER_CONFIG: watcherConfig,
       EQUILIGHT_SERVER_URL: serverUrl,
     });

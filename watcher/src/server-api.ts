@@ -1,27 +1,18 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { z } from 'zod';
+import {
+  type WatchedFolders,
+  fileStatusSchema,
+  watchedFoldersSchema,
+} from '../../server/src/contracts/watchers';
 
 /** The watcher's calls besides uploads: which folders to watch, a file's final state, its own report. */
 
-const foldersSchema = z.object({
-  revision: z.string(),
-  folders: z.array(
-    z.object({
-      profileId: z.number(),
-      name: z.string(),
-      folder: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9_-]{0,79}$/),
-    }),
-  ),
-});
-export type ServerFolders = z.infer<typeof foldersSchema>;
-
-const statusSchema = z.object({
-  id: z.number(),
-  status: z.string(),
-  error: z.string().nullish(),
-  duplicateOfId: z.number().nullish(),
-});
+// The answers' shapes are the server's own contracts (server/src/contracts), one definition for both.
+const foldersSchema = watchedFoldersSchema;
+export type ServerFolders = WatchedFolders;
+const statusSchema = fileStatusSchema;
 
 /** Final states of a received file: the watcher moves the original once the file reaches one. */
 export const FINAL_STATES = new Set(['stored', 'duplicate', 'quarantined', 'unassigned']);
@@ -107,16 +98,18 @@ export function sendHeartbeat(
 
 /** The watcher's version: the Equilight release it was built from (the repository's package.json). */
 export function watcherVersion(): string {
-  for (const candidate of [
-    path.resolve(__dirname, '../../package.json'),
-    path.resolve(__dirname, '../package.json'),
-  ]) {
+  // From watcher/src (tests) or watcher/dist/watcher/src (built): the first package.json of the product upwards.
+  for (let dir = __dirname; ; dir = path.dirname(dir)) {
     try {
-      const version = (JSON.parse(fs.readFileSync(candidate, 'utf8')) as { version?: unknown }).version;
-      if (typeof version === 'string' && version) return version.slice(0, 40);
+      const pkg = JSON.parse(fs.readFileSync(path.join(dir, 'package.json'), 'utf8')) as {
+        name?: unknown;
+        version?: unknown;
+      };
+      if (pkg.name === 'equilight' && typeof pkg.version === 'string' && pkg.version)
+        return pkg.version.slice(0, 40);
     } catch {
-      // try the next place
+      // none here: go up
     }
+    if (path.dirname(dir) === dir) return 'unknown';
   }
-  return 'unknown';
 }

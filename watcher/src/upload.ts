@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { z } from 'zod';
+import { ingestReceiptSchema } from '../../server/src/contracts/intake';
 import { retryAfterMs } from './backoff';
 
 /** What the server's answer means for the file. */
@@ -34,11 +35,8 @@ export interface UploadRequest {
   signal: AbortSignal;
 }
 
-const ackSchema = z.object({
-  id: z.number(),
-  status: z.string(),
-  duplicateOfId: z.number().nullish(),
-});
+/** The 202 receipt, as the server's contracts define it. */
+const ackSchema = ingestReceiptSchema;
 const errorSchema = z.object({ error: z.object({ code: z.string(), message: z.string() }) });
 
 const PERMANENT = new Set([400, 413, 415, 422]);

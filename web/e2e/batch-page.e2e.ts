@@ -349,6 +349,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
         engineVersion: '0.2.0+5e1ec7ed0000',
         sameEngine: false,
         differs: true,
+        inputsMatch: true,
         current: {
           ...body.record.summary,
           k: 912.3,

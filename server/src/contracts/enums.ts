@@ -163,3 +163,9 @@ export const WEBHOOK_EVENT_LABELS: Record<WebhookEvent, string> = {
 export const DELIVERY_STATUSES = ['pending', 'delivered', 'failed'] as const;
 export const deliveryStatusSchema = z.enum(DELIVERY_STATUSES);
 export type DeliveryStatus = z.infer<typeof deliveryStatusSchema>;
+
+/** A drop sub-folder's name: letters, digits, - or _ (no slashes or dots), so it is never a path. */
+export const dropFolderNameSchema = z
+  .string()
+  .trim()
+  .regex(/^[A-Za-z0-9][A-Za-z0-9_-]{0,79}$/, 'must be letters, digits, - or _ (no slashes or dots)');

@@ -6,6 +6,7 @@ import {
   instrumentKindSchema,
   PLATE_FORMATS,
   plateFormatSchema,
+  dropFolderNameSchema,
 } from './enums';
 import { rulesSchema } from './settings';
 
@@ -36,10 +37,7 @@ const profileFields = {
   fillVolumeUl: z.number().positive().max(5000).nullable().default(null),
   wellDiameterMm: z.number().positive().max(100).nullable().default(null),
   defaultWavelengthNm: z.number().min(100).max(3300).nullable().default(null),
-  dropSubfolder: z
-    .string()
-    .trim()
-    .regex(/^[A-Za-z0-9][A-Za-z0-9_-]{0,79}$/, 'must be letters, digits, - or _ (no slashes or dots)'),
+  dropSubfolder: dropFolderNameSchema,
   fileNamePattern: regexText.nullable().default(null),
   active: z.boolean().default(true),
 };

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { fileFormatSchema, instrumentKindSchema, intakeStatusSchema } from './enums';
+import { dropFolderNameSchema, fileFormatSchema, instrumentKindSchema, intakeStatusSchema } from './enums';
 
 export const createWatcherSchema = z.strictObject({
   name: z.string().trim().min(1, 'is required').max(80),
@@ -9,7 +9,7 @@ export const createWatcherSchema = z.strictObject({
 export const heartbeatSchema = z.strictObject({
   version: z.string().trim().min(1).max(40),
   hostname: z.string().trim().max(120).optional(),
-  folders: z.array(z.string().regex(/^[A-Za-z0-9][A-Za-z0-9_-]{0,79}$/)).max(500),
+  folders: z.array(dropFolderNameSchema).max(500),
 });
 
 /** A watcher credential as admins see it (never the token). */
@@ -49,7 +49,7 @@ export const watchedFoldersSchema = z.object({
     z.object({
       profileId: z.number(),
       name: z.string(),
-      folder: z.string(),
+      folder: dropFolderNameSchema,
       kind: instrumentKindSchema,
       fileFormat: fileFormatSchema,
       fileNamePattern: z.string().nullable(),

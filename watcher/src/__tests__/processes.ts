@@ -8,7 +8,7 @@ export const REPO_ROOT = path.resolve(__dirname, '../../..');
 /** The built server; another build can be named in EQUILIGHT_E2E_SERVER_MAIN (e.g. one made from a clean checkout). */
 export const SERVER_MAIN =
   process.env['EQUILIGHT_E2E_SERVER_MAIN'] ?? path.join(REPO_ROOT, 'server/dist/main.js');
-export const WATCHER_MAIN = path.join(REPO_ROOT, 'watcher/dist/main.js');
+export const WATCHER_MAIN = path.join(REPO_ROOT, 'watcher/dist/watcher/src/main.js');
 export const E2E_PASSWORD = 'equilight-watcher-e2e';
 
 export function requireBuilt(): void {
