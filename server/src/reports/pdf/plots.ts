@@ -143,6 +143,32 @@ export function drawLayoutMap(
 }
 
 /** Calibration points with the fitted line, and their residuals beneath on the same axis. */
+/** A plot's frame, its horizontal grid lines and the y tick labels left of it. */
+function drawFrameAndYGrid(
+  w: ReportWriter,
+  box: { x0: number; top: number; plotW: number; plotH: number; padLeft: number },
+  yLo: number,
+  yHi: number,
+  py: (y: number) => number,
+): void {
+  const { x0, top, plotW, plotH, padLeft } = box;
+  w.doc.rect(x0, top, plotW, plotH).lineWidth(0.5).strokeColor('#90a4ae').stroke();
+  for (const t of niceTicks(yLo, yHi)) {
+    w.doc
+      .moveTo(x0, py(t))
+      .lineTo(x0 + plotW, py(t))
+      .lineWidth(0.2)
+      .strokeColor('#e0e0e0')
+      .stroke();
+    w.text(formatNumber(t, 3), w.left, py(t) - 4, {
+      width: padLeft - 4,
+      align: 'right',
+      size: 6.5,
+      color: MUTED,
+    });
+  }
+}
+
 export function drawCalibrationPlot(w: ReportWriter, cal: CalibrationResult): void {
   const doc = w.doc;
   const plotH = 170;
@@ -162,21 +188,7 @@ export function drawCalibrationPlot(w: ReportWriter, cal: CalibrationResult): vo
   const py = (aValue: number): number => top + plotH - ((aValue - yLo) / (yHi - yLo)) * plotH;
 
   // Frame, grid and ticks.
-  doc.rect(x0, top, plotW, plotH).lineWidth(0.5).strokeColor('#90a4ae').stroke();
-  for (const t of niceTicks(yLo, yHi)) {
-    doc
-      .moveTo(x0, py(t))
-      .lineTo(x0 + plotW, py(t))
-      .lineWidth(0.2)
-      .strokeColor('#e0e0e0')
-      .stroke();
-    w.text(formatNumber(t, 3), w.left, py(t) - 4, {
-      width: padLeft - 4,
-      align: 'right',
-      size: 6.5,
-      color: MUTED,
-    });
-  }
+  drawFrameAndYGrid(w, { x0, top, plotW, plotH, padLeft }, yLo, yHi, py);
   const xTicks = niceTicks(0, xMax * factor);
   // Fitted line over the concentration range.
   doc
@@ -282,21 +294,7 @@ export function drawJobPlot(w: ReportWriter, job: JobBatchResult, mixtures: read
   const px = (x: number): number => x0 + x * plotW;
   const py = (y: number): number => top + plotH - ((y - yLo) / (yHi - yLo)) * plotH;
 
-  doc.rect(x0, top, plotW, plotH).lineWidth(0.5).strokeColor('#90a4ae').stroke();
-  for (const t of niceTicks(yLo, yHi)) {
-    doc
-      .moveTo(x0, py(t))
-      .lineTo(x0 + plotW, py(t))
-      .lineWidth(0.2)
-      .strokeColor('#e0e0e0')
-      .stroke();
-    w.text(formatNumber(t, 3), w.left, py(t) - 4, {
-      width: padLeft - 4,
-      align: 'right',
-      size: 6.5,
-      color: MUTED,
-    });
-  }
+  drawFrameAndYGrid(w, { x0, top, plotW, plotH, padLeft }, yLo, yHi, py);
   // The branches, clipped to the frame: the rising one up to the maximum, the falling one from it.
   doc.save();
   doc.rect(x0, top, plotW, plotH).clip();
