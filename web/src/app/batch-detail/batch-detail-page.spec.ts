@@ -431,4 +431,32 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     expect(el.querySelector('[data-testid="what-if-candidates"]')).not.toBeNull();
     expect(el.querySelector('[data-testid="what-if-baseline"]')).not.toBeNull();
   });
+  it('keeps the tab the person opened when a live update adds the Equilibrium tab before it', async () => {
+    // A batch read as spectra with no mixtures yet: tabs Spectra, Calibration, … (opens on Calibration).
+    const scan = (a: BatchAnalysis): BatchAnalysis => {
+      const first = a.readings[0]!;
+      const extra = Array.from({ length: 12 }, (_, i) => ({ ...first, wavelengthNm: 400 + 10 * i }));
+      return { ...a, readings: [...a.readings, ...extra] };
+    };
+    const { fixture, el } = await setup('scientist', scan(calibrationOnlyAnalysis()));
+    await renderDeferred(fixture);
+    const tabs = () => [...el.querySelectorAll<HTMLElement>('[role="tab"]')];
+    const selected = () => text(tabs().find((t) => t.getAttribute('aria-selected') === 'true') ?? null);
+    expect(tabs().map((t) => text(t))[0]).toBe('Spectra');
+    expect(selected()).toBe('Calibration');
+    tabs()
+      .find((t) => text(t) === 'Files')!
+      .click();
+    await settle(fixture);
+    expect(selected()).toBe('Files');
+
+    // A stored file brings the first mixtures: the Equilibrium tab appears first, Files stays open.
+    events.next({ type: 'file.stored', data: { id: 100, batchId: 7 }, at: '2031-05-02T08:11:00Z' });
+    await wait(LIVE_REFRESH_DEBOUNCE_MS + 50);
+    http.expectOne(ANALYSIS_URL).flush(scan(fixtureAnalysis()));
+    await settle(fixture);
+    await renderDeferred(fixture);
+    expect(tabs().map((t) => text(t))[0]).toBe('Equilibrium');
+    expect(selected()).toBe('Files');
+  });
 });

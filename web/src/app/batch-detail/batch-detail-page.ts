@@ -62,6 +62,9 @@ export const LIVE_REFRESH_DEBOUNCE_MS = 300;
 /** What-if edits are analysed once they stop changing for this long (an analysis takes ~15 ms). */
 export const WHAT_IF_DEBOUNCE_MS = 40;
 
+/** The batch page's sections, as the tab group's ids. */
+type SectionTab = 'equilibrium' | 'spectra' | 'calibration' | 'unknowns' | 'qc' | 'files';
+
 /** Does a live event concern this batch? */
 export function concernsBatch(event: LiveEvent, batchId: number): boolean {
   if (event.type === 'batch.updated') return event.data.id === batchId;
@@ -198,7 +201,24 @@ export class BatchDetailPage {
   /** A batch with equilibrium mixtures; a plain calibration batch hides the equilibrium tab and controls. */
   protected readonly equilibrium = computed(() => (this.result()?.mixtures.length ?? 0) > 0);
   /** The tab the page opens on: Equilibrium, or Calibration for a batch without mixtures. */
-  protected readonly firstTab = computed(() => (this.equilibrium() ? 0 : this.spectra() ? 1 : 0));
+  protected readonly tabs = computed<readonly SectionTab[]>(() => [
+    ...(this.equilibrium() ? (['equilibrium'] as const) : []),
+    ...(this.spectra() ? (['spectra'] as const) : []),
+    'calibration',
+    'unknowns',
+    'qc',
+    'files',
+  ]);
+  /**
+   * The tab the person opened; it stays open while live updates add or remove tabs before it (a
+   * stored file that brings the first mixtures must not switch the page away from Spectra).
+   */
+  private readonly chosenTab = signal<SectionTab | null>(null);
+  protected readonly tabIndex = computed(() => {
+    const tabs = this.tabs();
+    const at = tabs.indexOf(this.chosenTab() ?? (this.equilibrium() ? 'equilibrium' : 'calibration'));
+    return Math.max(0, at);
+  });
   protected readonly best = computed(() => {
     const s = this.result()?.stoichiometry;
     return s?.candidates.find((c) => c.model === s.best) ?? null;
@@ -300,6 +320,11 @@ export class BatchDetailPage {
 
   protected ci(pair: [number | null, number | null] | null | undefined): string {
     return pair ? `${formatNumber(pair[0])} – ${formatNumber(pair[1])}` : '—';
+  }
+
+  protected chooseTab(id: string | null): void {
+    const tab = this.tabs().find((t) => t === id);
+    if (tab) this.chosenTab.set(tab);
   }
 
   protected select(position: string): void {
