@@ -52,6 +52,9 @@ interface Summary {
   /** Long by CPU time (absent in figures recorded before it was measured). */
   longCpuTasks?: number;
   maxLongCpuTaskMs?: number;
+  /** The browser's own long tasks (navigation commit), not the page's code. */
+  browserTasks?: number;
+  maxBrowserTaskMs?: number;
 }
 
 function summarise(runs: readonly LoadRun[]): Summary {
@@ -64,6 +67,8 @@ function summarise(runs: readonly LoadRun[]): Summary {
     maxLongTaskMs: longs.length ? Math.max(...longs) : 0,
     longCpuTasks: cpu.length,
     maxLongCpuTaskMs: cpu.length ? Math.max(...cpu) : 0,
+    browserTasks: runs.flatMap((r) => r.browserTasksCpuMs).length,
+    maxBrowserTaskMs: Math.max(0, ...runs.flatMap((r) => r.browserTasksCpuMs)),
   };
 }
 
@@ -97,6 +102,9 @@ function printLoad(figures: LoadFigures, sameRun: LoadFigures | null): void {
     );
     console.log(
       `          long tasks > ${AIM.longTaskMs} ms over ${RUNS} runs: ${now.longTasks} by wall time, longest ${now.maxLongTaskMs.toFixed(0)} ms (aim none: ${ok(now.longTasks === 0)}); ${now.longCpuTasks} by CPU time, longest ${now.maxLongCpuTaskMs?.toFixed(0)} ms (aim none: ${ok(now.longCpuTasks === 0)})`,
+    );
+    console.log(
+      `          the browser's own tasks over ${AIM.longTaskMs} ms of CPU (navigation commit, no page work inside): ${now.browserTasks}, longest ${now.maxBrowserTaskMs?.toFixed(0)} ms`,
     );
     const b = before?.[kind];
     if (b)

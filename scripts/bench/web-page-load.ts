@@ -21,6 +21,8 @@ export interface LoadRun {
    * core; its CPU time does not.
    */
   longTasksCpuMs: number[];
+  /** Renderer main-thread tasks over 50 ms of CPU that ran none of the page's work (navigation commit). */
+  browserTasksCpuMs: number[];
 }
 
 interface TraceEvent {
@@ -28,23 +30,77 @@ interface TraceEvent {
   ph: string;
   pid: number;
   tid: number;
+  ts: number;
   dur?: number;
   tdur?: number;
-  args?: { name?: string };
+  args?: { name?: string; data?: { url?: string; functionName?: string } };
 }
 
-/** Main-thread tasks of renderer processes whose CPU time exceeds 50 ms, ms each. */
-function longCpuTasks(trace: Buffer): number[] {
+/**
+ * Trace events that show a task ran the page's own work: its scripts, timers, frames, events, HTML and
+ * style parsing, style, layout and paint. A renderer task with none of them is the browser's (committing a
+ * navigation, starting a renderer process).
+ */
+const PAGE_WORK = new Set([
+  'EvaluateScript',
+  'v8.evaluateModule',
+  'FunctionCall',
+  'v8.callFunction',
+  'TimerFire',
+  'FireAnimationFrame',
+  'EventDispatch',
+  'ParseHTML',
+  'ParseAuthorStyleSheet',
+  'UpdateLayoutTree',
+  'Layout',
+  'Paint',
+  'RunMicrotasks',
+]);
+
+/** Trace categories that record the page's work inside each task. */
+export const TRACE_CATEGORIES = [
+  'toplevel',
+  'devtools.timeline',
+  'disabled-by-default-devtools.timeline',
+  'v8',
+];
+
+/**
+ * Main-thread tasks of renderer processes whose CPU time exceeds 50 ms, ms each: those running the page's
+ * work, and the browser's own (no page work inside). BENCH_TASKS=1 prints what each long page task ran.
+ */
+export function longCpuTasks(trace: Buffer): { page: number[]; browser: number[] } {
   const events = (JSON.parse(trace.toString('utf8')) as { traceEvents: TraceEvent[] }).traceEvents;
   const mainThreads = new Set(
     events
       .filter((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain')
       .map((e) => `${e.pid}:${e.tid}`),
   );
-  return events
-    .filter((e) => e.ph === 'X' && e.name === 'RunTask' && mainThreads.has(`${e.pid}:${e.tid}`))
-    .map((e) => (e.tdur ?? 0) / 1000)
-    .filter((ms) => ms > 50);
+  const onMain = events.filter((e) => e.ph === 'X' && mainThreads.has(`${e.pid}:${e.tid}`));
+  const work = onMain.filter((e) => PAGE_WORK.has(e.name));
+  const page: number[] = [];
+  const browser: number[] = [];
+  for (const task of onMain) {
+    const cpuMs = (task.tdur ?? 0) / 1000;
+    if (task.name !== 'RunTask' || cpuMs <= 50) continue;
+    const end = task.ts + (task.dur ?? 0);
+    const ownWork = work.some(
+      (e) => e.pid === task.pid && e.tid === task.tid && e.ts >= task.ts && e.ts <= end,
+    );
+    (ownWork ? page : browser).push(cpuMs);
+    if (ownWork && process.env['BENCH_TASKS']) {
+      const inside = work
+        .filter((e) => e.pid === task.pid && e.tid === task.tid && e.ts >= task.ts && e.ts <= end)
+        .sort((a, b) => (b.tdur ?? 0) - (a.tdur ?? 0))
+        .slice(0, 6)
+        .map((e) => {
+          const where = e.args?.data?.functionName || e.args?.data?.url?.split('/').pop() || '';
+          return `${e.name}${where ? ` ${where}` : ''} ${((e.tdur ?? 0) / 1000).toFixed(0)}`;
+        });
+      console.log(`      task ${cpuMs.toFixed(0)} ms CPU: ${inside.join(' | ')}`);
+    }
+  }
+  return { page, browser };
 }
 
 export interface LoadFigures {
@@ -141,7 +197,7 @@ async function measure(browser: Browser, page: Page, url: string): Promise<LoadR
     received.set(e.requestId, (received.get(e.requestId) ?? 0) + e.encodedDataLength),
   );
   cdp.on('Network.loadingFinished', (e) => received.set(e.requestId, e.encodedDataLength));
-  await browser.startTracing(page, { categories: ['toplevel', 'disabled-by-default-devtools.timeline'] });
+  await browser.startTracing(page, { categories: TRACE_CATEGORIES });
   await page.goto(url);
   await page.waitForFunction(
     () => ((window as unknown as { __eqK: number | null }).__eqK ?? -1) > 0,
@@ -158,11 +214,13 @@ async function measure(browser: Browser, page: Page, url: string): Promise<LoadR
     return { k: w.__eqK, long: [...w.__eqLong] };
   });
   await cdp.detach();
+  const cpu = longCpuTasks(trace);
   return {
     kVisibleMs: k,
     bytes: [...received.values()].reduce((a, b) => a + b, 0),
     longTasksMs: long,
-    longTasksCpuMs: longCpuTasks(trace),
+    longTasksCpuMs: cpu.page,
+    browserTasksCpuMs: cpu.browser,
   };
 }
 

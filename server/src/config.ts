@@ -1,6 +1,6 @@
 import net from 'node:net';
 import path from 'node:path';
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * All configuration, read from the environment once and validated at start.

@@ -1,6 +1,6 @@
 import type { RequestHandler } from 'express';
 import type { ParamsDictionary } from 'express-serve-static-core';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { AppError } from './app-error';
 
 /** Describe zod issues in one sentence a person can act on. */

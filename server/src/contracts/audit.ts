@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { pageOf } from './common';
 import { AUDIT_ENTITIES, auditEntitySchema } from './enums';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** A page of a list and how many there are in all. */
 export function pageOf<T extends z.ZodType>(item: T) {

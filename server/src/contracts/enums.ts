@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * The closed word lists the API speaks, each with the words people see. Server (validation, entities),

@@ -22,4 +22,6 @@ export * from './webhooks';
 export * from './overview';
 export * from './watchers';
 export * from './events';
-export * from './routes';
+export * from './route-access';
+// The route table (every schema of every route, for the OpenAPI document) is imported by path where it is
+// needed: re-exported here, it would put all of the API's schemas into the browser's first script.

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import type { SampleRole } from '../analysis/types';
 import { PLATE_FORMATS, plateFormatSchema } from './enums';
 import { SAMPLE_ROLES } from '../analysis/types';

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { sampleDefinitionSchema } from './analysis-types';
 import { MANIFEST_SOURCES } from './enums';
 

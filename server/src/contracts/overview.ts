@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { batchStateSchema, roleSchema } from './enums';
 
 /** GET /api/overview: the start of "today" as the browser sees it. */

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { type Access, ROUTE_ACCESS } from './route-access';
 import { auditPageSchema, auditQuerySchema } from './audit';
 import { loginSchema, setPasswordSchema } from './auth';
@@ -57,9 +57,6 @@ import {
   watchedFoldersSchema,
   watcherCredentialSchema,
 } from './watchers';
-
-export type { Access } from './route-access';
-export { rolesOf } from './route-access';
 
 export interface ApiOperation {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';

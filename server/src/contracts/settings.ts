@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { ANALYSIS_DEFAULTS } from '../analysis/options';
 import {
   CALIBRATION_MODELS,

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { vantHoffResultSchema } from './analysis-types';
 import { batchStateSchema } from './enums';
 

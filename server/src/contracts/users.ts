@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { normaliseEmail } from './email-address';
 import { ROLES, roleSchema } from './enums';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { dropFolderNameSchema, fileFormatSchema, instrumentKindSchema, intakeStatusSchema } from './enums';
 
 export const createWatcherSchema = z.strictObject({

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { pageOf } from './common';
 import { DELIVERY_STATUSES, WEBHOOK_EVENTS, deliveryStatusSchema, webhookEventSchema } from './enums';
 

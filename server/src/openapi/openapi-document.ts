@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { API_OPERATIONS, type ApiOperation } from '../contracts/routes';
 
 type JsonObject = Record<string, unknown>;

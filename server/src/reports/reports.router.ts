@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
 import { describeIssues, idParam } from '../common/validate';

@@ -8,7 +8,7 @@ import {
   watcherCredentialSchema,
 } from '@equilight/contracts';
 import type { Observable } from 'rxjs';
-import { z } from 'zod';
+import * as z from 'zod';
 import { parsed } from '../core/http/api-response';
 
 /** The last report of a watcher watching a profile's drop folder. */
