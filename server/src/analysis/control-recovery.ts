@@ -1,4 +1,7 @@
+import type { ControlResult } from './batch-types';
+import { formatConcentration, reportingUnitOf } from './concentration-units';
 import { roundSignificant } from './number-format';
+import type { ResolvedAnalysisSettings } from './options';
 
 /** How a control or check standard compares with its nominal value. */
 export interface ControlRecovery {
@@ -37,4 +40,31 @@ export function controlRecovery(
   // Compared at 12 significant digits, so 1.1/1 × 100 (110.00000000000001 in binary) sits on the limit.
   const r = roundSignificant(recoveryPct, 12);
   return { nominalM, recoveryPct, withinLimits: r >= limitsPct[0] && r <= limitsPct[1] };
+}
+
+/**
+ * One control in a sentence, in the batch's reporting unit: "CHECK-2.5: 2.46 mg/L against 2.50 mg/L
+ * nominal, recovery 98.4 % (limits 90–110 %)", ending "— out of limits" when it fails. Mails state
+ * controls through it.
+ *
+ * @example
+ * describeControl(result.controls[0], result.settings);
+ */
+export function describeControl(
+  c: Pick<ControlResult, 'sampleId' | 'concentrationM' | 'flags'> &
+    Partial<Pick<ControlResult, 'nominalM' | 'recoveryPct'>>,
+  settings: Partial<
+    Pick<ResolvedAnalysisSettings, 'concentrationUnit' | 'molarMassGPerMol' | 'recoveryLimitsPct'>
+  >,
+): string {
+  const unit = reportingUnitOf(settings);
+  const measured = formatConcentration(c.concentrationM, unit);
+  if (c.nominalM == null) return `${c.sampleId}: ${measured} (no nominal value)`;
+  const limits = settings.recoveryLimitsPct;
+  return (
+    `${c.sampleId}: ${measured} against ${formatConcentration(c.nominalM, unit)} nominal, ` +
+    (c.recoveryPct == null ? 'no recovery' : `recovery ${c.recoveryPct.toFixed(1)} %`) +
+    (limits ? ` (limits ${limits[0]}–${limits[1]} %)` : '') +
+    (c.flags.includes('recovery-out-of-limits') ? ' — out of limits' : '')
+  );
 }

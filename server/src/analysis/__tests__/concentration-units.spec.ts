@@ -8,7 +8,7 @@ import {
   reportingUnitProblem,
   toMolar,
 } from '../concentration-units';
-import { controlRecovery } from '../control-recovery';
+import { controlRecovery, describeControl } from '../control-recovery';
 import { resolveAnalysisSettings } from '../options';
 import { makeBatch } from './batch-fixtures';
 
@@ -138,5 +138,43 @@ describe('control recovery', () => {
     );
     expect(result.controls[0].flags).not.toContain('recovery-out-of-limits');
     expect(result.qc.some((f) => f.code === 'recovery-out-of-limits')).toBe(false);
+  });
+});
+
+describe('describeControl', () => {
+  it('when a check standard is stated in a mail, then it reads in the batch unit with its recovery', () => {
+    const settings = {
+      concentrationUnit: 'mg/L' as const,
+      molarMassGPerMol: FE_G_PER_MOL,
+      recoveryLimitsPct: [90, 110] as [number, number],
+    };
+    const nominalM = toMolar(2.5, 'mg/L', FE_G_PER_MOL);
+    expect(
+      describeControl(
+        {
+          sampleId: 'CHECK-2.5',
+          concentrationM: toMolar(2.46, 'mg/L', FE_G_PER_MOL),
+          flags: [],
+          nominalM,
+          recoveryPct: 98.4,
+        },
+        settings,
+      ),
+    ).toBe('CHECK-2.5: 2.46 mg/L against 2.50 mg/L nominal, recovery 98.4 % (limits 90–110 %)');
+    expect(
+      describeControl(
+        {
+          sampleId: 'CHECK-2.5',
+          concentrationM: toMolar(2.1, 'mg/L', FE_G_PER_MOL),
+          flags: ['recovery-out-of-limits'],
+          nominalM,
+          recoveryPct: 84,
+        },
+        settings,
+      ),
+    ).toMatch(/recovery 84\.0 % \(limits 90–110 %\) — out of limits$/);
+    expect(describeControl({ sampleId: 'QC1', concentrationM: 1e-4, flags: [] }, {})).toBe(
+      'QC1: 1.00 × 10⁻⁴ mol/L (no nominal value)',
+    );
   });
 });
