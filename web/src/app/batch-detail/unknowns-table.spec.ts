@@ -59,22 +59,23 @@ describe('UnknownsTable: units and control recovery (real analysis of an invente
     expect(text(el.querySelector('[data-sample="WQ-41"] [data-testid="unknown-concentration"]'))).toBe(
       formatNumber(u.concentrationM! * CO_G_PER_MOL * 1000, 4),
     );
-    expect(text(el.querySelector('[data-sample="QC-GOOD"]'))).toContain('10.00');
   });
 
   it('when a control recovers outside the limits, then its Recovery cell says so in words and the QC cell names it', async () => {
     const result = withControls({ concentrationUnit: 'mg/L', molarMassGPerMol: CO_G_PER_MOL });
     const el = await render(result);
-    expect(text(el.querySelector('[data-testid="recovery-header"]'))).toBe('Recovery (%) limits 90–110');
+    expect(text(el.querySelector('[data-testid="recovery-header"]'))).toBe(
+      'Recovery (%) of nominal; limits 90–110',
+    );
     const good = result.controls.find((c) => c.sampleId === 'QC-GOOD')!;
     const low = result.controls.find((c) => c.sampleId === 'QC-LOW')!;
     expect(good.recoveryPct).toBeGreaterThan(95);
     expect(low.recoveryPct).toBeLessThan(85);
     expect(text(el.querySelector('[data-sample="QC-GOOD"] [data-testid="control-recovery"]'))).toBe(
-      good.recoveryPct!.toFixed(1),
+      `${good.recoveryPct!.toFixed(1)} , of 10.00 mg/L`,
     );
     const lowCell = el.querySelector('[data-sample="QC-LOW"] [data-testid="control-recovery"]')!;
-    expect(text(lowCell)).toBe(`warning${low.recoveryPct!.toFixed(1)} out of limits`);
+    expect(text(lowCell)).toBe(`warning${low.recoveryPct!.toFixed(1)} out of limits, of 10.00 mg/L`);
     expect(text(el.querySelector('[data-sample="QC-LOW"] [data-testid="unknown-qc"]'))).toContain(
       'Control recovery out of limits',
     );

@@ -43,9 +43,9 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
               <th scope="col" class="eq-n" data-testid="unknowns-c-header">c ({{ unit().unit }})</th>
               <th scope="col" class="eq-n">SE ({{ unit().unit }})</th>
               @if (recovery(); as limits) {
-                <th scope="col" class="eq-n">Nominal ({{ unit().unit }})</th>
                 <th scope="col" class="eq-n" data-testid="recovery-header">
-                  Recovery (%) <span class="eq-muted eq-th-note">limits {{ limits[0] }}–{{ limits[1] }}</span>
+                  Recovery (%)
+                  <span class="eq-muted eq-th-note">of nominal; limits {{ limits[0] }}–{{ limits[1] }}</span>
                 </th>
               }
               <th scope="col">QC</th>
@@ -65,7 +65,6 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
                 </td>
                 <td class="eq-n">{{ fmt(inUnit(u.row.seM), 2) }}</td>
                 @if (recovery()) {
-                  <td class="eq-n">{{ fmt(inUnit(u.nominalM), 4) }}</td>
                   <td class="eq-n" data-testid="control-recovery">
                     @if (u.recoveryPct === null) {
                       {{ fmt(null) }}
@@ -76,6 +75,12 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
                       >
                     } @else {
                       {{ u.recoveryPct.toFixed(1) }}
+                    }
+                    @if (u.nominalM !== null) {
+                      <span class="eq-visually-hidden">, </span>
+                      <span class="eq-muted eq-th-note" data-testid="control-nominal"
+                        >of {{ fmt(inUnit(u.nominalM), 4) }} {{ unit().unit }}</span
+                      >
                     }
                   </td>
                 }
