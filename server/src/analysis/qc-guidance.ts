@@ -139,7 +139,7 @@ export const QC_GUIDANCE: Record<QcCode, QcGuidance> = {
       'Check the stock concentrations and volumes of the series, and whether the break is sharp enough to read.',
   },
   'recovery-out-of-limits': {
-    title: 'Control recovery out of limits',
+    title: 'Recovery out of limits',
     meaning:
       'A control or check standard read back further from its nominal concentration than the acceptance limits set on this batch allow, so the other concentrations of the batch may be biased as well.',
     action:

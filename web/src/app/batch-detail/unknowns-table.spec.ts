@@ -77,7 +77,7 @@ describe('UnknownsTable: units and control recovery (real analysis of an invente
     const lowCell = el.querySelector('[data-sample="QC-LOW"] [data-testid="control-recovery"]')!;
     expect(text(lowCell)).toBe(`warning${low.recoveryPct!.toFixed(1)} out of limits, of 10.00 mg/L`);
     expect(text(el.querySelector('[data-sample="QC-LOW"] [data-testid="unknown-qc"]'))).toContain(
-      'Control recovery out of limits',
+      'Recovery out of limits',
     );
   });
 
