@@ -171,7 +171,7 @@ export function unknownsSection(a: BatchAnalysisDto): ReportSection {
       {
         title: 'Unknowns and controls',
         columns: [
-          col('sample_id', 'Sample', 90),
+          col('sample_id', 'Sample', recovery ? 72 : 90),
           col('kind', 'Kind', 48),
           col('positions', 'Positions', 60, { in: SHEETS }),
           col('n', 'n', 22, right),
@@ -181,11 +181,11 @@ export function unknownsSection(a: BatchAnalysisDto): ReportSection {
           col(`se_${key}`, 'SE', 60, { unit: unit.unit, ...right }),
           ...(recovery
             ? [
-                col(`nominal_${key}`, 'Nominal', 60, { unit: unit.unit, ...right }),
-                col('recovery_pct', 'Recovery', 52, { unit: '%', ...right }),
+                col(`nominal_${key}`, 'Nominal', 84, { unit: unit.unit, ...right }),
+                col('recovery_pct', 'Recovery', 68, { unit: '%', ...right }),
               ]
             : []),
-          col('flags', 'QC', 105),
+          col('flags', 'QC', recovery ? 84 : 105),
         ],
         rows: rows.map(({ u, kind }) => [
           text(u.sampleId),
