@@ -75,7 +75,13 @@ const write = (path: string, text: string): void => {
   }
   for (const r of ['A', 'B'])
     for (const c of [10, 11, 12])
-      add(`${r}${c}`, 'CHECK-2.5', 'control', { group: 'CHECK' }, 2.5 / IRON_MG_PER_MOL);
+      add(
+        `${r}${c}`,
+        'CHECK-2.5',
+        'control',
+        { c: num(2.5 / IRON_MG_PER_MOL), group: 'CHECK' },
+        2.5 / IRON_MG_PER_MOL,
+      );
   let sample = 1;
   for (const r of ['C', 'D', 'E', 'F', 'G', 'H']) {
     for (const start of [1, 4, 7, 10]) {

@@ -5,7 +5,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { Transform } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
-import { z } from 'zod';
+import * as z from 'zod';
 import { fsyncDir, hashFile, writeFileAtomic } from './file-moves';
 
 const outcomeSchema = z.discriminatedUnion('kind', [

@@ -1,6 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { z } from 'zod';
+import * as z from 'zod';
 import { ingestReceiptSchema } from '../../server/src/contracts/intake';
 import { retryAfterMs } from './backoff';
 

@@ -1,6 +1,7 @@
 import { CalibrationStep } from './batch-step-calibration';
 import { UsableMixture } from './batch-step-mixtures';
 import {
+  ControlResult,
   JobBatchResult,
   MoleRatioBatchResult,
   PositionResult,
@@ -22,6 +23,7 @@ export interface QcInput {
   replicates: readonly ReplicateGroupResult[];
   calibration: CalibrationStep;
   unknowns: readonly UnknownResult[];
+  controls: readonly ControlResult[];
   usableMixtures: readonly UsableMixture[];
   stoichiometry: StoichiometryResult | null;
   job: JobBatchResult | null;
@@ -214,6 +216,30 @@ export function unknownFlags(unknowns: readonly UnknownResult[], step: Calibrati
 }
 
 /**
+ * Controls whose recovery lies outside the batch's limits (recovery %, limits common practice by
+ * default): an error, since every concentration of the batch may be biased as much.
+ */
+export function recoveryFlags(controls: readonly ControlResult[], s: ResolvedAnalysisSettings): QcFlag[] {
+  const [low, high] = s.recoveryLimitsPct;
+  return controls.flatMap((c) =>
+    c.flags.includes('recovery-out-of-limits') && c.recoveryPct !== null
+      ? [
+          qcFlag(
+            'recovery-out-of-limits',
+            'error',
+            `${c.sampleId}: recovery ${c.recoveryPct.toFixed(1)} % is outside the acceptance limits ${low}–${high} %`,
+            {
+              sampleId: c.sampleId,
+              value: c.recoveryPct,
+              threshold: c.recoveryPct < low ? low : high,
+            },
+          ),
+        ]
+      : [],
+  );
+}
+
+/**
  * The stoichiometry's QC: per candidate, mixtures it is impossible for and a fit that did not converge
  * (an error for the top candidate); for the top candidate, K that is only a lower bound or poorly
  * determined, and held-ε and free-ε fits whose intervals do not overlap; K constant under no candidate
@@ -309,12 +335,12 @@ export function crossCheckFlags(
 
 /**
  * The batch's QC findings, gathered in one place from the outputs of the earlier steps, in a fixed
- * order: readings, absorbances, replicates, calibration, unknowns, stoichiometry, cross-checks. Each
+ * order: readings, absorbances, replicates, calibration, unknowns, controls, stoichiometry, cross-checks. Each
  * finding carries its code, severity, message and, where there is one, the position, sample, value and
  * the threshold it was held against (thresholds from the settings).
  *
  * @example
- * collectQcFlags({ settings: s, positions, replicates, calibration, unknowns, usableMixtures, stoichiometry, job, moleRatio })
+ * collectQcFlags({ settings: s, positions, replicates, calibration, unknowns, controls, usableMixtures, stoichiometry, job, moleRatio })
  *   .map((f) => f.code); // ['saturated-reading', 'calibration-outlier', …]
  */
 export function collectQcFlags(input: QcInput): QcFlag[] {
@@ -325,6 +351,7 @@ export function collectQcFlags(input: QcInput): QcFlag[] {
     ...replicateFlags(input.replicates, s),
     ...calibrationFlags(input.calibration, input.positions, s),
     ...unknownFlags(input.unknowns, input.calibration),
+    ...recoveryFlags(input.controls, s),
     ...stoichiometryFlags(input.stoichiometry, input.usableMixtures, s),
     ...crossCheckFlags(input.stoichiometry?.best ?? null, input.job, input.moleRatio),
   ];

@@ -1,13 +1,14 @@
 import { ReplicateGroup } from './batch-step-replicates';
-import { QcCode, UnknownResult } from './batch-types';
+import { ControlResult, QcCode, UnknownResult } from './batch-types';
 import { CalibrationResult } from './calibration';
+import { controlRecovery } from './control-recovery';
 import { concentrationFromAbsorbance } from './inverse-prediction';
 import { ResolvedAnalysisSettings } from './options';
 
 /** The unknowns step: unknowns and controls read back through the calibration. */
 export interface UnknownsStep {
   unknowns: UnknownResult[];
-  controls: UnknownResult[];
+  controls: ControlResult[];
 }
 
 /**
@@ -57,7 +58,32 @@ export function readBack(
 }
 
 /**
- * Reads back every unknown and every control group (see `readBack`), in group order.
+ * One control group read back (see `readBack`) and compared with its nominal concentration (the
+ * manifest's concentration_M): recovery = measured / nominal × 100 %, flagged `recovery-out-of-limits`
+ * outside the batch's limits (see `control-recovery.ts`).
+ *
+ * Units: concentrations mol/L, recovery and limits %.
+ *
+ * @example
+ * readBackControl(group, calibration, s); // { sampleId: 'CHECK', recoveryPct: 98.3, flags: [], … }
+ */
+export function readBackControl(
+  g: ReplicateGroup,
+  calibration: CalibrationResult | null,
+  s: ResolvedAnalysisSettings,
+): ControlResult {
+  const read = readBack(g, calibration, s);
+  const { nominalM, recoveryPct, withinLimits } = controlRecovery(
+    read.concentrationM,
+    g.sample.concentrationM,
+    s.recoveryLimitsPct,
+  );
+  const flags: QcCode[] = withinLimits === false ? [...read.flags, 'recovery-out-of-limits'] : read.flags;
+  return { ...read, flags, nominalM, recoveryPct };
+}
+
+/**
+ * Reads back every unknown and every control group (see `readBack`, `readBackControl`), in group order.
  *
  * @example
  * readBackUnknowns(replicates.groups, calibration, s).unknowns.map((u) => u.concentrationM);
@@ -69,6 +95,8 @@ export function readBackUnknowns(
 ): UnknownsStep {
   return {
     unknowns: groups.filter((g) => g.sample.role === 'unknown').map((g) => readBack(g, calibration, s)),
-    controls: groups.filter((g) => g.sample.role === 'control').map((g) => readBack(g, calibration, s)),
+    controls: groups
+      .filter((g) => g.sample.role === 'control')
+      .map((g) => readBackControl(g, calibration, s)),
   };
 }

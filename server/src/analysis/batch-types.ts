@@ -16,7 +16,8 @@ import { MoleRatioResult } from './mole-ratio';
 import { KStatement } from './number-format';
 import { SampleRole } from './types';
 
-export const BATCH_RESULT_SCHEMA_VERSION = 2;
+/** 3: the settings carry the reporting unit and recovery limits; controls their nominal value and recovery. */
+export const BATCH_RESULT_SCHEMA_VERSION = 3;
 
 /** What happened to one position. */
 export type PositionStatus = 'used' | 'excluded' | 'saturated' | 'missing' | 'no-sample' | 'no-reading';
@@ -42,7 +43,8 @@ export type QcCode =
   | 'k-lower-bound'
   | 'k-fits-disagree'
   | 'job-disagrees'
-  | 'mole-ratio-disagrees';
+  | 'mole-ratio-disagrees'
+  | 'recovery-out-of-limits';
 
 /** One QC finding, for a person to review. */
 export interface QcFlag {
@@ -104,6 +106,14 @@ export interface UnknownResult {
   concentrationM: number | null;
   seM: number | null;
   flags: QcCode[];
+}
+
+/** A control or check standard: read back like an unknown, and compared with its nominal value. */
+export interface ControlResult extends UnknownResult {
+  /** From the manifest's concentration_M, mol/L; null when it gives none. */
+  nominalM: number | null;
+  /** concentrationM / nominalM × 100, %; null without both. */
+  recoveryPct: number | null;
 }
 
 /** One equilibrium mixture with its ICE table under every candidate. */
@@ -229,7 +239,8 @@ export interface BatchResult {
   replicates: ReplicateGroupResult[];
   calibration: CalibrationResult | null;
   unknowns: UnknownResult[];
-  controls: UnknownResult[];
+  /** Results stored before schema version 3 lack `nominalM` and `recoveryPct`. */
+  controls: ControlResult[];
   mixtures: MixtureResult[];
   stoichiometry: StoichiometryResult | null;
   uncertainty: UncertaintyResult | null;

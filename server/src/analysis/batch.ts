@@ -96,6 +96,7 @@ export function analyzeBatch(
       replicates: groups.replicates,
       calibration: cal,
       unknowns: read.unknowns,
+      controls: read.controls,
       usableMixtures: mix.usable,
       stoichiometry,
       job: checks.job,

@@ -53,3 +53,5 @@ export * from './spectral-analysis';
 export * from './qc-findings';
 export * from './qc-guidance';
 export * from './pathlength-water-wells';
+export * from './concentration-units';
+export * from './control-recovery';

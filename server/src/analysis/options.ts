@@ -1,3 +1,4 @@
+import { ConcentrationUnit, reportingUnitProblem } from './concentration-units';
 import { AnalysisError } from './errors';
 import { InputUncertainties } from './mixture-measurement';
 import { parseStoichiometry } from './stoichiometry-model';
@@ -62,6 +63,15 @@ export interface AnalysisSettings {
   monteCarlo?: { draws?: number; seed?: number };
   /** Levenberg–Marquardt limits. */
   fit?: { maxIterations?: number; parameterTolerance?: number };
+  /**
+   * Unit the batch reports concentrations in. Default mol/L. Results stay in mol/L; screens, reports and
+   * mails convert (`concentration-units.ts`).
+   */
+  concentrationUnit?: ConcentrationUnit;
+  /** Molar mass of the analyte, g/mol: needed for mg/L and µg/L. Default none. */
+  molarMassGPerMol?: number | null;
+  /** Acceptance limits of a control's recovery, % [low, high]. Default 90–110 % (common practice). */
+  recoveryLimitsPct?: readonly [number, number];
   /** Equilibrium root-finder limits. */
   solver?: { tolerance?: number; maxIterations?: number };
 }
@@ -93,6 +103,9 @@ export interface ResolvedAnalysisSettings {
   monteCarlo: { draws: number; seed: number };
   fit: { maxIterations: number; parameterTolerance: number };
   solver: { tolerance: number; maxIterations: number };
+  concentrationUnit: ConcentrationUnit;
+  molarMassGPerMol: number | null;
+  recoveryLimitsPct: [number, number];
 }
 
 /**
@@ -135,7 +148,29 @@ export const ANALYSIS_DEFAULTS = Object.freeze({
   /** Fraction (0.15 = 15 %). */
   kCvMax: 0.15,
   fitBaseline: false,
+  concentrationUnit: 'mol/L' as ConcentrationUnit,
+  /** Per cent [low, high] (common practice for a check standard). */
+  recoveryLimitsPct: Object.freeze([90, 110]) as readonly [number, number],
 });
+
+/** Recovery limits checked: 0 ≤ low < high ≤ 1000 %. */
+function recoveryLimits(limits: readonly [number, number]): [number, number] {
+  const [low, high] = limits;
+  if (
+    limits.length !== 2 ||
+    !Number.isFinite(low) ||
+    !Number.isFinite(high) ||
+    low < 0 ||
+    high > 1000 ||
+    !(low < high)
+  ) {
+    throw new AnalysisError(
+      'invalid-settings',
+      'recovery limits must be two per cent values, low below high',
+    );
+  }
+  return [low, high];
+}
 
 /**
  * Resolves and checks analysis settings once: fills every default and rejects impossible values
@@ -168,6 +203,9 @@ export function resolveAnalysisSettings(settings: AnalysisSettings = {}): Resolv
     throw new AnalysisError('invalid-settings', 'Monte Carlo draws must be 0 (off) or an integer ≥ 10');
   }
   const u = { ...DEFAULT_INPUT_UNCERTAINTIES, ...(s.uncertainty ?? {}) };
+  const concentrationUnit = s.concentrationUnit ?? ANALYSIS_DEFAULTS.concentrationUnit;
+  const unitProblem = reportingUnitProblem(concentrationUnit, s.molarMassGPerMol);
+  if (unitProblem) throw new AnalysisError('invalid-settings', unitProblem);
   return {
     wavelengthNm: s.wavelengthNm == null ? null : positive('wavelength', s.wavelengthNm),
     wavelengthToleranceNm: nonNegative('wavelength tolerance', s.wavelengthToleranceNm ?? 0.5),
@@ -220,5 +258,8 @@ export function resolveAnalysisSettings(settings: AnalysisSettings = {}): Resolv
       tolerance: positive('solver tolerance', s.solver?.tolerance ?? 1e-14),
       maxIterations: Math.floor(positive('solver iterations', s.solver?.maxIterations ?? 100)),
     },
+    concentrationUnit,
+    molarMassGPerMol: s.molarMassGPerMol ?? null,
+    recoveryLimitsPct: recoveryLimits(s.recoveryLimitsPct ?? ANALYSIS_DEFAULTS.recoveryLimitsPct),
   };
 }

@@ -138,6 +138,13 @@ export const QC_GUIDANCE: Record<QcCode, QcGuidance> = {
     action:
       'Check the stock concentrations and volumes of the series, and whether the break is sharp enough to read.',
   },
+  'recovery-out-of-limits': {
+    title: 'Recovery out of limits',
+    meaning:
+      'A control or check standard read back further from its nominal concentration than the acceptance limits set on this batch allow, so the other concentrations of the batch may be biased as well.',
+    action:
+      'Check how the control was prepared and whether it is within its shelf life; look at the calibration. Repeat the run before reporting its results, or record why they stand.',
+  },
 };
 
 /** The guidance for a code; an unknown code (from a later engine) gets a generic one. */

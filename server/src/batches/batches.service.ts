@@ -6,6 +6,7 @@ import {
   type SampleDefinition,
   type WaterPeakPathLengths,
   wellPathLengthsFromWaterPeak,
+  reportingUnitProblem,
 } from '../analysis';
 import {
   type AnalysisEngine,
@@ -130,6 +131,14 @@ export function sameValue(a: unknown, b: unknown): boolean {
   return a === b || (a == null && b == null);
 }
 
+/** Settings a person gave, with defaults, checked as a whole: a mass unit needs the analyte's molar mass. */
+function checkedSettings(input: Record<string, unknown>): BatchSettings {
+  const settings = batchSettingsSchema.parse(input);
+  const problem = reportingUnitProblem(settings.concentrationUnit, settings.molarMassGPerMol);
+  if (problem) throw AppError.badRequest(`Concentration unit: ${problem}.`);
+  return settings;
+}
+
 /** Batch settings as the analysis module takes them. */
 export function toAnalysisSettings(
   settings: BatchSettings,
@@ -148,6 +157,9 @@ export function toAnalysisSettings(
     exclusions: settings.exclusions,
     monteCarlo: { draws: settings.monteCarloDraws, seed: 1 },
     fitBaseline: settings.fitBaseline,
+    concentrationUnit: settings.concentrationUnit,
+    molarMassGPerMol: settings.molarMassGPerMol,
+    recoveryLimitsPct: settings.recoveryLimitsPct,
     ...overrides,
   };
 }
@@ -231,7 +243,7 @@ export class BatchesService {
       throw AppError.conflict(
         `Open batch "${open.name}" already collects run "${input.runId}" of this instrument.`,
       );
-    const settings = batchSettingsSchema.parse({
+    const settings = checkedSettings({
       pathLengthCm: profile.pathLengthCm ?? 1,
       wavelengthNm: profile.defaultWavelengthNm,
       ...input.settings,
@@ -349,7 +361,7 @@ export class BatchesService {
       // A typed value, or back to this batch's own standards.
       epsilonSource = null;
     }
-    const after = batchSettingsSchema.parse({ ...before, ...changes, epsilonSource });
+    const after = checkedSettings({ ...before, ...changes, epsilonSource });
     await this.dataSource.transaction(async (manager) => {
       await manager.update(Batch, { id }, { settingsJson: JSON.stringify(after) });
       const excluded = after.exclusions.filter(

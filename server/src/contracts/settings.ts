@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { CONCENTRATION_UNITS } from '../analysis/concentration-units';
 import { ANALYSIS_DEFAULTS } from '../analysis/options';
 import {
   CALIBRATION_MODELS,
@@ -89,6 +90,14 @@ export const settingFields = {
   exclusions: z
     .array(z.strictObject({ position, reason: z.string().trim().min(3, 'give a reason').max(500) }))
     .max(384),
+  /** The unit results are reported in; mass units need `molarMassGPerMol` (checked on the whole settings). */
+  concentrationUnit: z.enum(CONCENTRATION_UNITS),
+  /** Molar mass of the analyte, g/mol. */
+  molarMassGPerMol: z.number().positive().max(1e7).nullable(),
+  /** Acceptance limits of a control's recovery, % [low, high]. */
+  recoveryLimitsPct: z
+    .tuple([z.number().min(0).max(1000), z.number().min(0).max(1000)])
+    .refine(([low, high]) => low < high, 'the low limit must be below the high one'),
 };
 
 /** Which batch, and which of its approval records, lent ε of the complex (set by the server). */
@@ -122,6 +131,11 @@ export const batchSettingsSchema = z.strictObject({
   monteCarloDraws: z.number().int().min(0).max(20000).default(0),
   exclusions: settingFields.exclusions.default(() => []),
   fitBaseline: settingFields.fitBaseline.default(ANALYSIS_DEFAULTS.fitBaseline),
+  concentrationUnit: settingFields.concentrationUnit.default(ANALYSIS_DEFAULTS.concentrationUnit),
+  molarMassGPerMol: settingFields.molarMassGPerMol.default(null),
+  recoveryLimitsPct: settingFields.recoveryLimitsPct.default((): [number, number] => [
+    ...ANALYSIS_DEFAULTS.recoveryLimitsPct,
+  ]),
 });
 export type BatchSettings = z.infer<typeof batchSettingsSchema>;
 

@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import type { BatchResult, QcFlag } from '../analysis';
+import { type BatchResult, describeControl, type QcFlag } from '../analysis';
 import type { BatchDto, BatchesService } from '../batches/batches.service';
 import type { EventBus, LiveEvent } from '../events/event-bus';
 import { BatchNotice } from './mail.entity';
@@ -112,6 +112,7 @@ export class BatchMailer {
       best: bestOf(result),
       verdict: result.stoichiometry?.verdict ?? null,
       errorFlags: errors.length,
+      controls: result.controls.map((c) => describeControl(c, result.settings)),
     };
     const people = await this.notifications.recipients('batchComplete', ['scientist', 'lab_manager']);
     for (const person of people) this.mail.send(person.email, batchCompleteMail(person.displayName, summary));

@@ -70,6 +70,8 @@ export interface BatchSummary {
   best: { model: string; kText: string } | null;
   verdict: string | null;
   errorFlags: number;
+  /** One sentence per control (`describeControl`): its concentration, nominal value and recovery. */
+  controls: string[];
 }
 
 /** The best stoichiometry and its K, one line each; one place for every mail that states K. */
@@ -81,6 +83,7 @@ function kLines(best: BatchSummary['best']): string[] {
 export function batchCompleteMail(name: string, s: BatchSummary): MailContent {
   const lines: string[] = [`Instrument: ${s.instrument ?? 'unknown'}`, `Files stored: ${s.fileCount}`];
   lines.push(...kLines(s.best));
+  lines.push(...s.controls.map((c) => `Control ${c}`));
   if (s.errorFlags) lines.push(`QC errors: ${s.errorFlags} (a separate mail lists them)`);
   const blocks: Block[] = [
     {

@@ -1,4 +1,4 @@
-import { DASH, EPSILON_UNIT, formatQuantity, roundSignificant } from '../analysis';
+import { DASH, EPSILON_UNIT, formatQuantity, reportingUnitOf, roundSignificant } from '../analysis';
 import type { AuditDto } from '../audit/audit.service';
 import type { BatchAnalysisDto } from '../batches/batches.service';
 import { PDF, SHEETS, col, detail, minute, missing, text } from './report-cells';
@@ -83,6 +83,9 @@ function batchSection(input: BatchReportInput): ReportSection {
         ? 'none (fitted with K)'
         : `${formatQuantity(r.epsilonSource.epsilonLPerMolCm, EPSILON_UNIT)} — ${r.epsilonSource.kind === 'given' ? 'given' : "this batch's standards"}`;
   const percent = (v: number): string => `${(v * 100).toFixed(1)} %`;
+  // The unit and limits the numbers were computed with (a result from before units has neither: mol/L).
+  const unit = reportingUnitOf(r.settings);
+  const limits = r.settings.recoveryLimitsPct ?? null;
   const engine = rec ? rec.engine.version : (input.engineVersion ?? null);
   return {
     title: 'Batch',
@@ -111,6 +114,31 @@ function batchSection(input: BatchReportInput): ReportSection {
       detail('path_length_cm', 'Path length', `${r.pathLengthCm} cm`, r.pathLengthCm),
       detail('calibration_model', 'Calibration model', s.calibrationModel),
       detail('candidates', 'Candidates', s.candidates.join(', '), s.candidates.join(' ')),
+      detail(
+        'concentration_unit',
+        'Concentrations in',
+        unit.molarMassGPerMol === null
+          ? unit.unit
+          : `${unit.unit} (molar mass ${unit.molarMassGPerMol} g/mol)`,
+        unit.unit,
+      ),
+      detail(
+        'molar_mass_g_per_mol',
+        'Molar mass (g/mol)',
+        unit.molarMassGPerMol === null ? DASH : String(unit.molarMassGPerMol),
+        unit.molarMassGPerMol,
+        SHEETS,
+      ),
+      ...(limits
+        ? [
+            detail(
+              'recovery_limits_pct',
+              'Control recovery limits',
+              `${limits[0]}–${limits[1]} %`,
+              `${limits[0]}-${limits[1]}`,
+            ),
+          ]
+        : []),
       detail(
         'thresholds',
         'Thresholds',

@@ -1,13 +1,18 @@
 import {
   type CandidateResult,
+  type ControlResult,
+  type UnknownResult,
   DASH,
   EPSILON_UNIT,
   formatK,
   formatKValue,
   formatNumber,
   guidanceFor,
+  inReportingUnit,
   kUnitOf,
+  reportingUnitOf,
   roundSignificant,
+  unitKey,
 } from '../analysis';
 import type { BatchAnalysisDto } from '../batches/batches.service';
 import type { ReportCell, ReportSection } from './report-model';
@@ -140,37 +145,63 @@ export function calibrationSection(a: BatchAnalysisDto): ReportSection {
 
 export function unknownsSection(a: BatchAnalysisDto): ReportSection {
   const r = a.result;
+  // Values in the batch's reporting unit; the result itself holds mol/L.
+  const unit = reportingUnitOf(r.settings);
+  const inUnit = (m: number | null | undefined): number | null => inReportingUnit(m, unit);
+  const key = unitKey(unit.unit);
+  // Nominal value and recovery only when a control has a nominal value (results from before have none).
+  const recovery = r.controls.some((c) => c.nominalM != null);
+  const rows: { u: UnknownResult | ControlResult; kind: string }[] = [
+    ...r.unknowns.map((u) => ({ u, kind: 'unknown' })),
+    ...r.controls.map((u) => ({ u, kind: 'control' })),
+  ];
   return {
     title: 'Unknowns and controls',
     details: [],
     figures: [],
-    notes: [],
+    notes: recovery
+      ? [
+          {
+            text: `Recovery = measured / nominal × 100 %; acceptance limits ${r.settings.recoveryLimitsPct.join('–')} %.`,
+            style: 'muted',
+          },
+        ]
+      : [],
     tables: [
       {
         title: 'Unknowns and controls',
         columns: [
-          col('sample_id', 'Sample', 90),
+          col('sample_id', 'Sample', recovery ? 72 : 90),
           col('kind', 'Kind', 48),
           col('positions', 'Positions', 60, { in: SHEETS }),
           col('n', 'n', 22, right),
           col('absorbance', 'Absorbance', 60, right),
           col('dilution_factor', 'Dilution', 44, right),
-          col('concentration_M', 'c', 70, { unit: 'M', ...right }),
-          col('se_M', 'SE', 60, { unit: 'M', ...right }),
-          col('flags', 'QC', 105),
+          col(`concentration_${key}`, 'c', 70, { unit: unit.unit, ...right }),
+          col(`se_${key}`, 'SE', 60, { unit: unit.unit, ...right }),
+          ...(recovery
+            ? [
+                col(`nominal_${key}`, 'Nominal', 84, { unit: unit.unit, ...right }),
+                col('recovery_pct', 'Recovery', 68, { unit: '%', ...right }),
+              ]
+            : []),
+          col('flags', 'QC', recovery ? 84 : 105),
         ],
-        rows: [
-          ...r.unknowns.map((u) => ({ u, kind: 'unknown' })),
-          ...r.controls.map((u) => ({ u, kind: 'control' })),
-        ].map(({ u, kind }) => [
+        rows: rows.map(({ u, kind }) => [
           text(u.sampleId),
           text(kind),
           text(u.positions.join(' ')),
           count(u.n),
           decimals(u.absorbance, 4, 4),
           num(u.dilutionFactor, 6),
-          measured(u.concentrationM, u.seM),
-          num(u.seM, 2, 2),
+          measured(inUnit(u.concentrationM), inUnit(u.seM)),
+          num(inUnit(u.seM), 2, 2),
+          ...(recovery
+            ? [
+                num(inUnit('nominalM' in u ? u.nominalM : null), 6),
+                decimals('recoveryPct' in u ? u.recoveryPct : null, 1),
+              ]
+            : []),
           findingsCell([...u.flags, ...ownFindings(r.qc, u.sampleId, u.positions).map((f) => f.code)]),
         ]),
       },

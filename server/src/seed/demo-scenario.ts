@@ -96,6 +96,9 @@ export async function seedDemoScenario(equilight: EquilightApp): Promise<boolean
         wavelengthNm: 510,
         pathLengthCm: Number(pathLengthFromFillVolume(200, 6.4).toFixed(4)),
         candidates: ['1:1'],
+        // A water lab reports iron in mg/L: molar mass of Fe, 55.845 g/mol (IUPAC standard atomic weight).
+        concentrationUnit: 'mg/L',
+        molarMassGPerMol: 55.845,
       },
     },
     creator,

@@ -50,6 +50,9 @@ describe('changing a batch setting', () => {
       monteCarloDraws: 0,
       exclusions: [{ position: 'C20', reason: 'cracked cuvette' }],
       fitBaseline: false,
+      concentrationUnit: 'mol/L',
+      molarMassGPerMol: null,
+      recoveryLimitsPct: [90, 110],
     });
   });
 });

@@ -142,6 +142,9 @@ export function fixtureAnalysis(
     exclusions: batch.settings.exclusions,
     monteCarlo: { draws: batch.settings.monteCarloDraws, seed: 1 },
     fitBaseline: batch.settings.fitBaseline,
+    concentrationUnit: batch.settings.concentrationUnit,
+    molarMassGPerMol: batch.settings.molarMassGPerMol,
+    recoveryLimitsPct: batch.settings.recoveryLimitsPct,
   };
   return {
     batch,

@@ -1,7 +1,18 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import { ownFindings, type QcFlag, type UnknownResult } from '@equilight/analysis';
-import { formatAbsorbance, formatNumber } from '../shared/format/number-format';
+import {
+  type ControlResult,
+  ownFindings,
+  type QcFlag,
+  type ResolvedAnalysisSettings,
+  type UnknownResult,
+} from '@equilight/analysis';
+import {
+  formatAbsorbance,
+  formatNumber,
+  inReportingUnit,
+  reportingUnitOf,
+} from '../shared/format/number-format';
 import { guidanceFor } from '../shared/qc/qc-guidance';
 
 /** Concentrations of the unknowns (and controls) read from the calibration, with SE and QC marks. */
@@ -13,7 +24,13 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
       <div class="eq-table-wrap" tabindex="0" role="region" aria-label="Unknowns table">
         <table class="eq-table" data-testid="unknowns-table">
           <caption>
-            Concentrations in the original sample (after the dilution factor)
+            Concentrations in the original sample (after the dilution factor), in
+            {{
+              unit().unit
+            }}
+            @if (unit().molarMassGPerMol !== null) {
+              (molar mass {{ unit().molarMassGPerMol }} g/mol)
+            }
           </caption>
           <thead>
             <tr>
@@ -23,8 +40,14 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
               <th scope="col" class="eq-n">n</th>
               <th scope="col" class="eq-n">A corrected (AU)</th>
               <th scope="col" class="eq-n">Dilution factor</th>
-              <th scope="col" class="eq-n">c (mol/L)</th>
-              <th scope="col" class="eq-n">SE (mol/L)</th>
+              <th scope="col" class="eq-n" data-testid="unknowns-c-header">c ({{ unit().unit }})</th>
+              <th scope="col" class="eq-n">SE ({{ unit().unit }})</th>
+              @if (recovery(); as limits) {
+                <th scope="col" class="eq-n" data-testid="recovery-header">
+                  Recovery (%)
+                  <span class="eq-muted eq-th-note">of nominal; limits {{ limits[0] }}–{{ limits[1] }}</span>
+                </th>
+              }
               <th scope="col">QC</th>
             </tr>
           </thead>
@@ -37,8 +60,30 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
                 <td class="eq-n">{{ u.row.n }}</td>
                 <td class="eq-n">{{ abs(u.row.absorbance) }}</td>
                 <td class="eq-n">× {{ u.row.dilutionFactor }}</td>
-                <td class="eq-n" data-testid="unknown-concentration">{{ fmt(u.row.concentrationM, 4) }}</td>
-                <td class="eq-n">{{ fmt(u.row.seM, 2) }}</td>
+                <td class="eq-n" data-testid="unknown-concentration">
+                  {{ fmt(inUnit(u.row.concentrationM), 4) }}
+                </td>
+                <td class="eq-n">{{ fmt(inUnit(u.row.seM), 2) }}</td>
+                @if (recovery()) {
+                  <td class="eq-n" data-testid="control-recovery">
+                    @if (u.recoveryPct === null) {
+                      {{ fmt(null) }}
+                    } @else if (u.outOfLimits) {
+                      <span class="eq-out-of-limits"
+                        ><mat-icon inline aria-hidden="true">warning</mat-icon>{{ u.recoveryPct.toFixed(1) }}
+                        <span class="eq-small">out of limits</span></span
+                      >
+                    } @else {
+                      {{ u.recoveryPct.toFixed(1) }}
+                    }
+                    @if (u.nominalM !== null) {
+                      <span class="eq-visually-hidden">, </span>
+                      <span class="eq-muted eq-th-note" data-testid="control-nominal"
+                        >of {{ fmt(inUnit(u.nominalM), 4) }} {{ unit().unit }}</span
+                      >
+                    }
+                  </td>
+                }
                 <td data-testid="unknown-qc">
                   @for (f of u.findings; track f.code) {
                     <span class="eq-flag" [attr.title]="f.detail"
@@ -62,14 +107,40 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
 })
 export class UnknownsTable {
   readonly unknowns = input.required<readonly UnknownResult[]>();
-  readonly controls = input<readonly UnknownResult[]>([]);
+  /** Results stored before recovery existed have controls without `nominalM` and `recoveryPct`. */
+  readonly controls = input<readonly (UnknownResult & Partial<ControlResult>)[]>([]);
   /** The batch's QC findings; each row shows those naming its sample or one of its positions. */
   readonly qc = input<readonly QcFlag[]>([]);
+  /** The settings the result was computed with: the reporting unit and recovery limits. */
+  readonly settings = input<Partial<ResolvedAnalysisSettings>>({});
 
+  /** Results hold mol/L; the table shows the batch's unit (mol/L for results from before units). */
+  protected readonly unit = computed(() => reportingUnitOf(this.settings()));
+  /** The recovery limits, when a control has a nominal value to recover. */
+  protected readonly recovery = computed(() =>
+    this.controls().some((c) => c.nominalM != null) ? (this.settings().recoveryLimitsPct ?? null) : null,
+  );
   protected readonly rows = computed(() => [
-    ...this.unknowns().map((row) => ({ kind: 'unknown', row, findings: sampleFindings(row, this.qc()) })),
-    ...this.controls().map((row) => ({ kind: 'control', row, findings: sampleFindings(row, this.qc()) })),
+    ...this.unknowns().map((row) => ({
+      kind: 'unknown',
+      row,
+      findings: sampleFindings(row, this.qc()),
+      nominalM: null,
+      recoveryPct: null,
+      outOfLimits: false,
+    })),
+    ...this.controls().map((row) => ({
+      kind: 'control',
+      row,
+      findings: sampleFindings(row, this.qc()),
+      nominalM: row.nominalM ?? null,
+      recoveryPct: row.recoveryPct ?? null,
+      outOfLimits: row.flags.includes('recovery-out-of-limits'),
+    })),
   ]);
+  protected inUnit(valueM: number | null): number | null {
+    return inReportingUnit(valueM, this.unit());
+  }
   protected readonly fmt = formatNumber;
   protected readonly abs = formatAbsorbance;
 }

@@ -193,11 +193,47 @@ describe('BatchFormPage', () => {
         r2Min: 0.995,
         replicateCvMax: 0.04,
         kCvMax: 0.15,
+        concentrationUnit: 'mol/L',
+        recoveryLimitsPct: [90, 110],
       },
     });
     req.flush(batchFixture(), { status: 201, statusText: 'Created' });
     await fixture.whenStable();
     expect(navigate).toHaveBeenCalledWith(['/batches']);
+  });
+
+  it('asks for the molar mass with mg/L and checks the recovery limits, then sends them', async () => {
+    const ctx = await setup();
+    const { http, el, type, fixture } = ctx;
+    jest.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    await fillIn(ctx);
+    await (await ctx.select('batch-unit')).clickOptions({ text: 'mg/L' });
+    await type('batch-recovery-low', '105');
+    await type('batch-recovery-high', '95');
+    await type('batch-molar-mass', '');
+    el.querySelector<HTMLButtonElement>('[data-testid="create-batch"]')!.click();
+    await fixture.whenStable();
+    expect(el.querySelector('[data-testid="molar-mass-needed"]')!.textContent).toContain(
+      'mg/L needs the molar mass',
+    );
+    expect(el.querySelector('[data-testid="recovery-order"]')!.textContent).toContain(
+      'Above the lower limit',
+    );
+    http.expectNone('/api/batches');
+
+    // Iron: 55.845 g/mol (IUPAC standard atomic weight, from memory).
+    await type('batch-molar-mass', '55.845');
+    await type('batch-recovery-low', '95');
+    await type('batch-recovery-high', '105');
+    expect(el.querySelector('[data-testid="molar-mass-needed"]')).toBeNull();
+    el.querySelector<HTMLButtonElement>('[data-testid="create-batch"]')!.click();
+    const req = http.expectOne({ method: 'POST', url: '/api/batches' });
+    expect(req.request.body.settings).toMatchObject({
+      concentrationUnit: 'mg/L',
+      molarMassGPerMol: 55.845,
+      recoveryLimitsPct: [95, 105],
+    });
+    req.flush(batchFixture(), { status: 201, statusText: 'Created' });
   });
 
   it('creates with the current versions without waiting for the version lists', async () => {

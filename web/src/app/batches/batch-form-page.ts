@@ -31,6 +31,7 @@ import {
   type VersionChoice,
 } from './batch';
 import { BatchesService } from './batches.service';
+import { CONCENTRATION_UNITS, type ConcentrationUnit, isMassUnit } from '../shared/format/number-format';
 
 function positive(control: AbstractControl<number | null>): ValidationErrors | null {
   const v = control.value;
@@ -42,6 +43,23 @@ function atLeastOne(control: AbstractControl<string[]>): ValidationErrors | null
 }
 
 const WHOLE = Validators.pattern(/^\d+$/);
+
+/** The settings group: a mass unit needs a molar mass; the low recovery limit lies below the high one. */
+function reportingChecks(group: AbstractControl): ValidationErrors | null {
+  const v = (
+    group as AbstractControl<{
+      concentrationUnit: ConcentrationUnit;
+      molarMassGPerMol: number | null;
+      recoveryLowPct: number | null;
+      recoveryHighPct: number | null;
+    }>
+  ).getRawValue();
+  const errors: ValidationErrors = {};
+  if (isMassUnit(v.concentrationUnit) && v.molarMassGPerMol === null) errors['molarMassNeeded'] = true;
+  if (v.recoveryLowPct !== null && v.recoveryHighPct !== null && !(v.recoveryLowPct < v.recoveryHighPct))
+    errors['recoveryOrder'] = true;
+  return Object.keys(errors).length ? errors : null;
+}
 
 /** Lab managers and admins: a new batch from an instrument, a layout version, a manifest version and settings. */
 @Component({
@@ -84,33 +102,57 @@ export class BatchFormPage {
     expectedFiles: this.fb.control(1, [Validators.required, Validators.min(1), Validators.max(1000), WHOLE]),
     systemName: this.fb.control('', Validators.maxLength(120)),
     temperatureC: this.fb.control<number | null>(null, [Validators.min(-80), Validators.max(200)]),
-    settings: this.fb.group({
-      wavelengthNm: this.fb.control<number | null>(null, [Validators.min(100), Validators.max(3300)]),
-      pathLengthCm: this.fb.control<number | null>(null, [positive, Validators.max(100)]),
-      candidates: this.fb.control<string[]>([...DEFAULT_SETTINGS.candidates], atLeastOne),
-      calibrationModel: this.fb.control<CalibrationModel>(DEFAULT_SETTINGS.calibrationModel),
-      linearRangeMaxAbsorbance: this.fb.control(DEFAULT_SETTINGS.linearRangeMaxAbsorbance, [
-        Validators.required,
-        positive,
-        Validators.max(10),
-      ]),
-      r2Min: this.fb.control(DEFAULT_SETTINGS.r2Min, [
-        Validators.required,
-        Validators.min(0),
-        Validators.max(1),
-      ]),
-      replicateCvMaxPercent: this.fb.control(DEFAULT_SETTINGS.replicateCvMaxPercent, [
-        Validators.required,
-        positive,
-        Validators.max(100),
-      ]),
-      kCvMaxPercent: this.fb.control(DEFAULT_SETTINGS.kCvMaxPercent, [
-        Validators.required,
-        positive,
-        Validators.max(1000),
-      ]),
-    }),
+    settings: this.fb.group(
+      {
+        wavelengthNm: this.fb.control<number | null>(null, [Validators.min(100), Validators.max(3300)]),
+        pathLengthCm: this.fb.control<number | null>(null, [positive, Validators.max(100)]),
+        candidates: this.fb.control<string[]>([...DEFAULT_SETTINGS.candidates], atLeastOne),
+        calibrationModel: this.fb.control<CalibrationModel>(DEFAULT_SETTINGS.calibrationModel),
+        linearRangeMaxAbsorbance: this.fb.control(DEFAULT_SETTINGS.linearRangeMaxAbsorbance, [
+          Validators.required,
+          positive,
+          Validators.max(10),
+        ]),
+        r2Min: this.fb.control(DEFAULT_SETTINGS.r2Min, [
+          Validators.required,
+          Validators.min(0),
+          Validators.max(1),
+        ]),
+        replicateCvMaxPercent: this.fb.control(DEFAULT_SETTINGS.replicateCvMaxPercent, [
+          Validators.required,
+          positive,
+          Validators.max(100),
+        ]),
+        kCvMaxPercent: this.fb.control(DEFAULT_SETTINGS.kCvMaxPercent, [
+          Validators.required,
+          positive,
+          Validators.max(1000),
+        ]),
+        concentrationUnit: this.fb.control<ConcentrationUnit>(DEFAULT_SETTINGS.concentrationUnit),
+        molarMassGPerMol: this.fb.control<number | null>(null, [positive, Validators.max(1e7)]),
+        recoveryLowPct: this.fb.control<number | null>(DEFAULT_SETTINGS.recoveryLimitsPct[0], [
+          Validators.required,
+          Validators.min(0),
+          Validators.max(1000),
+        ]),
+        recoveryHighPct: this.fb.control<number | null>(DEFAULT_SETTINGS.recoveryLimitsPct[1], [
+          Validators.required,
+          Validators.min(0),
+          Validators.max(1000),
+        ]),
+      },
+      { validators: reportingChecks },
+    ),
   });
+  protected readonly concentrationUnits = CONCENTRATION_UNITS;
+  private readonly unitChoice = toSignal(
+    this.form.controls.settings.controls.concentrationUnit.valueChanges,
+    {
+      initialValue: DEFAULT_SETTINGS.concentrationUnit,
+    },
+  );
+  /** mg/L and µg/L need the analyte's molar mass. */
+  protected readonly massUnit = computed(() => isMassUnit(this.unitChoice()));
 
   protected readonly instruments = signal<InstrumentChoice[]>([]);
   private readonly allLayouts = signal<LayoutChoice[]>([]);
@@ -223,7 +265,10 @@ export class BatchFormPage {
       r2Min: s.r2Min,
       replicateCvMax: s.replicateCvMaxPercent / 100,
       kCvMax: s.kCvMaxPercent / 100,
+      concentrationUnit: s.concentrationUnit,
+      recoveryLimitsPct: [s.recoveryLowPct!, s.recoveryHighPct!],
     };
+    if (s.molarMassGPerMol !== null) settings.molarMassGPerMol = s.molarMassGPerMol;
     if (s.wavelengthNm !== null) settings.wavelengthNm = s.wavelengthNm;
     if (s.pathLengthCm !== null) settings.pathLengthCm = s.pathLengthCm;
     const body: NewBatch = {

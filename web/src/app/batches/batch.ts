@@ -59,4 +59,7 @@ export const DEFAULT_SETTINGS = {
   r2Min: DEFAULT_BATCH_SETTINGS.r2Min,
   replicateCvMaxPercent: DEFAULT_BATCH_SETTINGS.replicateCvMax * 100,
   kCvMaxPercent: DEFAULT_BATCH_SETTINGS.kCvMax * 100,
+  concentrationUnit: DEFAULT_BATCH_SETTINGS.concentrationUnit,
+  /** Per cent [low, high]. */
+  recoveryLimitsPct: DEFAULT_BATCH_SETTINGS.recoveryLimitsPct,
 };

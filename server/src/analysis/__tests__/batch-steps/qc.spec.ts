@@ -237,12 +237,14 @@ describe('QC step', () => {
     const result = analyzeBatch(readings, base.samples, settings);
     const r = runToMixtures({ readings, samples: base.samples }, settings);
     const st = rankCandidates(r.mix.usable, r.mix.candidates, r.mix.epsilonSource, r.s);
+    const read = readBackUnknowns(r.groups.groups, r.cal.calibration, r.s);
     const flags = collectQcFlags({
       settings: r.s,
       positions: r.blanked.positions,
       replicates: r.groups.replicates,
       calibration: r.cal,
-      unknowns: readBackUnknowns(r.groups.groups, r.cal.calibration, r.s).unknowns,
+      unknowns: read.unknowns,
+      controls: read.controls,
       usableMixtures: r.mix.usable,
       stoichiometry: st.stoichiometry,
       job: result.job,

@@ -1,15 +1,23 @@
 // The product's one number format lives in the shared analysis module (screen, PDF, CSV, mails, CLI).
 export {
+  CONCENTRATION_UNITS,
+  type ConcentrationUnit,
   DASH,
   EPSILON_UNIT,
   formatAbsorbance,
+  formatConcentration,
   formatK,
   formatKValue,
   formatNumber,
   formatPercent,
   formatQuantity,
+  inReportingUnit,
+  isMassUnit,
   kUnit,
   kUnitOf,
+  MOLAR_REPORTING,
+  reportingUnitOf,
+  type ReportingUnit,
   significantDigits,
   superscript,
 } from '@equilight/analysis';
