@@ -19,9 +19,7 @@ import type { EventBus } from '../events/event-bus';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { ReadingRow } from '../ingest/reading.entity';
 import { InstrumentProfile } from '../instruments/instrument-profile.entity';
-import { Layout } from '../layouts/layout.entity';
 import type { LayoutsService } from '../layouts/layouts.service';
-import { Manifest } from '../manifests/manifest.entity';
 import type { ManifestsService } from '../manifests/manifests.service';
 import { User } from '../users/user.entity';
 import {
