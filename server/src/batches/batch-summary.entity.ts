@@ -59,10 +59,6 @@ export class BatchSummaryRow {
   @Column('text', { name: 'summary_json', nullable: true })
   summaryJson!: string | null;
 
-  /** The whole BatchResult the headline comes from, so the batch page need not analyse again. */
-  @Column('text', { name: 'result_json', nullable: true })
-  resultJson!: string | null;
-
   @Column('integer', { name: 'qc_flag_count', nullable: true })
   qcFlagCount!: number | null;
 
@@ -74,4 +70,8 @@ export class BatchSummaryRow {
 
   @Column('double precision', { nullable: true })
   k!: number | null;
+
+  /** The whole BatchResult the headline comes from, so the batch page need not analyse again. */
+  @Column('text', { name: 'result_json', nullable: true })
+  resultJson!: string | null;
 }

@@ -27,11 +27,12 @@ export class BatchSummaries1765000000000 implements MigrationInterface {
           { name: 'analysed_at', type: 'varchar', length: '30', isNullable: true },
           { name: 'error', type: 'text', isNullable: true },
           { name: 'summary_json', type: 'text', isNullable: true },
-          { name: 'result_json', type: 'text', isNullable: true },
           { name: 'qc_flag_count', type: 'integer', isNullable: true },
           { name: 'qc_error_count', type: 'integer', isNullable: true },
           { name: 'best_model', type: 'varchar', length: '20', isNullable: true },
           { name: 'k', type: real, isNullable: true },
+          // Last: a large value, so reading the columns before it never walks its overflow pages (SQLite).
+          { name: 'result_json', type: 'text', isNullable: true },
         ],
         foreignKeys: [
           {
