@@ -215,7 +215,7 @@ describe('BatchesPage', () => {
   it('searches on the server after a pause in typing, from the first page', async () => {
     const { fixture, http, el } = await setup();
     const input = el.querySelector<HTMLInputElement>('[data-testid="batches-search"]')!;
-    expect(input.placeholder).toBe('Sample id, run id or file name');
+    expect(el.querySelector('.eq-filter-text mat-label')!.textContent).toBe('Sample id, run id or file name');
     for (const typed of ['S', 'ST', 'STD-1']) {
       input.value = typed;
       input.dispatchEvent(new Event('input'));
