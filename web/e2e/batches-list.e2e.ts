@@ -132,6 +132,8 @@ describe('the Batches page: server paging and search, live rows that stay put', 
     await page.setViewportSize({ width: 1920, height: 1080 });
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batches-1920x1080.png'), fullPage: true });
     await page.setViewportSize({ width: 390, height: 844 });
+    // Opened on the phone itself (not caught in the navigation's closing animation).
+    await page.reload();
     await page.locator('tr[data-batch-id]').first().waitFor();
     // A card per batch: nothing wider than the screen.
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
