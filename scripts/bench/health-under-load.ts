@@ -195,8 +195,8 @@ async function main(): Promise<void> {
     );
     // Heavy analyses: the demo batches that hold readings (reopened if approved), with the most
     // Monte Carlo draws allowed.
-    const batches = await json<Array<{ id: number; state: string; fileCount: number }>>(
-      manager.request('GET', '/api/batches'),
+    const { items: batches } = await json<{ items: Array<{ id: number; state: string; fileCount: number }> }>(
+      manager.request('GET', '/api/batches?pageSize=100'),
     );
     const heavy = batches.filter((b) => b.fileCount > 0).slice(0, ANALYSES_AT_ONCE);
     if (heavy.length === 0) throw new Error('no demo batch with readings to analyse');

@@ -156,13 +156,11 @@ async function signedInContext(browser: Browser, url: string, email: string): Pr
 
 /** Sends the demo instrument's three 25 °C exports in as a signed-in upload and waits until all are stored. */
 async function fillDemo25(ctx: BrowserContext, url: string): Promise<number> {
-  const batches = (await (await ctx.request.get(`${url}/api/batches`)).json()) as {
-    id: number;
-    name: string;
-    runId: string;
-    profileId: number;
-    fileCount: number;
-  }[];
+  const batches = (
+    (await (await ctx.request.get(`${url}/api/batches?q=CX-25`)).json()) as {
+      items: { id: number; name: string; runId: string; profileId: number; fileCount: number }[];
+    }
+  ).items;
   const batch = batches.find((b) => b.runId === 'CX-25');
   if (!batch) throw new Error('The demo 25 °C batch (run CX-25) is missing: start with SEED_DEMO=true.');
   const dir = path.join(REPO_ROOT, 'samples/demo/exports/cuvette-1');

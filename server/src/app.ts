@@ -78,7 +78,7 @@ export interface EquilightApp {
   worker: SqliteJobWorker<IngestJobData>;
   /** /api/health: touches the database; keeps what the start checks found. */
   health: HealthService;
-  /** Start background work: resume queued jobs left by a previous run. */
+  /** Start background work: resume queued jobs left by a previous run, fill in missing batch summaries. */
   start(): Promise<void>;
   /** Stop background work and wait for running jobs. */
   close(): Promise<void>;
@@ -109,6 +109,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   const batches = new BatchesService(dataSource, layouts, manifests, audit, events, {
     engine,
     fourEyesApproval: config.fourEyesApproval,
+    log,
   });
   const mail = createMailModule({ config, dataSource, users, batches, events, log });
   const reports = new ReportsService(batches, audit);
@@ -127,7 +128,10 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     batchMailer: mail.batchMailer,
     log,
   });
-  ingest.useBatchMatcher((manager, profileId, runId) => batches.attachStoredFile(manager, profileId, runId));
+  ingest.useBatchMatcher((manager, profileId, runId) => batches.attachStoredFile(manager, profileId, runId), {
+    stored: (manager, batchId) => batches.fileStored(manager, batchId),
+    committed: (batchId) => batches.fileCommitted(batchId),
+  });
   const worker = new SqliteJobWorker(queue, (job) => ingest.process(job), { concurrency: 2 });
   worker.on('failed', (job, err) => {
     log(`Ingest job ${job.id} failed after ${job.attemptsMade} tries`, err);
@@ -230,10 +234,13 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
       await worker.start();
       await ingest.recoverUnqueued();
       watchers.start();
+      // Summaries of batches made before they were stored, and any left pending: in the background.
+      void batches.startSummaryBackfill();
     },
     async close() {
       await watchers.stop();
       await worker.close();
+      await batches.close();
       await closeWorkers();
       await queue.close();
       await mail.close();

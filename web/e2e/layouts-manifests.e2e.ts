@@ -211,7 +211,7 @@ describe('a lab manager goes from an empty layout to a batch waiting for its fil
     await page.getByTestId('create-batch').click();
     await page.waitForURL(/\/batches(\/\d+)?$/);
 
-    const batches = await page.evaluate(async () => (await fetch('/api/batches')).json());
+    const batches = await page.evaluate(async () => (await (await fetch('/api/batches')).json()).items);
     const batch = (
       batches as {
         name: string;

@@ -71,11 +71,11 @@ describe('the batch page arrives compressed, with its icons, and analyses what-i
 
     // The demo instrument's three 25 °C exports, sent in as a signed-in upload.
     const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
-    const batches = (await (await ctx.request.get(`${server.url}/api/batches`)).json()) as {
-      id: number;
-      runId: string;
-      profileId: number;
-    }[];
+    const batches = (
+      (await (await ctx.request.get(`${server.url}/api/batches?q=CX-25`)).json()) as {
+        items: { id: number; runId: string; profileId: number }[];
+      }
+    ).items;
     const batch = batches.find((b) => b.runId === 'CX-25')!;
     batchId = batch.id;
     for (const name of ['CX-25-part1.csv', 'CX-25-part2.csv', 'CX-25-part3.csv']) {

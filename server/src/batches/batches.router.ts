@@ -5,6 +5,7 @@ import { describeIssues, idParam, validateBody } from '../common/validate';
 import {
   analysisQuerySchema,
   approveSchema,
+  batchListQuerySchema,
   createBatchSchema,
   reasonSchema,
   updateSettingsSchema,
@@ -23,8 +24,10 @@ const MANAGERS = requireRole('admin', 'lab_manager');
  */
 export function batchesRouter(batches: BatchesService): Router {
   const router = Router();
-  router.get('/', EVERYONE, async (_req, res) => {
-    res.json(await batches.list());
+  router.get('/', EVERYONE, async (req, res) => {
+    const query = batchListQuerySchema.safeParse(req.query);
+    if (!query.success) throw AppError.badRequest(`Invalid query: ${describeIssues(query.error.issues)}`);
+    res.json(await batches.list(query.data));
   });
   router.post('/', MANAGERS, validateBody(createBatchSchema), async (req, res) => {
     res.status(201).json(await batches.create(req.body, req.user!));

@@ -20,9 +20,7 @@ import type { EventBus } from '../events/event-bus';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { ReadingRow } from '../ingest/reading.entity';
 import { InstrumentProfile } from '../instruments/instrument-profile.entity';
-import { Layout } from '../layouts/layout.entity';
 import type { LayoutsService } from '../layouts/layouts.service';
-import { Manifest } from '../manifests/manifest.entity';
 import type { ManifestsService } from '../manifests/manifests.service';
 import { User } from '../users/user.entity';
 import {
@@ -34,11 +32,16 @@ import {
 } from './analysis-extras';
 import { Batch, type BatchState } from './batch.entity';
 import { BATCH_RESULT_SCHEMA_VERSION, BatchResultRecord } from './batch-result.entity';
+import { BatchListQueryBuilder } from './batch-list';
+import type { SummaryState } from './batch-summary.entity';
+import { BatchSummaryStore, inputsHash, type SummaryWrite } from './batch-summary-store';
 import type {
   ApprovalRecordDto,
   ApprovalRecordFullDto,
   BatchAnalysisDto,
   BatchDto,
+  BatchListItemDto,
+  BatchListParams,
   BatchResultSummary,
   EngineCheckDto,
   EpsilonCandidateDto,
@@ -51,11 +54,6 @@ import {
   type SettingsChange,
   batchSettingsSchema,
 } from '../contracts/batches';
-
-/** What a cached summary is valid for: the batch row and its stored files as they are. */
-function summaryKey(updatedAt: string, storedFiles: number, lastFileAt: string): string {
-  return `${updatedAt}|${storedFiles}|${lastFileAt}`;
-}
 
 export type {
   ApprovalRecordDto,
@@ -169,6 +167,8 @@ export interface BatchesOptions {
   engine?: AnalysisEngine;
   /** Lab policy: the approver neither created the batch nor marked it reviewed. */
   fourEyesApproval?: boolean;
+  /** Where background work (stored summaries) reports what went wrong. */
+  log?: (message: string, err?: unknown) => void;
 }
 
 /** The inputs of a batch's analysis, read in one go. */
@@ -189,8 +189,16 @@ export class BatchesService {
   private readonly records: Repository<BatchResultRecord>;
   private readonly engine: AnalysisEngine;
   private readonly fourEyesApproval: boolean;
-  /** Summaries by batch, valid while the batch row and its files are unchanged. */
-  private readonly summaries = new Map<number, { key: string; summary: BatchResultSummary }>();
+  private readonly log: (message: string, err?: unknown) => void;
+  private readonly listQuery: BatchListQueryBuilder;
+  private readonly store: BatchSummaryStore;
+  /** Summary refreshes running, by batch; a change during one asks for another run after it. */
+  private readonly refreshing = new Map<number, Promise<void>>();
+  private readonly refreshAgain = new Set<number>();
+  /** Analyses running, by batch, inputs and engine: a page and a summary refresh share one. */
+  private readonly computing = new Map<string, Promise<BatchResult>>();
+  private backfill: Promise<void> | null = null;
+  private closing = false;
 
   constructor(
     private readonly dataSource: DataSource,
@@ -204,6 +212,9 @@ export class BatchesService {
     this.records = dataSource.getRepository(BatchResultRecord);
     this.engine = options.engine ?? currentAnalysisEngine();
     this.fourEyesApproval = options.fourEyesApproval ?? false;
+    this.log = options.log ?? console.error;
+    this.listQuery = new BatchListQueryBuilder(dataSource);
+    this.store = new BatchSummaryStore(dataSource);
   }
 
   /** The version of the analysis this server runs. */
@@ -281,6 +292,10 @@ export class BatchesService {
           { id: In(waiting.map((f) => f.id)) },
           { status: 'stored', batchId: batch.id },
         );
+      await this.store.touch(manager, batch.id, {
+        inputsChanged: true,
+        sampleIds: manifest.samples.map((sample) => sample.sampleId),
+      });
       await this.audit.record(
         {
           actor,
@@ -295,6 +310,7 @@ export class BatchesService {
       return batch.id;
     });
     this.events.publish('batch.updated', { id, state: 'open' });
+    this.refreshSummary(id);
     return this.get(id);
   }
 
@@ -312,6 +328,16 @@ export class BatchesService {
     return batch?.id ?? null;
   }
 
+  /** Inside the file's storing transaction, once the file is stored in the batch: its summary becomes pending. */
+  async fileStored(manager: EntityManager, batchId: number): Promise<void> {
+    await this.store.touch(manager, batchId, { inputsChanged: true });
+  }
+
+  /** After the file's transaction: work out the batch's new headline in the background. */
+  fileCommitted(batchId: number): void {
+    this.refreshSummary(batchId);
+  }
+
   /** A lab manager puts an unassigned file into a batch. */
   async assignFile(fileId: number, batchId: number, actor: Actor): Promise<void> {
     const batch = await this.getBatch(batchId);
@@ -324,6 +350,7 @@ export class BatchesService {
       if (file.profileId !== batch.profileId)
         throw AppError.badRequest('The file comes from another instrument than the batch.');
       await manager.update(IntakeFile, { id: fileId }, { status: 'stored', batchId });
+      await this.store.touch(manager, batchId, { inputsChanged: true });
       await this.audit.record(
         {
           actor,
@@ -338,6 +365,7 @@ export class BatchesService {
     });
     this.events.publish('file.stored', { id: fileId, batchId });
     this.events.publish('batch.updated', { id: batchId });
+    this.refreshSummary(batchId);
   }
 
   async updateSettings(id: number, change: SettingsChange, reason: string, actor: Actor): Promise<BatchDto> {
@@ -364,6 +392,7 @@ export class BatchesService {
     const after = checkedSettings({ ...before, ...changes, epsilonSource });
     await this.dataSource.transaction(async (manager) => {
       await manager.update(Batch, { id }, { settingsJson: JSON.stringify(after) });
+      await this.store.touch(manager, id, { inputsChanged: true });
       const excluded = after.exclusions.filter(
         (e) => !before.exclusions.some((b) => b.position === e.position),
       );
@@ -382,6 +411,7 @@ export class BatchesService {
       );
     });
     this.events.publish('batch.updated', { id });
+    this.refreshSummary(id);
     return this.get(id);
   }
 
@@ -443,6 +473,7 @@ export class BatchesService {
         );
       }
       await manager.update(Batch, { id }, changes);
+      await this.store.touch(manager, id, { inputsChanged: false, now });
       await this.audit.record(
         {
           actor,
@@ -458,6 +489,8 @@ export class BatchesService {
       );
     });
     this.events.publish('batch.updated', { id, state: to });
+    // Reopened: the headline is the analysis again (the same one while inputs and engine are the same).
+    if (to === 'open') this.refreshSummary(id);
     return this.get(id);
   }
 
@@ -507,6 +540,15 @@ export class BatchesService {
       supersededById: null,
       supersededReason: null,
     });
+    await this.store.writeNow(manager, batch.id, {
+      status: 'current',
+      source: 'record',
+      inputsHash: inputsHash(batch, inputs.files),
+      engineVersion: this.engine.version.label,
+      error: null,
+      summary: summarize(result),
+      result,
+    });
   }
 
   review(id: number, actor: Actor): Promise<BatchDto> {
@@ -521,9 +563,22 @@ export class BatchesService {
     return this.transition(id, ['reviewed', 'approved'], 'open', actor, 'reopen', reason);
   }
 
-  async list(): Promise<BatchDto[]> {
-    const batches = await this.batches.find({ order: { id: 'DESC' } });
-    return Promise.all(batches.map((b) => this.toDto(b)));
+  /** A page of batches with their stored headlines: two queries, whatever the page size; no analysis. */
+  list(query: Partial<BatchListParams> = {}): Promise<{ items: BatchListItemDto[]; total: number }> {
+    return this.listQuery.page(
+      {
+        state: query.state,
+        profileId: query.profileId,
+        unapproved: query.unapproved === 'true',
+        q: query.q,
+      },
+      query,
+    );
+  }
+
+  /** Every batch with a chemical system and a temperature, with its stored headline (one query). */
+  withSystemAndTemperature(): Promise<BatchListItemDto[]> {
+    return this.listQuery.all({ withSystemAndTemperature: true }, { sort: 'createdAt', dir: 'desc' });
   }
 
   async get(id: number): Promise<BatchDto> {
@@ -537,86 +592,209 @@ export class BatchesService {
     return new Map(users.map((u) => [u.id, u.displayName]));
   }
 
-  private async toDto(b: Batch, withSummary = true): Promise<BatchDto> {
-    const m = this.dataSource.manager;
-    const [profile, layout, manifest, files, names] = await Promise.all([
-      m.findOneBy(InstrumentProfile, { id: b.profileId }),
-      m.findOneBy(Layout, { id: b.layoutId }),
-      m.findOneBy(Manifest, { id: b.manifestId }),
-      m.find(IntakeFile, {
-        where: { batchId: b.id, status: 'stored' },
-        select: { id: true, finishedAt: true },
-      }),
-      this.userNames([b.createdById, b.reviewedById, b.approvedById]),
-    ]);
-    const updatedAt = new Date(b.updatedAt).toISOString();
-    const lastFile =
-      files
-        .map((f) => f.finishedAt ?? '')
-        .sort()
-        .at(-1) ?? '';
-    return {
-      id: b.id,
-      name: b.name,
-      state: b.state,
-      profileId: b.profileId,
-      profileName: profile?.name ?? null,
-      layoutId: b.layoutId,
-      layoutName: layout?.name ?? null,
-      layoutVersion: b.layoutVersion,
-      manifestId: b.manifestId,
-      manifestName: manifest?.name ?? null,
-      manifestVersion: b.manifestVersion,
-      runId: b.runId,
-      expectedFiles: b.expectedFiles,
-      fileCount: files.length,
-      systemName: b.systemName,
-      temperatureC: b.temperatureC,
-      settings: batchSettingsSchema.parse(JSON.parse(b.settingsJson)),
-      createdAt: new Date(b.createdAt).toISOString(),
-      updatedAt,
-      lastActivityAt: lastFile > updatedAt ? lastFile : updatedAt,
-      reviewedBy: b.reviewedById ? (names.get(b.reviewedById) ?? null) : null,
-      reviewedAt: b.reviewedAt,
-      approvedBy: b.approvedById ? (names.get(b.approvedById) ?? null) : null,
-      approvedAt: b.approvedAt,
-      approvalComment: b.approvalComment,
-      createdBy: b.createdById ? (names.get(b.createdById) ?? null) : null,
-      summary:
-        withSummary && files.length
-          ? await this.summary(b, summaryKey(updatedAt, files.length, lastFile))
-          : null,
-    };
+  private async toDto(b: Batch): Promise<BatchDto> {
+    const [row] = await this.listQuery.all({ id: b.id });
+    if (!row) throw AppError.notFound(`No batch with id ${b.id}.`);
+    const { summaryState: _state, summaryError: _error, ...dto } = row;
+    return dto;
+  }
+
+  /** The stored headlines of some batches (the Overview): one query, never an analysis. */
+  storedSummaries(
+    ids: readonly number[],
+  ): Promise<Map<number, { status: SummaryState; summary: BatchResultSummary | null }>> {
+    return this.store.ofBatches(ids);
+  }
+
+  // -------------------------------------------------------------------------------------------------
+  // Stored summaries
+
+  /**
+   * Work out a batch's stored headline again, in the background: one run per batch at a time, and one
+   * more when a change came in during it. Nothing is analysed when the inputs and the engine are those
+   * the stored headline was computed from.
+   */
+  refreshSummary(id: number): void {
+    if (this.closing) return;
+    if (this.refreshing.has(id)) {
+      this.refreshAgain.add(id);
+      return;
+    }
+    const run = (async () => {
+      do {
+        this.refreshAgain.delete(id);
+        try {
+          await this.updateSummary(id);
+        } catch (err) {
+          if (!this.closing) this.log(`Could not store the summary of batch ${id}`, err);
+        }
+      } while (this.refreshAgain.has(id) && !this.closing);
+    })();
+    this.refreshing.set(id, run);
+    void run.finally(() => this.refreshing.delete(id));
+  }
+
+  /** Wait until no summary is being worked out (tests, shutdown). */
+  async summariesIdle(): Promise<void> {
+    while (this.refreshing.size || this.backfill) {
+      await Promise.allSettled([...this.refreshing.values(), ...(this.backfill ? [this.backfill] : [])]);
+    }
   }
 
   /**
-   * The headline already worked out for this batch as it is now (same row, same stored files), or null:
-   * never runs an analysis (the Overview reads this).
+   * At start, in the background: a summary row for every batch made before summaries were stored, then
+   * the headlines still pending (a stop during an analysis) or computed by another engine, one at a time.
+   * Once written, a restart finds them and analyses nothing.
    */
-  knownSummary(
-    b: Pick<Batch, 'id' | 'updatedAt'>,
-    storedFiles: number,
-    lastFileAt: string | null,
-  ): BatchResultSummary | null {
-    const cached = this.summaries.get(b.id);
-    const key = summaryKey(new Date(b.updatedAt).toISOString(), storedFiles, lastFileAt ?? '');
-    return cached?.key === key ? cached.summary : null;
+  startSummaryBackfill(): Promise<void> {
+    this.backfill ??= (async () => {
+      try {
+        for (const id of await this.store.missing()) {
+          if (this.closing) return;
+          const batch = await this.batches.findOneBy({ id });
+          if (!batch) continue;
+          const manifest = await this.manifests.get(batch.manifestId, batch.manifestVersion);
+          await this.dataSource.transaction((manager) =>
+            this.store.touch(manager, id, {
+              inputsChanged: true,
+              sampleIds: manifest.samples.map((sample) => sample.sampleId),
+              now: new Date(batch.updatedAt).toISOString(),
+            }),
+          );
+        }
+        for (const id of await this.store.toRefresh(this.engine.version.label)) {
+          if (this.closing) return;
+          this.refreshSummary(id);
+          await this.refreshing.get(id);
+        }
+      } catch (err) {
+        if (!this.closing) this.log('Could not fill in the stored batch summaries', err);
+      }
+    })().finally(() => {
+      this.backfill = null;
+    });
+    return this.backfill;
   }
 
-  /** The analysis headline: of the approval record when approved, else computed once per change. */
-  private async summary(b: Batch, key: string): Promise<BatchResultSummary | null> {
-    const cached = this.summaries.get(b.id);
-    if (cached?.key === key) return cached.summary;
-    try {
-      const record = b.state === 'approved' ? await this.currentRecordRow(b.id) : null;
-      const summary = summarize(
-        record ? (JSON.parse(record.resultJson) as BatchResult) : (await this.analysis(b.id)).result,
-      );
-      this.summaries.set(b.id, { key, summary });
-      return summary;
-    } catch {
-      return null;
+  /** Stop background summary work and wait for what runs (shutdown). */
+  async close(): Promise<void> {
+    this.closing = true;
+    await this.summariesIdle();
+  }
+
+  private async updateSummary(id: number): Promise<void> {
+    const batch = await this.batches.findOneBy({ id });
+    const row = batch ? await this.store.find(id) : null;
+    if (!batch || !row) return;
+    const revision = row.revision;
+    let write: SummaryWrite;
+    const record = batch.state === 'approved' ? await this.currentRecordRow(id) : null;
+    if (record) {
+      if (row.source === 'record' && row.status === 'current') return;
+      const result = JSON.parse(record.resultJson) as BatchResult;
+      write = {
+        status: 'current',
+        source: 'record',
+        inputsHash: null,
+        engineVersion: record.engineVersion,
+        error: null,
+        summary: summarize(result),
+        result,
+      };
+    } else {
+      const files = await this.dataSource.manager.find(IntakeFile, {
+        where: { batchId: id, status: 'stored' },
+        select: { id: true, sha256: true },
+      });
+      const hash = inputsHash(batch, files);
+      const engineVersion = this.engine.version.label;
+      const same = row.inputsHash === hash && row.engineVersion === engineVersion;
+      if (!files.length) {
+        write = {
+          status: 'none',
+          source: null,
+          inputsHash: hash,
+          engineVersion,
+          error: null,
+          summary: null,
+          result: null,
+        };
+      } else if (same && (row.summaryJson || row.error)) {
+        // The stored headline (or failure) is of these very inputs: nothing to analyse.
+        if (row.status !== 'pending' && row.source === 'analysis') return;
+        write = {
+          status: row.summaryJson ? 'current' : 'failed',
+          source: 'analysis',
+          inputsHash: hash,
+          engineVersion,
+          error: row.error,
+          summary: row.summaryJson ? (JSON.parse(row.summaryJson) as BatchResultSummary) : null,
+          result: row.resultJson ? (JSON.parse(row.resultJson) as BatchResult) : null,
+        };
+      } else {
+        const inputs = await this.loadInputs(batch);
+        const settings = withWellPathLengths(
+          toAnalysisSettings(batchSettingsSchema.parse(JSON.parse(batch.settingsJson))),
+          inputs.wellPathLengths,
+        );
+        try {
+          const result = await this.computeResult(id, hash, inputs, settings);
+          write = {
+            status: 'current',
+            source: 'analysis',
+            inputsHash: hash,
+            engineVersion,
+            error: null,
+            summary: summarize(result),
+            result,
+          };
+        } catch (err) {
+          if (err instanceof AppError && err.status === 503) throw err; // busy: not the batch's fault
+          const error = err instanceof Error ? err.message : String(err);
+          write = {
+            status: 'failed',
+            source: 'analysis',
+            inputsHash: hash,
+            engineVersion,
+            error,
+            summary: null,
+            result: null,
+          };
+        }
+        write.sampleIds = inputs.samples.map((sample) => sample.sampleId);
+      }
     }
+    const changed =
+      row.status !== write.status ||
+      row.summaryJson !== (write.summary ? JSON.stringify(write.summary) : null) ||
+      row.error !== write.error;
+    if (!(await this.store.writeIfRevision(id, revision, write))) {
+      this.refreshAgain.add(id); // a newer change came in: its inputs are analysed next
+      return;
+    }
+    if (changed) this.events.publish('batch.updated', { id });
+  }
+
+  /** The analysis of a batch's current inputs, off the main thread; one run per inputs and engine at a time. */
+  private computeResult(
+    id: number,
+    hash: string,
+    inputs: BatchInputs,
+    settings: AnalysisSettings,
+  ): Promise<BatchResult> {
+    const key = `${id}|${hash}|${this.engine.version.label}`;
+    let running = this.computing.get(key);
+    if (!running) {
+      running = analyzeWith(this.engine, inputs.readings, inputs.samples, settings).then((result) =>
+        addWaterNotes(result, inputs.wellPathLengths),
+      );
+      this.computing.set(key, running);
+      void running.then(
+        () => this.computing.delete(key),
+        () => this.computing.delete(key),
+      );
+    }
+    return running;
   }
 
   /** The readings, samples, layout and files of a batch, read through `manager` (a transaction's, or the default). */
@@ -674,7 +852,7 @@ export class BatchesService {
     options: { engineCheck?: boolean } = {},
   ): Promise<BatchAnalysisDto> {
     const entity = await this.getBatch(id);
-    const batch = await this.toDto(entity, false);
+    const batch = await this.toDto(entity);
     const inputs = await this.loadInputs(entity);
     const hasOverrides = Object.keys(overrides).length > 0;
     const row = entity.state === 'approved' && !hasOverrides ? await this.currentRecordRow(id) : null;
@@ -697,10 +875,12 @@ export class BatchesService {
       toAnalysisSettings(batch.settings, overrides),
       inputs.wellPathLengths,
     );
-    const result = addWaterNotes(
-      await analyzeWith(this.engine, inputs.readings, inputs.samples, settings),
-      inputs.wellPathLengths,
-    );
+    const result = hasOverrides
+      ? addWaterNotes(
+          await analyzeWith(this.engine, inputs.readings, inputs.samples, settings),
+          inputs.wellPathLengths,
+        )
+      : await this.currentResult(entity, inputs, settings);
     if (inputs.files.length && !hasOverrides) batch.summary = summarize(result);
     const spectral = await this.spectral(inputs, settings);
     return {
@@ -712,6 +892,38 @@ export class BatchesService {
       record: null,
       approvals: await this.recordsOf(id),
     };
+  }
+
+  /**
+   * The analysis of the batch as it stands: the stored one when it is of these inputs and this engine,
+   * else computed off the main thread and stored (when no newer change came in meanwhile).
+   */
+  private async currentResult(
+    batch: Batch,
+    inputs: BatchInputs,
+    settings: AnalysisSettings,
+  ): Promise<BatchResult> {
+    const row = await this.store.find(batch.id);
+    const hash = inputsHash(batch, inputs.files);
+    const engineVersion = this.engine.version.label;
+    if (row?.resultJson && row.inputsHash === hash && row.engineVersion === engineVersion)
+      return JSON.parse(row.resultJson) as BatchResult;
+    const result = await this.computeResult(batch.id, hash, inputs, settings);
+    if (row && inputs.files.length) {
+      const write: SummaryWrite = {
+        status: 'current',
+        source: 'analysis',
+        inputsHash: hash,
+        engineVersion,
+        error: null,
+        summary: summarize(result),
+        result,
+      };
+      const changed = row.summaryJson !== JSON.stringify(write.summary) || row.status !== 'current';
+      if ((await this.store.writeIfRevision(batch.id, row.revision, write)) && changed)
+        this.events.publish('batch.updated', { id: batch.id });
+    }
+    return result;
   }
 
   /** The whole-spectrum analysis when the batch has spectra (on an analysis thread); else nothing. */

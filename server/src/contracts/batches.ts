@@ -8,7 +8,8 @@ import {
   spectralResultSchema,
   waterPeakPathLengthsSchema,
 } from './analysis-types';
-import { batchStateSchema, intakeStatusSchema } from './enums';
+import { pageOf } from './common';
+import { BATCH_STATES, batchStateSchema, intakeStatusSchema } from './enums';
 import { batchSettingsSchema, settingFields } from './settings';
 
 export { type BatchSettings, type EpsilonSource, batchSettingsSchema, epsilonSourceSchema } from './settings';
@@ -60,6 +61,27 @@ export const analysisQuerySchema = z.strictObject({
   /** For an approved batch: also analyse with today's engine and say whether the headline differs. */
   engineCheck: z.enum(['true', 'false']).optional(),
 });
+
+/** GET /api/batches: filters, order and page (paged like the Intake list). */
+export const batchListQuerySchema = z.strictObject({
+  state: z.enum(BATCH_STATES).optional(),
+  /** Only batches of this instrument profile. */
+  profileId: z.coerce.number().int().positive().optional(),
+  /** Not approved: open or reviewed (the batches a file may still join). */
+  unapproved: z.enum(['true', 'false']).optional(),
+  /** Part of a batch name, run id, sample id of its manifest, or name of one of its files. */
+  q: z.string().trim().max(200).optional(),
+  sort: z
+    .enum(['lastActivityAt', 'createdAt', 'name', 'state', 'instrument', 'runId', 'files', 'qc', 'k'])
+    .default('lastActivityAt'),
+  dir: z.enum(['asc', 'desc']).default('desc'),
+  page: z.coerce.number().int().min(0).default(0),
+  pageSize: z.coerce.number().int().min(1).max(500).default(25),
+});
+/** What a client may send (strings or numbers). */
+export type BatchListQuery = z.input<typeof batchListQuerySchema>;
+/** The query as the server reads it, defaults filled in. */
+export type BatchListParams = z.output<typeof batchListQuerySchema>;
 
 // ---------------------------------------------------------------------------------------------------
 // Responses
@@ -119,6 +141,24 @@ export const batchSchema = z.object({
   summary: batchResultSummarySchema.nullable(),
 });
 export type BatchDto = z.infer<typeof batchSchema>;
+
+/**
+ * Where a batch's stored headline stands: `none` (no file yet), `pending` (its inputs changed and the
+ * analysis is on its way; `summary` is the previous one, if any), `current`, `failed` (the analysis of
+ * its current inputs fails; `summaryError` says why).
+ */
+export const SUMMARY_STATES = ['none', 'pending', 'current', 'failed'] as const;
+export const summaryStateSchema = z.enum(SUMMARY_STATES);
+export type SummaryState = z.infer<typeof summaryStateSchema>;
+
+/** One row of GET /api/batches: the batch and its stored headline, never an analysis on read. */
+export const batchListItemSchema = batchSchema.extend({
+  summaryState: summaryStateSchema,
+  summaryError: z.string().nullable(),
+});
+export type BatchListItemDto = z.infer<typeof batchListItemSchema>;
+export const batchPageSchema = pageOf(batchListItemSchema);
+export type BatchPage = z.infer<typeof batchPageSchema>;
 
 /** One input file as an approval record names it. */
 export const recordedFileSchema = z.object({

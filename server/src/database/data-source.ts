@@ -7,6 +7,7 @@ import { AuditEntry } from '../audit/audit-entry.entity';
 import { SessionRow } from '../auth/session.entity';
 import { Batch } from '../batches/batch.entity';
 import { BatchResultRecord } from '../batches/batch-result.entity';
+import { BatchSummaryRow } from '../batches/batch-summary.entity';
 import { BatchNotice, NotificationSettingsRow, OutboxMessage } from '../mail/mail.entity';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { ReadingRow } from '../ingest/reading.entity';
@@ -35,6 +36,7 @@ export const entities = [
   ManifestVersion,
   Batch,
   BatchResultRecord,
+  BatchSummaryRow,
   OutboxMessage,
   NotificationSettingsRow,
   BatchNotice,

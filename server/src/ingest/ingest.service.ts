@@ -26,6 +26,12 @@ export type BatchMatcher = (
   runId: string | null,
 ) => Promise<number | null>;
 
+/** What the batches feature does when a file is stored in a batch: in the transaction, and after the commit. */
+export interface BatchStoreHooks {
+  stored(manager: EntityManager, batchId: number): Promise<void>;
+  committed(batchId: number): void;
+}
+
 export interface ReceivedFile {
   content: Buffer;
   originalName: string;
@@ -58,6 +64,7 @@ export class IngestService {
   private readonly files: Repository<IntakeFile>;
   private readonly serial = new SerialRunner();
   private matchBatch: BatchMatcher = async () => null;
+  private batchHooks: BatchStoreHooks | null = null;
 
   constructor(
     private readonly dataSource: DataSource,
@@ -69,8 +76,9 @@ export class IngestService {
   }
 
   /** Set once at start-up, when the batches feature is wired in. */
-  useBatchMatcher(matcher: BatchMatcher): void {
+  useBatchMatcher(matcher: BatchMatcher, hooks?: BatchStoreHooks): void {
     this.matchBatch = matcher;
+    this.batchHooks = hooks ?? null;
   }
 
   /**
@@ -203,6 +211,7 @@ export class IngestService {
           finishedAt: new Date().toISOString(),
         },
       );
+      if (batch) await this.batchHooks?.stored(manager, batch);
       return batch;
     });
     this.events.publish('file.stored', {
@@ -213,7 +222,10 @@ export class IngestService {
       batchId,
       status: batchId ? 'stored' : 'unassigned',
     });
-    if (batchId) this.events.publish('batch.updated', { id: batchId });
+    if (batchId) {
+      this.events.publish('batch.updated', { id: batchId });
+      this.batchHooks?.committed(batchId);
+    }
     return batchId ? 'stored' : 'unassigned';
   }
 

@@ -1,6 +1,6 @@
 import { InstrumentPresence } from '../watchers/watcher-credential.entity';
 import { type DataSource, In } from 'typeorm';
-import type { BatchesService } from '../batches/batches.service';
+import type { BatchResultSummary, BatchesService } from '../batches/batches.service';
 import { Batch } from '../batches/batch.entity';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { INTAKE_ROLES } from '../ingest/intake.router';
@@ -38,8 +38,8 @@ interface FileAggregate {
 }
 
 /**
- * The Overview: a handful of aggregate queries, no analysis. QC counts are those already worked out
- * (BatchesService.knownSummary); a batch nobody has looked at since its last file says so.
+ * The Overview: a handful of aggregate queries, no analysis. QC counts are the stored summaries
+ * (BatchesService.storedSummaries); a batch whose headline is still being worked out says so.
  */
 export class OverviewService {
   constructor(
@@ -53,8 +53,9 @@ export class OverviewService {
     const open = await m.find(Batch, { where: { state: In(['open', 'reviewed']) } });
     const files = await this.fileAggregates(open.map((b) => b.id));
     const profileNames = await this.profileNames(open.map((b) => b.profileId));
+    const summaries = await this.batches.storedSummaries(open.map((b) => b.id));
     const rows = open
-      .map((b) => this.toBatch(b, files.get(b.id), profileNames))
+      .map((b) => this.toBatch(b, files.get(b.id), profileNames, summaries.get(b.id)))
       .sort((a, b) => b.lastActivityAt.localeCompare(a.lastActivityAt) || b.id - a.id);
     const byId = new Map(open.map((b) => [b.id, b]));
     const awaiting: OverviewReviewItem[] = rows.flatMap((row) => {
@@ -122,13 +123,18 @@ export class OverviewService {
     return new Map(profiles.map((p) => [p.id, p.name]));
   }
 
-  private toBatch(b: Batch, agg: FileAggregate | undefined, names: Map<number, string>): OverviewBatch {
+  private toBatch(
+    b: Batch,
+    agg: FileAggregate | undefined,
+    names: Map<number, string>,
+    stored: { status: string; summary: BatchResultSummary | null } | undefined,
+  ): OverviewBatch {
     const updatedAt = new Date(b.updatedAt).toISOString();
     const lastFileAt = agg?.lastFileAt ?? null;
     const storedFiles = agg?.storedFiles ?? 0;
     let qc: OverviewQc = { state: 'no-files', flagCount: null, errorCount: null };
     if (storedFiles > 0) {
-      const known = this.batches.knownSummary(b, storedFiles, lastFileAt);
+      const known = stored?.status === 'current' ? stored.summary : null;
       qc = known
         ? { state: 'known', flagCount: known.qcFlagCount, errorCount: known.qcErrorCount }
         : { state: 'not-analysed', flagCount: null, errorCount: null };

@@ -9,12 +9,12 @@ export class TemperaturesService {
   constructor(private readonly batches: BatchesService) {}
 
   async systems(options: { includeUnapproved?: boolean } = {}): Promise<SystemTemperatures[]> {
-    const all = (await this.batches.list()).filter((b) => b.systemName && b.temperatureC !== null);
+    const all = await this.batches.withSystemAndTemperature();
     const names = [...new Set(all.map((b) => b.systemName as string))].sort();
     const out: SystemTemperatures[] = [];
     for (const systemName of names) {
       const points: TemperaturePoint[] = [];
-      // The list already carries each batch's analysis headline (cached per change): no second analysis here.
+      // Each batch's stored headline (written when its analysis changed): no analysis here.
       for (const batch of all.filter((b) => b.systemName === systemName)) {
         const summary = batch.summary;
         points.push({

@@ -123,7 +123,7 @@ describe('approved means frozen: the approval record', () => {
     const same = (await nowAgent.get(`/api/batches/${id}/analysis?engineCheck=true`)).body.engineCheck;
     expect(same).toMatchObject({ sameEngine: true, differs: false });
 
-    const listed = (await laterAgent.get('/api/batches')).body.find((b: { id: number }) => b.id === id);
+    const listed = (await laterAgent.get('/api/batches')).body.items.find((b: { id: number }) => b.id === id);
     expect(listed.summary).toEqual(signed.record.summary);
 
     for (const content of ['results', 'readings']) {

@@ -495,7 +495,7 @@ describe('layouts, manifests and batches', () => {
       expect(analysis.body.readings.length).toBe(rows.length);
       expect(analysis.body.result.calibration.slope).toBeGreaterThan(0);
       expect(analysis.body.result.stoichiometry.best).toBe('1:1');
-      const listed = (await (await t.agent('scientist')).get('/api/batches')).body.find(
+      const listed = (await (await t.agent('scientist')).get('/api/batches')).body.items.find(
         (b: { id: number }) => b.id === batch.body.id,
       );
       const best = analysis.body.result.stoichiometry.candidates.find(

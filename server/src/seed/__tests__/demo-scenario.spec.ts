@@ -16,7 +16,7 @@ describe('demo scenario', () => {
 
   it('seeds layouts, manifests and batches once: two approved temperatures, two open batches waiting for the demo instrument', async () => {
     expect(await seedDemoScenario(t)).toBe(true);
-    const batches = await t.services.batches.list();
+    const batches = (await t.services.batches.list({ pageSize: 100 })).items;
     expect(batches.map((b) => [b.runId, b.state, b.fileCount]).sort()).toEqual([
       ['CX-15', 'approved', 1],
       ['CX-25', 'open', 0],
@@ -52,7 +52,7 @@ describe('demo scenario', () => {
       }
       expect((await t.services.ingest.getDto(receipt.id)).status).toBe('stored');
     }
-    const batch = (await t.services.batches.list()).find((b) => b.runId === 'SP-7')!;
+    const batch = (await t.services.batches.list({ q: 'SP-7' })).items.find((b) => b.runId === 'SP-7')!;
     expect(batch.fileCount).toBe(2);
     const analysis = await t.services.batches.analysis(batch.id);
     expect(analysis.spectralError).toBeNull();

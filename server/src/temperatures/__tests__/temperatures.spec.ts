@@ -118,6 +118,8 @@ describe("K across temperatures (van 't Hoff)", () => {
     ]);
     expect(approvedOnly[0].vantHoff.n).toBe(2);
 
+    // The open batch's K is its stored summary, written once its analysis has run in the background.
+    await t.services.batches.summariesIdle();
     const all = (await scientist.get('/api/temperatures?includeUnapproved=true')).body[0];
     expect(all.model).toBe('1:1');
     for (const p of all.points) expect(p.k).toBeCloseTo(kAt(p.temperatureC), 3);

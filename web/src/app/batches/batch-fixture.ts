@@ -1,4 +1,4 @@
-import type { Batch } from './batch';
+import type { Batch, BatchListItem } from './batch';
 import { DEFAULT_BATCH_SETTINGS } from '@equilight/contracts';
 
 /** An invented batch for component tests. */
@@ -36,5 +36,16 @@ export function batchFixture(overrides: Partial<Batch> = {}): Batch {
     approvalComment: null,
     summary: null,
     ...overrides,
+  };
+}
+
+/** An invented row of the batches list: a batch and where its stored headline stands. */
+export function batchListItemFixture(overrides: Partial<BatchListItem> = {}): BatchListItem {
+  const { summaryState, summaryError, ...batch } = overrides;
+  const item = batchFixture(batch);
+  return {
+    ...item,
+    summaryState: summaryState ?? (item.summary ? 'current' : item.fileCount ? 'pending' : 'none'),
+    summaryError: summaryError ?? null,
   };
 }

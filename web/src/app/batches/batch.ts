@@ -1,5 +1,7 @@
 import {
   type BatchDto,
+  type BatchListItemDto,
+  type BatchListQuery,
   type CalibrationModel,
   type CreateBatchRequest,
   DEFAULT_BATCH_SETTINGS,
@@ -24,8 +26,27 @@ export {
   PLATE_FORMAT_LABELS as FORMAT_LABELS,
 } from '@equilight/contracts';
 
-/** A batch as the API sends it (GET /api/batches, /api/batches/:id). */
+/** A batch as the API sends it (GET /api/batches/:id). */
 export type Batch = BatchDto;
+
+/** One row of the batches list: the batch and where its stored headline stands. */
+export type BatchListItem = BatchListItemDto;
+export type { BatchPage, SummaryState } from '@equilight/contracts';
+
+export type BatchSort = NonNullable<BatchListQuery['sort']>;
+
+/** What the batches list asks for; '' and null leave a filter out. */
+export interface BatchListRequest {
+  state?: BatchDto['state'] | '';
+  profileId?: number | null;
+  /** Only open and reviewed batches (the ones a file may still join). */
+  unapproved?: boolean;
+  q?: string;
+  sort?: BatchSort;
+  dir?: 'asc' | 'desc';
+  page?: number;
+  pageSize?: number;
+}
 
 /** POST /api/batches. Settings left out take the instrument's or the product's defaults. */
 export type NewBatch = CreateBatchRequest;

@@ -1,5 +1,9 @@
 import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import {
+  HttpTestingController,
+  type TestRequest,
+  provideHttpClientTesting,
+} from '@angular/common/http/testing';
 import { signal } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
@@ -8,11 +12,11 @@ import { AuthService } from '../core/auth/auth.service';
 import type { Role } from '../core/auth/user';
 import { type LiveEvent, LiveEventsService, type LiveEventType } from '../core/live/live-events.service';
 import { formatK } from '@equilight/analysis';
-import type { Batch, BatchResultSummary } from './batch';
-import { batchFixture } from './batch-fixture';
-import { BATCHES_LIVE_DEBOUNCE_MS, BatchesPage } from './batches-page';
+import type { BatchListItem, BatchResultSummary } from './batch';
+import { batchListItemFixture as batchFixture } from './batch-fixture';
+import { BATCHES_LIVE_DEBOUNCE_MS, BATCHES_SEARCH_DEBOUNCE_MS, BatchesPage } from './batches-page';
 
-const BATCHES: Batch[] = [
+const BATCHES: BatchListItem[] = [
   batchFixture(),
   batchFixture({
     id: 2,
@@ -74,7 +78,11 @@ class FakeLive {
 }
 
 describe('BatchesPage', () => {
-  async function setup(role: Role = 'lab_manager') {
+  const pageOf = (items: BatchListItem[], total = items.length) => ({ items, total });
+  const list = (http: HttpTestingController): TestRequest => http.expectOne((r) => r.url === '/api/batches');
+  const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+  async function setup(role: Role = 'lab_manager', first: BatchListItem[] = BATCHES) {
     const live = new FakeLive();
     TestBed.configureTestingModule({
       imports: [BatchesPage],
@@ -89,52 +97,81 @@ describe('BatchesPage', () => {
     const fixture = TestBed.createComponent(BatchesPage);
     const http = TestBed.inject(HttpTestingController);
     fixture.detectChanges();
-    http.expectOne('/api/batches').flush(BATCHES);
     await fixture.whenStable();
-    return { fixture, http, live, el: fixture.nativeElement as HTMLElement };
+    const req = list(http);
+    req.flush(pageOf(first));
+    await fixture.whenStable();
+    return { fixture, http, live, el: fixture.nativeElement as HTMLElement, firstRequest: req.request };
+  }
+
+  /** A live event, then the page's one fetch after the quiet time, answered with `items`. */
+  async function liveRefresh(
+    ctx: { fixture: { whenStable(): Promise<unknown> }; http: HttpTestingController; live: FakeLive },
+    items: BatchListItem[],
+  ) {
+    ctx.live.events.next({
+      type: 'batch.updated',
+      data: { id: items[0]?.id ?? 1 },
+      at: new Date().toISOString(),
+    });
+    await wait(BATCHES_LIVE_DEBOUNCE_MS + 50);
+    list(ctx.http).flush(pageOf(items));
+    await ctx.fixture.whenStable();
   }
 
   const rows = (el: HTMLElement) =>
     [...el.querySelectorAll('tr.mat-mdc-row')].map((r) => r.textContent ?? '');
+  const rowIds = (el: HTMLElement) =>
+    [...el.querySelectorAll('tr[data-batch-id]')].map((r) => Number(r.getAttribute('data-batch-id')));
 
-  it('lists batches, most recent activity first, with state as icon and word, versions and file counts', async () => {
+  it('asks the server for the first page, most recent activity first', async () => {
+    const { firstRequest } = await setup();
+    expect(firstRequest.params.get('sort')).toBe('lastActivityAt');
+    expect(firstRequest.params.get('dir')).toBe('desc');
+    expect(firstRequest.params.get('page')).toBe('0');
+    expect(firstRequest.params.get('pageSize')).toBe('25');
+    expect(firstRequest.params.has('q')).toBe(false);
+  });
+
+  it('lists batches in the order the server sent, with state as icon and word, versions and file counts', async () => {
     const { el } = await setup();
-    const list = rows(el);
-    expect(list).toHaveLength(3);
-    expect(list[0]).toContain('Iron–ligand Job series');
-    expect(list[0]).toContain('Open');
-    expect(list[0]).toContain('Job plate v2');
-    expect(list[0]).toContain('Job mixtures v1');
-    expect(list[0]).toContain('1 / 3');
-    expect(list[1]).toContain('Reviewed');
-    expect(list[2]).toContain('Approved');
+    const shown = rows(el);
+    expect(shown).toHaveLength(3);
+    expect(shown[0]).toContain('Iron–ligand Job series');
+    expect(shown[0]).toContain('Open');
+    expect(shown[0]).toContain('Job plate v2');
+    expect(shown[0]).toContain('Job mixtures v1');
+    expect(shown[0]).toContain('1 / 3');
+    expect(shown[1]).toContain('Approved');
+    expect(shown[2]).toContain('Reviewed');
     expect(el.querySelectorAll('tr.mat-mdc-row eq-batch-state-label mat-icon')).toHaveLength(3);
   });
 
-  it('shows the QC flag count and the best fit once a batch has results', async () => {
-    const { fixture, http, live, el } = await setup();
-    live.events.next({ type: 'batch.updated', data: { id: 1, state: 'open' }, at: new Date().toISOString() });
-    await new Promise((r) => setTimeout(r, BATCHES_LIVE_DEBOUNCE_MS + 50));
-    http
-      .expectOne('/api/batches')
-      .flush([
-        batchFixture({ summary: summaryOf({ k: 839.04, kSe: 20, kCi95: [800, 880] }) }),
-        batchFixture({ id: 2, name: 'Empty run', summary: null }),
-      ]);
-    await fixture.whenStable();
-    const qc = [...el.querySelectorAll('[data-testid="batch-qc"]')].map((c) => c.textContent?.trim());
-    const best = [...el.querySelectorAll('[data-testid="batch-best"]')].map((c) => text(c));
+  it('shows the QC flag count and the best fit once a batch has results, and says when it is being analysed', async () => {
+    const ctx = await setup();
+    await liveRefresh(ctx, [
+      batchFixture({ summary: summaryOf({ k: 839.04, kSe: 20, kCi95: [800, 880] }) }),
+      batchFixture({ id: 2, name: 'Empty run', summary: null, fileCount: 1, summaryState: 'pending' }),
+      batchFixture({
+        id: 3,
+        name: 'Broken',
+        summary: null,
+        summaryState: 'failed',
+        summaryError: 'no standards',
+      }),
+    ]);
+    const qc = [...ctx.el.querySelectorAll('[data-testid="batch-qc"]')].map((c) => c.textContent?.trim());
+    const best = [...ctx.el.querySelectorAll('[data-testid="batch-best"]')].map((c) => text(c));
     expect(qc).toContain('error 2 (1 error)');
     // Digits follow the interval (the shared format): 839 with a CI of 800 to 880.
-    expect(best).toContain('1:1 839 L·mol⁻¹');
-    expect(best).toContain('—');
+    expect(best[0]).toBe('1:1 839 L·mol⁻¹');
+    expect(best[1]).toBe('— pending being analysed');
+    expect(best[2]).toBe('error analysis fails');
   });
 
   it('shows a bound as a bound, a poorly determined K as its interval, and a failed fit without a number', async () => {
-    const { fixture, http, live, el } = await setup();
-    live.events.next({ type: 'batch.updated', data: { id: 1, state: 'open' }, at: new Date().toISOString() });
-    await new Promise((r) => setTimeout(r, BATCHES_LIVE_DEBOUNCE_MS + 50));
-    http.expectOne('/api/batches').flush([
+    const ctx = await setup('lab_manager', []);
+    await liveRefresh(ctx, [
       batchFixture({
         id: 11,
         name: 'Bound',
@@ -162,10 +199,9 @@ describe('BatchesPage', () => {
         }),
       }),
     ]);
-    await fixture.whenStable();
     const cell = (id: string) =>
       text(
-        el
+        ctx.el
           .querySelector(`a[href="/batches/${id}"]`)!
           .closest('tr')!
           .querySelector('[data-testid="batch-best"]'),
@@ -176,25 +212,39 @@ describe('BatchesPage', () => {
     expect(cell('13').replace('1:1', '')).not.toMatch(/\d/);
   });
 
-  it('filters on name, state and run id', async () => {
-    const { fixture, el } = await setup();
-    const input = el.querySelector<HTMLInputElement>('input[matInput]')!;
-    input.value = 'approved';
-    input.dispatchEvent(new Event('input'));
+  it('searches on the server after a pause in typing, from the first page', async () => {
+    const { fixture, http, el } = await setup();
+    const input = el.querySelector<HTMLInputElement>('[data-testid="batches-search"]')!;
+    expect(el.querySelector('.eq-filter-text mat-label')!.textContent).toBe('Sample id, run id or file name');
+    for (const typed of ['S', 'ST', 'STD-1']) {
+      input.value = typed;
+      input.dispatchEvent(new Event('input'));
+    }
+    await wait(BATCHES_SEARCH_DEBOUNCE_MS + 50);
+    await fixture.whenStable();
+    const req = list(http);
+    expect(req.request.params.get('q')).toBe('STD-1');
+    expect(req.request.params.get('page')).toBe('0');
+    req.flush(pageOf([BATCHES[2]!]));
     await fixture.whenStable();
     expect(rows(el)).toHaveLength(1);
-    expect(rows(el)[0]).toContain('Cobalt');
-    input.value = 'run-0400';
-    input.dispatchEvent(new Event('input'));
-    await fixture.whenStable();
     expect(rows(el)[0]).toContain('Nickel');
+    http.verify();
   });
 
-  it('sorts by name when the header is clicked', async () => {
-    const { fixture, el } = await setup();
+  it('sorts on the server when a header is clicked', async () => {
+    const { fixture, http, el } = await setup();
     el.querySelector<HTMLElement>('th.mat-column-name .mat-sort-header-container')!.click();
     await fixture.whenStable();
+    const req = list(http);
+    expect(req.request.params.get('sort')).toBe('name');
+    expect(req.request.params.get('dir')).toBe('asc');
+    req.flush(pageOf([BATCHES[1]!, BATCHES[0]!, BATCHES[2]!]));
+    await fixture.whenStable();
     expect(rows(el)[0]).toContain('Cobalt');
+    el.querySelector<HTMLElement>('th.mat-column-best .mat-sort-header-container')!.click();
+    await fixture.whenStable();
+    expect(list(http).request.params.get('sort')).toBe('k');
   });
 
   it('offers "New batch" to lab managers but not to scientists', async () => {
@@ -205,34 +255,92 @@ describe('BatchesPage', () => {
     expect(scientist.el.querySelector('[data-testid="new-batch"]')).toBeNull();
   });
 
-  it('fetches the list again once after a burst of live events', async () => {
-    const { fixture, http, live, el } = await setup();
+  it('fetches the list again once after a burst of live events, and updates the rows where they stand', async () => {
+    const ctx = await setup();
     const at = new Date().toISOString();
-    live.events.next({ type: 'file.stored', data: { id: 9, batchId: 1, status: 'stored' }, at });
-    live.events.next({ type: 'batch.updated', data: { id: 1, state: 'open' }, at });
-    live.events.next({ type: 'file.quarantined', data: { id: 10 }, at });
-    await new Promise((r) => setTimeout(r, BATCHES_LIVE_DEBOUNCE_MS + 50));
-    http.expectOne('/api/batches').flush([batchFixture({ fileCount: 2 })]);
-    http.verify();
+    ctx.live.events.next({ type: 'file.stored', data: { id: 9, batchId: 1, status: 'stored' }, at });
+    ctx.live.events.next({ type: 'batch.updated', data: { id: 1, state: 'open' }, at });
+    ctx.live.events.next({ type: 'file.quarantined', data: { id: 10 }, at });
+    await wait(BATCHES_LIVE_DEBOUNCE_MS + 50);
+    list(ctx.http).flush(pageOf([batchFixture({ fileCount: 2 }), BATCHES[1]!, BATCHES[2]!]));
+    ctx.http.verify();
+    await ctx.fixture.whenStable();
+    expect(rows(ctx.el)).toHaveLength(3);
+    expect(rows(ctx.el)[0]).toContain('2 / 3');
+  });
+
+  it('while the pointer is in the table, live events change rows in place and never move them', async () => {
+    const ctx = await setup();
+    const wrap = ctx.el.querySelector<HTMLElement>('.eq-table-wrap')!;
+    const firstRow = ctx.el.querySelector('tr[data-batch-id="1"]');
+    wrap.dispatchEvent(new Event('pointerenter'));
+    // Batch 3 got a file: the server now sorts it first.
+    await liveRefresh(ctx, [
+      batchFixture({ id: 3, name: 'Nickel check', state: 'reviewed', fileCount: 3 }),
+      BATCHES[0]!,
+      BATCHES[1]!,
+    ]);
+    expect(rowIds(ctx.el)).toEqual([1, 2, 3]);
+    expect(rows(ctx.el)[2]).toContain('3 / 3');
+    // The same row element: updated, not re-created.
+    expect(ctx.el.querySelector('tr[data-batch-id="1"]')).toBe(firstRow);
+    expect(ctx.el.querySelector('[data-testid="show-new-batches"]')).toBeNull();
+    // Once the pointer leaves, the server's order shows.
+    wrap.dispatchEvent(new Event('pointerleave'));
+    await ctx.fixture.whenStable();
+    expect(rowIds(ctx.el)).toEqual([3, 1, 2]);
+  });
+
+  it('while the keyboard is in the table, new batches are announced and held back until asked for', async () => {
+    const ctx = await setup();
+    ctx.el.querySelector<HTMLAnchorElement>('a[href="/batches/2"]')!.focus();
+    ctx.el.querySelector('.eq-table-wrap')!.dispatchEvent(new FocusEvent('focusin'));
+    const fresh = [
+      batchFixture({ id: 21, name: 'Zinc titration' }),
+      batchFixture({ id: 22, name: 'Copper titration' }),
+      ...BATCHES,
+    ];
+    await liveRefresh(ctx, fresh);
+    expect(rowIds(ctx.el)).toEqual([1, 2, 3]);
+    const announced = ctx.el.querySelector('[data-testid="batches-announcement"]')!;
+    expect(announced.getAttribute('aria-live')).toBe('polite');
+    expect(text(announced)).toBe('2 new batches on this page. Use “Show” to see them.');
+    const show = ctx.el.querySelector<HTMLButtonElement>('[data-testid="show-new-batches"]')!;
+    expect(text(show)).toBe('north 2 new batches — show');
+    show.click();
+    await ctx.fixture.whenStable();
+    expect(rowIds(ctx.el)).toEqual([21, 22, 1, 2, 3]);
+    expect(ctx.el.querySelector('[data-testid="show-new-batches"]')).toBeNull();
+  });
+
+  it('filters by state on the server', async () => {
+    const { fixture, http, el } = await setup();
+    el.querySelector<HTMLElement>('[data-testid="batches-state"] .mat-mdc-select-trigger')!.click();
+    await fixture.whenStable();
+    const reviewed = [...document.querySelectorAll<HTMLElement>('mat-option')].find((o) =>
+      o.textContent?.includes('Reviewed'),
+    )!;
+    reviewed.click();
+    await fixture.whenStable();
+    const req = list(http);
+    expect(req.request.params.get('state')).toBe('reviewed');
+    req.flush(pageOf([BATCHES[2]!]));
     await fixture.whenStable();
     expect(rows(el)).toHaveLength(1);
-    expect(rows(el)[0]).toContain('2 / 3');
   });
 
   it('shows the API error when the list cannot be loaded, and refreshes on request', async () => {
     const { fixture, http, el } = await setup();
     const refresh = el.querySelector<HTMLButtonElement>('[data-testid="refresh-batches"]')!;
     refresh.click();
-    http
-      .expectOne('/api/batches')
-      .flush(
-        { error: { code: 'internal', message: 'The database is busy.' } },
-        { status: 500, statusText: 'Error' },
-      );
+    list(http).flush(
+      { error: { code: 'internal', message: 'The database is busy.' } },
+      { status: 500, statusText: 'Error' },
+    );
     await fixture.whenStable();
     expect(el.querySelector('[role="alert"]')!.textContent).toContain('The database is busy.');
     refresh.click();
-    http.expectOne('/api/batches').flush(BATCHES);
+    list(http).flush(pageOf(BATCHES));
     await fixture.whenStable();
     expect(el.querySelector('[role="alert"]')).toBeNull();
     expect(rows(el)).toHaveLength(3);

@@ -1,6 +1,7 @@
-import { HttpClient } from '@angular/common/http';
+import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import {
+  batchPageSchema,
   batchSchema,
   instrumentSummarySchema,
   layoutSchema,
@@ -12,6 +13,8 @@ import { type Observable, map } from 'rxjs';
 import { parsed } from '../core/http/api-response';
 import type {
   Batch,
+  BatchListRequest,
+  BatchPage,
   InstrumentChoice,
   LayoutChoice,
   ManifestChoice,
@@ -25,8 +28,20 @@ import type {
 export class BatchesService {
   private readonly http = inject(HttpClient);
 
-  list(): Observable<Batch[]> {
-    return this.http.get<unknown>('/api/batches').pipe(parsed(batchSchema.array(), 'list of batch records'));
+  /** A page of batches, filtered and sorted on the server, with their stored headlines. */
+  list(query: BatchListRequest = {}): Observable<BatchPage> {
+    let params = new HttpParams();
+    if (query.state) params = params.set('state', query.state);
+    if (query.profileId != null) params = params.set('profileId', query.profileId);
+    if (query.unapproved) params = params.set('unapproved', 'true');
+    if (query.q?.trim()) params = params.set('q', query.q.trim());
+    if (query.sort) params = params.set('sort', query.sort);
+    if (query.dir) params = params.set('dir', query.dir);
+    if (query.page !== undefined) params = params.set('page', query.page);
+    if (query.pageSize !== undefined) params = params.set('pageSize', query.pageSize);
+    return this.http
+      .get<unknown>('/api/batches', { params })
+      .pipe(parsed(batchPageSchema, 'list of batches'));
   }
 
   get(id: number): Observable<Batch> {

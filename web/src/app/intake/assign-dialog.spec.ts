@@ -4,7 +4,7 @@ import { TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { provideRouter } from '@angular/router';
-import { batchFixture } from '../batches/batch-fixture';
+import { batchListItemFixture } from '../batches/batch-fixture';
 import { AssignDialog, unassignedHint } from './assign-dialog';
 import type { IntakeFile } from './intake-file';
 
@@ -51,13 +51,14 @@ describe('AssignDialog', () => {
 
   it('says which run id no batch waits for, offers only open batches of the same instrument, and assigns', async () => {
     const { fixture, http, close, el } = await setup();
-    http
-      .expectOne('/api/batches')
-      .flush([
-        batchFixture({ id: 7, name: 'Bench run 9', profileId: 3, runId: 'MLX-9', state: 'open' }),
-        batchFixture({ id: 8, name: 'Approved one', profileId: 3, runId: 'MLX-2', state: 'approved' }),
-        batchFixture({ id: 9, name: 'Other instrument', profileId: 4, runId: 'MLX-8', state: 'open' }),
-      ]);
+    const list = http.expectOne((r) => r.url === '/api/batches');
+    // The server does the filtering: open or reviewed batches of the file's instrument.
+    expect(list.request.params.get('profileId')).toBe('3');
+    expect(list.request.params.get('unapproved')).toBe('true');
+    const items = [
+      batchListItemFixture({ id: 7, name: 'Bench run 9', profileId: 3, runId: 'MLX-9', state: 'open' }),
+    ];
+    list.flush({ items, total: items.length });
     await fixture.whenStable();
     expect(el.textContent).toContain('No batch waits for run id MLX-8 — create one, or assign by hand.');
     expect(el.textContent).not.toContain('profile matches');
@@ -78,7 +79,7 @@ describe('AssignDialog', () => {
 
   it('points to creating a batch when none is open for the instrument', async () => {
     const { fixture, http, el } = await setup();
-    http.expectOne('/api/batches').flush([]);
+    http.expectOne((r) => r.url === '/api/batches').flush({ items: [], total: 0 });
     await fixture.whenStable();
     expect(el.querySelector('[data-testid=assign-none]')?.textContent).toContain('Create a batch');
     expect(el.querySelector<HTMLButtonElement>('[data-testid=assign-confirm]')!.disabled).toBe(true);

@@ -84,11 +84,18 @@ export class AssignDialog {
   protected readonly hint = unassignedHint(this.data.file.runId);
 
   constructor() {
+    // The batches a file may still join: open or reviewed, of the file's instrument (a handful).
     inject(BatchesService)
-      .list()
+      .list({
+        profileId: this.data.file.profileId,
+        unapproved: true,
+        sort: 'lastActivityAt',
+        dir: 'desc',
+        pageSize: 500,
+      })
       .subscribe({
-        next: (all) => {
-          const open = all.filter((b) => b.profileId === this.data.file.profileId && b.state !== 'approved');
+        next: ({ items }) => {
+          const open = items.filter((b) => b.profileId === this.data.file.profileId);
           this.batches.set(open);
           // The batch whose run id the file names, if there is one, comes first.
           const match = open.find((b) => b.runId === this.data.file.runId);

@@ -1,0 +1,171 @@
+import type { DataSource, SelectQueryBuilder } from 'typeorm';
+import { IntakeFile } from '../ingest/intake-file.entity';
+import { InstrumentProfile } from '../instruments/instrument-profile.entity';
+import { Layout } from '../layouts/layout.entity';
+import { Manifest } from '../manifests/manifest.entity';
+import { User } from '../users/user.entity';
+import {
+  type BatchListItemDto,
+  type BatchListParams,
+  type BatchResultSummary,
+  batchSettingsSchema,
+} from '../contracts/batches';
+import { Batch } from './batch.entity';
+import { BatchSummaryRow } from './batch-summary.entity';
+
+/** What each sort key orders by; `nulls` puts batches without the value last in either direction. */
+const SORTS: Record<NonNullable<BatchListParams['sort']>, { key: string; nulls?: string }> = {
+  lastActivityAt: { key: 's.last_activity_at', nulls: 's.last_activity_at' },
+  createdAt: { key: 'b.created_at' },
+  name: { key: 'LOWER(b.name)' },
+  state: { key: "CASE b.state WHEN 'open' THEN 0 WHEN 'reviewed' THEN 1 ELSE 2 END" },
+  instrument: { key: 'LOWER(p.name)', nulls: 'p.name' },
+  runId: { key: 'LOWER(b.run_id)' },
+  files: { key: 'COALESCE(s.stored_files, 0) * 1.0 / b.expected_files' },
+  qc: { key: 's.qc_flag_count', nulls: 's.qc_flag_count' },
+  k: { key: 's.k', nulls: 's.k' },
+};
+
+/** `%text%` for LIKE, lower case, with the LIKE wildcards of the text itself escaped by a backslash. */
+export function likePattern(text: string): string {
+  return `%${text.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+}
+
+/** Filters of a batches query beyond paging. */
+export interface BatchListFilter {
+  id?: number;
+  state?: Batch['state'];
+  profileId?: number;
+  unapproved?: boolean;
+  q?: string;
+  /** Only batches with a system name and a temperature (van 't Hoff). */
+  withSystemAndTemperature?: boolean;
+}
+
+/**
+ * The batches list as one query (plus one count): each batch with its instrument, layout and manifest
+ * names, the names of who created, reviewed and approved it, and its stored summary. Portable SQL through
+ * the query builder (SQLite and PostgreSQL).
+ */
+export class BatchListQueryBuilder {
+  constructor(private readonly dataSource: DataSource) {}
+
+  private base(filter: BatchListFilter): SelectQueryBuilder<Batch> {
+    const qb = this.dataSource
+      .createQueryBuilder(Batch, 'b')
+      .leftJoin(BatchSummaryRow, 's', 's.batch_id = b.id')
+      .leftJoin(InstrumentProfile, 'p', 'p.id = b.profile_id')
+      .leftJoin(Layout, 'l', 'l.id = b.layout_id')
+      .leftJoin(Manifest, 'm', 'm.id = b.manifest_id')
+      .leftJoin(User, 'uc', 'uc.id = b.created_by_id')
+      .leftJoin(User, 'ur', 'ur.id = b.reviewed_by_id')
+      .leftJoin(User, 'ua', 'ua.id = b.approved_by_id');
+    if (filter.id !== undefined) qb.andWhere('b.id = :id', { id: filter.id });
+    if (filter.state) qb.andWhere('b.state = :state', { state: filter.state });
+    if (filter.profileId !== undefined)
+      qb.andWhere('b.profile_id = :profileId', { profileId: filter.profileId });
+    if (filter.unapproved) qb.andWhere('b.state <> :approved', { approved: 'approved' });
+    if (filter.withSystemAndTemperature)
+      qb.andWhere('b.system_name IS NOT NULL AND b.temperature_c IS NOT NULL');
+    if (filter.q) {
+      // The files' names through their batch_id index; sample ids from the stored summary.
+      const files = this.dataSource
+        .createQueryBuilder()
+        .select('1')
+        .from(IntakeFile, 'f')
+        .where("f.batch_id = b.id AND LOWER(f.original_name) LIKE :q ESCAPE '\\'")
+        .getQuery();
+      qb.andWhere(
+        `(LOWER(b.name) LIKE :q ESCAPE '\\' OR LOWER(b.run_id) LIKE :q ESCAPE '\\' OR LOWER(COALESCE(s.sample_ids, '')) LIKE :q ESCAPE '\\' OR EXISTS (${files}))`,
+        { q: likePattern(filter.q) },
+      );
+    }
+    return qb;
+  }
+
+  /** One page and the total: two queries whatever the page size. */
+  async page(
+    filter: BatchListFilter,
+    order: { sort?: BatchListParams['sort']; dir?: 'asc' | 'desc'; page?: number; pageSize?: number },
+  ): Promise<{ items: BatchListItemDto[]; total: number }> {
+    const total = await this.base(filter).getCount();
+    const pageSize = order.pageSize ?? 25;
+    const items = await this.rows(filter, order, { offset: (order.page ?? 0) * pageSize, limit: pageSize });
+    return { items, total };
+  }
+
+  /** Every batch the filter lets through (one query), in the given order. */
+  all(filter: BatchListFilter, order: { sort?: BatchListParams['sort']; dir?: 'asc' | 'desc' } = {}) {
+    return this.rows(filter, order);
+  }
+
+  private async rows(
+    filter: BatchListFilter,
+    order: { sort?: BatchListParams['sort']; dir?: 'asc' | 'desc' },
+    window?: { offset: number; limit: number },
+  ): Promise<BatchListItemDto[]> {
+    const dir = order.dir === 'asc' ? 'ASC' : 'DESC';
+    const sort = SORTS[order.sort ?? 'lastActivityAt'];
+    const qb = this.base(filter)
+      .select('b')
+      .addSelect('p.name', 'profile_name')
+      .addSelect('l.name', 'layout_name')
+      .addSelect('m.name', 'manifest_name')
+      .addSelect('uc.display_name', 'created_by')
+      .addSelect('ur.display_name', 'reviewed_by')
+      .addSelect('ua.display_name', 'approved_by')
+      .addSelect('s.stored_files', 's_stored_files')
+      .addSelect('s.last_activity_at', 's_last_activity_at')
+      .addSelect('s.status', 's_status')
+      .addSelect('s.error', 's_error')
+      .addSelect('s.summary_json', 's_summary_json')
+      .addSelect(sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0', 'sort_nulls')
+      .addSelect(sort.key, 'sort_key')
+      .orderBy('sort_nulls', 'ASC')
+      .addOrderBy('sort_key', dir)
+      .addOrderBy('b.id', dir);
+    if (window) qb.offset(window.offset).limit(window.limit);
+    const { entities, raw } = await qb.getRawAndEntities<Record<string, unknown>>();
+    return entities.map((b, i) => toListItem(b, raw[i] ?? {}));
+  }
+}
+
+const text = (v: unknown): string | null => (v === null || v === undefined ? null : String(v));
+
+function toListItem(b: Batch, raw: Record<string, unknown>): BatchListItemDto {
+  const updatedAt = new Date(b.updatedAt).toISOString();
+  const summaryJson = text(raw['s_summary_json']);
+  const status = text(raw['s_status']) as BatchListItemDto['summaryState'] | null;
+  return {
+    id: b.id,
+    name: b.name,
+    state: b.state,
+    profileId: b.profileId,
+    profileName: text(raw['profile_name']),
+    layoutId: b.layoutId,
+    layoutName: text(raw['layout_name']),
+    layoutVersion: b.layoutVersion,
+    manifestId: b.manifestId,
+    manifestName: text(raw['manifest_name']),
+    manifestVersion: b.manifestVersion,
+    runId: b.runId,
+    expectedFiles: b.expectedFiles,
+    fileCount: Number(raw['s_stored_files'] ?? 0),
+    systemName: b.systemName,
+    temperatureC: b.temperatureC,
+    settings: batchSettingsSchema.parse(JSON.parse(b.settingsJson)),
+    createdAt: new Date(b.createdAt).toISOString(),
+    updatedAt,
+    lastActivityAt: text(raw['s_last_activity_at']) ?? updatedAt,
+    reviewedBy: text(raw['reviewed_by']),
+    reviewedAt: b.reviewedAt,
+    approvedBy: text(raw['approved_by']),
+    approvedAt: b.approvedAt,
+    approvalComment: b.approvalComment,
+    createdBy: text(raw['created_by']),
+    summary: summaryJson ? (JSON.parse(summaryJson) as BatchResultSummary) : null,
+    // A batch made before summaries were stored waits for the start-up backfill.
+    summaryState: status ?? 'pending',
+    summaryError: text(raw['s_error']),
+  };
+}
