@@ -8,15 +8,16 @@ import { RouterLink } from '@angular/router';
 import { AuthService } from '../core/auth/auth.service';
 import { LoadState } from '../shared/page/load-state';
 import { PageHeader } from '../shared/page/page-header';
+import { RoleBadge } from '../shared/role-code/role-badge';
 import { sortedDataSource } from '../shared/page/sorted-data-source';
-import { FORMAT_LABELS, ROLE_INFO, SAMPLE_ROLES } from '../shared/plate-grid/plate-geometry';
+import { FORMAT_LABELS, ROLE_CODE, SAMPLE_ROLES } from '../shared/plate-grid/plate-geometry';
 import type { LayoutSummary } from './layout';
 import { LayoutsService } from './layouts.service';
 
 /** Every layout, its format, what it holds and its current version. */
 @Component({
   selector: 'eq-layouts-page',
-  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
+  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader, RoleBadge],
   templateUrl: './layouts-page.html',
   styleUrl: './layouts-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -43,8 +44,8 @@ export class LayoutsPage implements OnInit {
   protected roleCounts(layout: LayoutSummary) {
     return SAMPLE_ROLES.filter((role) => layout.roleCounts[role]).map((role) => ({
       role,
-      letter: ROLE_INFO[role].letter,
-      label: ROLE_INFO[role].label.toLowerCase(),
+      letter: ROLE_CODE[role].letter,
+      label: ROLE_CODE[role].label.toLowerCase(),
       count: layout.roleCounts[role] ?? 0,
     }));
   }
