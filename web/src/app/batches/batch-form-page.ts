@@ -1,4 +1,4 @@
-import { DatePipe, LowerCasePipe } from '@angular/common';
+import { LowerCasePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import {
@@ -31,6 +31,7 @@ import {
   type VersionChoice,
 } from './batch';
 import { BatchesService } from './batches.service';
+import { DateTimePipe } from '../shared/format/date-format';
 
 function positive(control: AbstractControl<number | null>): ValidationErrors | null {
   const v = control.value;
@@ -47,7 +48,7 @@ const WHOLE = Validators.pattern(/^\d+$/);
 @Component({
   selector: 'eq-batch-form-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     LowerCasePipe,
     ReactiveFormsModule,
     RouterLink,

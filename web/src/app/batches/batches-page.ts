@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, effect, inject, signal, viewChild } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -18,6 +17,7 @@ import { BATCH_STATE_DISPLAY, type Batch } from './batch';
 import { BatchStateLabel } from '../shared/batch-state/batch-state-label';
 import { summaryK } from '../shared/format/summary-k';
 import { BatchesService } from './batches.service';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Quiet time after the last live event before the list is fetched again; a burst costs one request. */
 export const BATCHES_LIVE_DEBOUNCE_MS = 300;
@@ -26,7 +26,7 @@ export const BATCHES_LIVE_DEBOUNCE_MS = 300;
 @Component({
   selector: 'eq-batches-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     RouterLink,
     BatchStateLabel,
     MatTableModule,

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, type OnInit, inject, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -13,11 +12,21 @@ import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { FORMAT_LABELS, ROLE_CODE, SAMPLE_ROLES } from '../shared/plate-grid/plate-geometry';
 import type { LayoutSummary } from './layout';
 import { LayoutsService } from './layouts.service';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Every layout, its format, what it holds and its current version. */
 @Component({
   selector: 'eq-layouts-page',
-  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader, RoleBadge],
+  imports: [
+    MatTableModule,
+    MatSortModule,
+    MatButtonModule,
+    MatIconModule,
+    RouterLink,
+    DateTimePipe,
+    PageHeader,
+    RoleBadge,
+  ],
   templateUrl: './layouts-page.html',
   styleUrl: './layouts-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
