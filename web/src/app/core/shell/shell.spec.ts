@@ -26,6 +26,7 @@ describe('Shell', () => {
               displayName: 'Sam Scientist',
               role: 'scientist',
               active: true,
+              invited: false,
             }),
           },
         },
