@@ -6,7 +6,6 @@ import { fillRole, roleLetterChip, roleOf } from './role-swatch';
 
 /** The report's drawings: layout map, calibration with residuals, Job's plot. */
 
-
 /** A concentration unit that keeps the numbers of a plot readable. */
 function concentrationScale(maxM: number): { factor: number; unit: string } {
   if (maxM > 0 && maxM < 1e-3) return { factor: 1e6, unit: 'µM' };

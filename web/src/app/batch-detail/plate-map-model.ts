@@ -5,7 +5,6 @@ import { type ScaleRange, colourFor, scaleRange, textColourOn } from '../shared/
 import { formatAbsorbance } from '../shared/format/number-format';
 import { ROLE_CODE, asSampleRole } from '../shared/role-code/role-style';
 
-
 /** What marks a position besides colour: a symbol in the cell and a pattern. */
 export type CellMarker = 'missing' | 'saturated' | 'excluded' | 'flagged' | 'waiting';
 
@@ -69,7 +68,6 @@ function markerOf(status: PositionStatus | 'empty', flagged: boolean): CellMarke
   if (status === 'no-reading') return 'waiting';
   return null;
 }
-
 
 /**
  * The cells of a 96- or 384-well plate (8×12, 16×24) or a cuvette sequence (rows of 12), from the

@@ -24,7 +24,9 @@ export function rolePatternSvg(code: RoleCode): string {
   const t = ROLE_PATTERN_TILE;
   const marks = rolePatternMarks(code.pattern, t);
   const lines = marks.lines
-    .map(([x1, y1, x2, y2]) => `<line x1="${round(x1)}" y1="${round(y1)}" x2="${round(x2)}" y2="${round(y2)}"/>`)
+    .map(
+      ([x1, y1, x2, y2]) => `<line x1="${round(x1)}" y1="${round(y1)}" x2="${round(x2)}" y2="${round(y2)}"/>`,
+    )
     .join('');
   const dots = marks.dots
     .map(([cx, cy, r]) => `<circle cx="${round(cx)}" cy="${round(cy)}" r="${round(r)}"/>`)
