@@ -38,6 +38,12 @@ async function layoutProblems(page: Page): Promise<string[]> {
       if (s.left < i.right - 0.5) out.push(`suffix overlaps: ${suffix.textContent?.trim()}`);
       const f = field.getBoundingClientRect();
       if (s.right > f.right + 0.5) out.push(`suffix outside its field: ${suffix.textContent?.trim()}`);
+      // an empty field's label sits inside it, beside the suffix: the two must not run into each other
+      const label = field.querySelector<HTMLElement>(
+        '.mdc-floating-label:not(.mdc-floating-label--float-above)',
+      );
+      if (label && label.getBoundingClientRect().right > s.left + 0.5)
+        out.push(`label runs into its suffix: ${label.textContent?.trim()}`);
       const box = field.closest('fieldset')?.getBoundingClientRect();
       if (box && (f.right > box.right + 0.5 || f.left < box.left - 0.5))
         out.push(`field past its fieldset: ${suffix.textContent?.trim()}`);
@@ -90,6 +96,8 @@ describe('the Planner in Chromium', () => {
     expect(status).toBe(201);
     await page.reload();
     await page.getByTestId('stock-a').waitFor();
+    // the optional fields start empty, their labels inside the field
+    expect(await layoutProblems(page)).toEqual([]);
     await page.getByTestId('reagent-a').fill('Iron(III) nitrate');
     await page.getByTestId('reagent-b').fill('Potassium thiocyanate');
     await page.getByTestId('cas-b').fill('333-20-0');

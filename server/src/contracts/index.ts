@@ -4,6 +4,7 @@
  * defaults, the enums with their labels, and the live events. Pure: zod and the analysis module only.
  */
 export * from './enums';
+export * from './role-code';
 export * from './common';
 export * from './settings';
 export * from './analysis-types';

@@ -43,6 +43,8 @@ export const publicUserSchema = z.object({
   displayName: z.string(),
   role: roleSchema,
   active: z.boolean(),
+  /** Invited and no password set yet: they cannot sign in until they use their one-time link. */
+  invited: z.boolean().default(false),
 });
 export type PublicUser = z.infer<typeof publicUserSchema>;
 

@@ -112,7 +112,10 @@ export class ManifestsService {
     }
     let parsed;
     try {
-      parsed = await parseManifestCsv(content, fileName ?? 'manifest form');
+      parsed = await parseManifestCsv(content, fileName ?? 'manifest form', {
+        format: layout.format,
+        cuvetteCount: layout.cuvetteCount,
+      });
     } catch (err) {
       if (err instanceof ParseError)
         throw new AppError('invalid_manifest', 400, err.message, { problems: [], mismatches: [] });

@@ -3,7 +3,8 @@ import { isFormulaLike, parseDecimal } from './cell-values';
 import { detectDelimiter, readCsvRows, type CsvRow } from './csv-rows';
 import { decodeText } from './decode-text';
 import { excerpt, ParseError, showCell } from './parse-error';
-import { isValidPosition, normalisePosition } from './position';
+import type { PlateFormat } from './parse-rules';
+import { describePositions, isValidPosition, normalisePosition } from './position';
 
 /** One thing wrong with a manifest; `row` is the 1-based line in the file (the header's line for column problems). */
 export interface ManifestProblem {
@@ -55,7 +56,18 @@ function canonicalColumn(name: string): string | undefined {
  * Reads a sample manifest and reports every problem at once, each with its row and column.
  * Files that are not a manifest at all (binary, empty, no sample rows) throw a ParseError.
  */
-export async function parseManifestCsv(content: Buffer, fileName: string): Promise<ManifestParseResult> {
+/** The plate (or cuvette sequence) the manifest is for: a position off it is a problem of its row. */
+export interface ManifestPlate {
+  format: PlateFormat;
+  /** Cuvettes in the sequence (cuvette layouts). */
+  cuvetteCount?: number | null;
+}
+
+export async function parseManifestCsv(
+  content: Buffer,
+  fileName: string,
+  plate?: ManifestPlate,
+): Promise<ManifestParseResult> {
   const { text } = decodeText(content, fileName, 'utf-8');
   const delimiter = detectDelimiter(text, 0, [',', ';', '\t']);
   const rows = await readCsvRows(text, { file: fileName, delimiter, skipLines: 0 });
@@ -102,10 +114,25 @@ export async function parseManifestCsv(content: Buffer, fileName: string): Promi
   const decimalMarks: ('.' | ',')[] = delimiter === ',' ? ['.'] : ['.', ','];
   const firstRowOf = new Map<string, number>();
   const samples = data.flatMap((row) => {
-    const sample = readSampleRow(row, header, columnAt, decimalMarks, firstRowOf, problems);
+    const sample = readSampleRow(row, header, columnAt, decimalMarks, firstRowOf, problems, plate);
     return sample ? [sample] : [];
   });
   return { samples, problems };
+}
+
+/** Why a position is not on the manifest's plate or cuvette sequence, or null when it is. */
+function offThePlate(position: string, plate: ManifestPlate): string | null {
+  if (plate.format === 'cuvette') {
+    const count = plate.cuvetteCount ?? null;
+    const n = position.startsWith('C') ? Number(position.slice(1)) : NaN;
+    if (!isValidPosition(position, 'cuvette'))
+      return `${position} is not a cuvette position: expected ${describePositions('cuvette')}`;
+    if (count !== null && n > count)
+      return `${position} is off the sequence of ${count} cuvettes (C1…C${count})`;
+    return null;
+  }
+  if (isValidPosition(position, plate.format)) return null;
+  return `${position} is off the plate: expected ${describePositions(plate.format)}`;
 }
 
 function readSampleRow(
@@ -115,6 +142,7 @@ function readSampleRow(
   decimalMarks: ('.' | ',')[],
   firstRowOf: Map<string, number>,
   problems: ManifestProblem[],
+  plate: ManifestPlate | undefined,
 ): SampleDefinition | undefined {
   const before = problems.length;
   const problem = (column: string, message: string) => problems.push({ row: row.line, column, message });
@@ -144,6 +172,8 @@ function readSampleRow(
     problem('position', `duplicate position ${position}: already on row ${firstRowOf.get(position)}`);
   } else {
     firstRowOf.set(position, row.line);
+    const off = plate ? offThePlate(position, plate) : null;
+    if (off) problem('position', off);
   }
 
   const sampleId = clean('sample_id');

@@ -31,7 +31,7 @@ export function buildBatchReport(input: BatchReportInput): BatchReport {
   const generated = minute((input.generatedAt ?? new Date()).toISOString());
   return {
     title: `Batch report: ${b.name}`,
-    subtitle: `Equilight · batch ${b.id} · ${b.state} · generated ${generated} UTC`,
+    subtitle: `Equilight · batch ${b.id} · ${b.state} · generated ${generated}`,
     verdict: r.stoichiometry?.verdict
       ? {
           text: r.stoichiometry.verdict,
@@ -78,7 +78,7 @@ function batchSection(input: BatchReportInput): ReportSection {
   const rec = a.record;
   const epsilonFrom =
     s.epsilonSource && s.epsilonLPerMolCm !== null
-      ? `${formatQuantity(s.epsilonLPerMolCm, EPSILON_UNIT)}, from batch "${s.epsilonSource.batchName}" (id ${s.epsilonSource.batchId}), ${s.epsilonSource.recordId !== null ? `approval record ${s.epsilonSource.recordId}` : `its analysis of ${minute(s.epsilonSource.takenAt)} UTC (not approved then)`}`
+      ? `${formatQuantity(s.epsilonLPerMolCm, EPSILON_UNIT)}, from batch "${s.epsilonSource.batchName}" (id ${s.epsilonSource.batchId}), ${s.epsilonSource.recordId !== null ? `approval record ${s.epsilonSource.recordId}` : `its analysis of ${minute(s.epsilonSource.takenAt)} (not approved then)`}`
       : r.epsilonSource.kind === 'none'
         ? 'none (fitted with K)'
         : `${formatQuantity(r.epsilonSource.epsilonLPerMolCm, EPSILON_UNIT)} — ${r.epsilonSource.kind === 'given' ? 'given' : "this batch's standards"}`;
@@ -168,7 +168,7 @@ function batchSection(input: BatchReportInput): ReportSection {
             detail(
               'approval_record',
               'Approval record',
-              `record ${rec.id}, approved by ${rec.approvedBy ?? 'unknown'} on ${minute(rec.approvedAt)} UTC; this report shows the result stored then`,
+              `record ${rec.id}, approved by ${rec.approvedBy ?? 'unknown'} on ${minute(rec.approvedAt)}; this report shows the result stored then`,
               rec.id,
             ),
           ]
@@ -195,7 +195,7 @@ function reviewSection(input: BatchReportInput): ReportSection {
   const comment = rec?.approvalComment ?? b.approvalComment;
   const approved = b.state === 'approved';
   const state = approved
-    ? `Approved by ${approvedBy ?? 'unknown'} on ${minute(approvedAt)} UTC.`
+    ? `Approved by ${approvedBy ?? 'unknown'} on ${minute(approvedAt)}.`
     : b.state === 'reviewed'
       ? `Reviewed by ${b.reviewedBy ?? 'unknown'}; not yet approved.`
       : 'Open: not yet reviewed, not yet approved.';

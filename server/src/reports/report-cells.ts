@@ -46,8 +46,9 @@ export function fraction(value: number | null | undefined): ReportCell {
     : { text: `${(value * 100).toFixed(1)} %`, value: roundSignificant(value, 4) };
 }
 
+/** A moment in a report's text: ISO 8601 in UTC to the minute ("2026-03-14T09:30Z"), as the API gives it. */
 export const minute = (iso: string | null | undefined): string =>
-  iso ? iso.slice(0, 16).replace('T', ' ') : DASH;
+  iso ? `${new Date(iso).toISOString().slice(0, 16)}Z` : DASH;
 
 export function detail(
   key: string,

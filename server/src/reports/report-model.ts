@@ -6,7 +6,7 @@ import type { CalibrationResult, JobBatchResult, MixtureResult, PositionResult }
  */
 export interface BatchReport {
   title: string;
-  /** "Equilight · batch 7 · approved · generated 2026-12-02 06:30 UTC". */
+  /** "Equilight · batch 7 · approved · generated 2026-12-02T06:30Z". */
   subtitle: string;
   /** The stoichiometry verdict and the batch's one K, when there are mixtures. */
   verdict: { text: string; kLine: string | null } | null;

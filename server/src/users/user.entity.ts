@@ -51,5 +51,6 @@ export function toPublicUser(user: User): PublicUser {
     displayName: user.displayName,
     role: user.role,
     active: user.active,
+    invited: user.passwordHash === null,
   };
 }

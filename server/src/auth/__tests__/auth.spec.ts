@@ -20,6 +20,7 @@ describe('sign-in', () => {
       displayName: expect.any(String),
       role: 'scientist',
       active: true,
+      invited: false,
     });
     expect(JSON.stringify(res.body)).not.toMatch(/hash/i);
     const me = await a.get('/api/auth/me');

@@ -27,7 +27,7 @@ const LATER_ENGINE: AnalysisEngine = {
 /** The PDF's text without the line that says when it was generated. */
 function pdfText(body: Buffer): string {
   return extractPdfText(body)
-    .replace(/generated \d{4}-\d\d-\d\d \d\d:\d\d UTC/g, 'generated …')
+    .replace(/generated \d{4}-\d\d-\d\dT\d\d:\d\dZ/g, 'generated …')
     .replace(/\s+/g, ' ');
 }
 

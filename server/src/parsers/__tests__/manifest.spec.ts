@@ -141,6 +141,32 @@ describe('manifest: broken files report every problem with row and column', () =
     expect(samples.map((s) => s.sampleId)).toEqual(['S1', 'S2']);
   });
 
+  it('when a row lies off the plate of its layout then it is a problem of that row, not a sample', async () => {
+    const text = 'position,sample_id,role\nA1,B1,blank\nI3,U9,unknown\nA13,U10,unknown\nH12,U11,unknown\n';
+    const { problems, samples } = await parseManifestCsv(Buffer.from(text), 'm.csv', { format: '96' });
+    // a 96-well plate has rows A–H and columns 1–12 (ANSI SLAS 4-2004 microplate well positions, from memory)
+    expect(problems).toEqual([
+      { row: 3, column: 'position', message: 'I3 is off the plate: expected a 96-well position A1…H12' },
+      { row: 4, column: 'position', message: 'A13 is off the plate: expected a 96-well position A1…H12' },
+    ]);
+    expect(samples.map((s) => s.position)).toEqual(['A1', 'H12']);
+    // the same rows are fine on a 384-well plate, and without a plate only the syntax is checked
+    expect((await parseManifestCsv(Buffer.from(text), 'm.csv', { format: '384' })).problems).toEqual([]);
+    expect((await parseManifestCsv(Buffer.from(text), 'm.csv')).problems).toEqual([]);
+  });
+
+  it('when a cuvette lies past the end of the sequence or is a well then it is a problem of its row', async () => {
+    const text = 'position,sample_id,role\nC1,B1,blank\nC31,U1,unknown\nA1,U2,unknown\n';
+    const { problems } = await parseManifestCsv(Buffer.from(text), 'm.csv', {
+      format: 'cuvette',
+      cuvetteCount: 30,
+    });
+    expect(problems.map((p) => [p.row, p.message])).toEqual([
+      [3, 'C31 is off the sequence of 30 cuvettes (C1…C30)'],
+      [4, 'A1 is not a cuvette position: expected a cuvette position C1, C2, …'],
+    ]);
+  });
+
   it('accepts volumes that add up exactly to the total', async () => {
     const text =
       'position,sample_id,role,stock_a_M,volume_a_mL,stock_b_M,volume_b_mL,total_volume_mL\nA1,M,mixture,1,0.1,1,0.2,0.3\n';

@@ -1,5 +1,5 @@
 import type { QcFlag } from '../../analysis';
-import { decimals, measured, num, ownFindings } from '../report-cells';
+import { decimals, measured, minute, num, ownFindings } from '../report-cells';
 
 const flag = (code: QcFlag['code'], position: string | null, sampleId: string | null): QcFlag => ({
   code,
@@ -12,6 +12,15 @@ const flag = (code: QcFlag['code'], position: string | null, sampleId: string | 
 });
 
 describe('report cells', () => {
+  it('when a moment is written in a report then it is ISO 8601 in UTC to the minute', () => {
+    // ISO 8601-1:2019 §5.4.2 extended format, reduced to minutes, "Z" for UTC (from memory)
+    const text = minute('2026-03-14T09:30:45.123Z');
+    expect(text).toBe('2026-03-14T09:30Z');
+    expect(text).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}Z$/);
+    expect(minute('2026-03-14T11:30:00+02:00')).toBe('2026-03-14T09:30Z');
+    expect(minute(null)).toBe('—');
+  });
+
   it('when a value has a standard error then the spreadsheet value keeps two significant digits of the error (GUM §7.2.6)', () => {
     // JCGM 100:2008 (GUM) §7.2.6: quote the uncertainty to two significant digits and the value to the
     // same decimal place: 839.41 with u = 19 → 839; 0.0012347 with u = 0.000021 → 0.001235 (worked by hand).

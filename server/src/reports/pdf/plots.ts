@@ -1,23 +1,10 @@
 import type { CalibrationResult, JobBatchResult, MixtureResult, PositionResult } from '../../analysis';
 import { formatNumber } from '../../analysis/number-format';
+import { ROLE_CODE, SAMPLE_ROLES } from '../../contracts/role-code';
 import { ACCENT, ALERT, INK, MUTED, type ReportWriter } from './pdf-writer';
+import { fillRole, roleLetterChip, roleOf } from './role-swatch';
 
 /** The report's drawings: layout map, calibration with residuals, Job's plot. */
-
-const ROLE_COLOURS: Record<string, string> = {
-  blank: '#cfd8dc',
-  standard: '#90caf9',
-  unknown: '#ffcc80',
-  mixture: '#a5d6a7',
-  control: '#ce93d8',
-};
-const ROLE_LETTERS: Record<string, string> = {
-  blank: 'B',
-  standard: 'S',
-  unknown: 'U',
-  mixture: 'M',
-  control: 'C',
-};
 
 /** A concentration unit that keeps the numbers of a plot readable. */
 function concentrationScale(maxM: number): { factor: number; unit: string } {
@@ -89,27 +76,29 @@ export function drawLayoutMap(
     const x = x0 + c.col * cell + 1;
     const y = y0 + c.row * cell + 1;
     const size = cell - 2;
-    const role = roles.get(c.position);
+    const role = roleOf(roles.get(c.position));
     const result = results.get(c.position);
-    doc
-      .roundedRect(x, y, size, size, 2)
-      .fillColor(role ? (ROLE_COLOURS[role] ?? '#eeeeee') : '#ffffff')
-      .fill();
+    if (role) fillRole(doc, role, { x, y, size, radius: 2 });
+    else doc.roundedRect(x, y, size, size, 2).fillColor('#ffffff').fill();
     const status = result?.status;
-    doc.roundedRect(x, y, size, size, 2).lineWidth(status === 'saturated' ? 1.5 : 0.4);
+    doc.roundedRect(x, y, size, size, 2).lineWidth(status === 'saturated' ? 1.5 : 0.5);
     if (status === 'missing' || status === 'no-reading') doc.dash(2, { space: 1.5 });
     doc
-      .strokeColor(status === 'saturated' ? ALERT : '#90a4ae')
+      .strokeColor(status === 'saturated' ? ALERT : role ? ROLE_CODE[role].ink : '#90a4ae')
       .stroke()
       .undash();
     if (role) {
-      const letter = ROLE_LETTERS[role] ?? '?';
-      const label = cuvettes ? `${c.label} ${letter}` : letter;
-      w.text(label, x, y + size / 2 - (cell > 20 ? 4 : 3), {
+      const code = ROLE_CODE[role];
+      const label = cuvettes ? `${c.label} ${code.letter}` : code.letter;
+      const fontSize = cell > 20 ? 7 : 5.5;
+      const chipW = w.widthOf(label, fontSize, 'bold') + fontSize * 0.6;
+      roleLetterChip(doc, role, x + size / 2, y + size / 2, chipW, fontSize * 1.25);
+      w.text(label, x, y + size / 2 - fontSize * 0.62, {
         width: size,
         align: 'center',
-        size: cell > 20 ? 7 : 5.5,
+        size: fontSize,
         weight: 'bold',
+        color: code.ink,
         lineBreak: false,
       });
     }
@@ -126,12 +115,11 @@ export function drawLayoutMap(
   }
   w.y = y0 + rows * cell + 6;
   let lx = w.left;
-  for (const [role, colour] of Object.entries(ROLE_COLOURS)) {
-    doc
-      .rect(lx, w.y + 1, 8, 8)
-      .fillColor(colour)
-      .fill();
-    w.text(`${ROLE_LETTERS[role]} ${role}`, lx + 11, w.y, { size: 7, lineBreak: false });
+  for (const role of SAMPLE_ROLES) {
+    const code = ROLE_CODE[role];
+    fillRole(doc, role, { x: lx, y: w.y, size: 10, radius: 1.5 }, 3.5);
+    doc.roundedRect(lx, w.y, 10, 10, 1.5).lineWidth(0.5).strokeColor(code.ink).stroke();
+    w.text(`${code.letter} ${code.label.toLowerCase()}`, lx + 13, w.y + 1, { size: 7, lineBreak: false });
     lx += 62;
   }
   w.text('× excluded · red edge saturated · dashed edge missing', lx, w.y, {

@@ -48,6 +48,7 @@ describe('people API', () => {
       email: 'lena.lab@example.test',
       role: 'lab_manager',
       active: true,
+      invited: false,
     });
     expect(res.body.setPasswordUrl).toBeUndefined();
     const lena = await t.agent();
@@ -63,6 +64,12 @@ describe('people API', () => {
       .post('/api/users')
       .send({ email: 'invitee@lab.test', displayName: 'Invitee', role: 'scientist' });
     expect(res.status).toBe(201);
+    // invited, not yet able to sign in: the list says so until the password is set
+    expect(res.body.user).toMatchObject({ active: true, invited: true });
+    const invitedRow = (await admin.get('/api/users')).body.find(
+      (u: { email: string }) => u.email === 'invitee@lab.test',
+    );
+    expect(invitedRow.invited).toBe(true);
     const token = new URL(res.body.setPasswordUrl).searchParams.get('token');
     expect(token).toBeTruthy();
     const anon = await t.agent();
@@ -80,6 +87,10 @@ describe('people API', () => {
       (await anon.post('/api/auth/login').send({ email: 'invitee@lab.test', password: 'invited-passphrase' }))
         .status,
     ).toBe(200);
+    const afterRow = (await admin.get('/api/users')).body.find(
+      (u: { email: string }) => u.email === 'invitee@lab.test',
+    );
+    expect(afterRow.invited).toBe(false);
   });
 
   it.each([

@@ -6,9 +6,11 @@ import {
 } from '@angular/common/http/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
+import { MatDatepickerInputHarness } from '@angular/material/datepicker/testing';
 import { MatPaginatorHarness } from '@angular/material/paginator/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { provideRouter } from '@angular/router';
+import { formatDateTime } from '../shared/format/date-format';
 import type { AuditEntry } from './audit-entry';
 import { AUDIT_FILTER_DEBOUNCE_MS, AuditPage, endOfDayIso, startOfDayIso } from './audit-page';
 
@@ -111,13 +113,29 @@ describe('AuditPage', () => {
       entityId: '1',
       action: 'settings',
       q: 'noisier',
-      from: startOfDayIso('2026-03-01'),
-      to: endOfDayIso('2026-03-02'),
+      from: startOfDayIso(new Date(2026, 2, 1)),
+      to: endOfDayIso(new Date(2026, 2, 2)),
       page: '0',
       pageSize: '50',
     });
     req.flush({ items: [ENTRIES[0]], total: 1 });
     http.verify();
+    await fixture.whenStable();
+  });
+
+  it('picks the days with the shared Material datepicker and shows them in the app date style', async () => {
+    const { fixture, http, type, el, loader } = await setup();
+    const from = await loader.getHarness(
+      MatDatepickerInputHarness.with({ selector: '[data-testid="audit-from"]' }),
+    );
+    await type('audit-from', '2026-03-01');
+    await from.blur();
+    // the field now shows the day in the app's date style, not the ISO text typed
+    expect(await from.getValue()).toBe(formatDateTime(new Date(2026, 2, 1), 'date'));
+    expect(await from.hasCalendar()).toBe(true);
+    await wait(AUDIT_FILTER_DEBOUNCE_MS + 50);
+    expect(params(auditRequest(http)).from).toBe(new Date(2026, 2, 1).toISOString());
+    expect(el.querySelector('input[type="date"]')).toBeNull();
     await fixture.whenStable();
   });
 

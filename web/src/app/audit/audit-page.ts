@@ -1,8 +1,9 @@
-import { DatePipe, JsonPipe } from '@angular/common';
+import { JsonPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDatepickerModule } from '@angular/material/datepicker';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -20,25 +21,30 @@ import {
   type AuditQuery,
 } from './audit-entry';
 import { AuditService } from './audit.service';
+import { DateTimePipe, formatDateTime } from '../shared/format/date-format';
+import { provideDateInput } from '../shared/format/date-input';
 
 export const AUDIT_FILTER_DEBOUNCE_MS = 300;
 export const AUDIT_PAGE_SIZE = 50;
 
-/** Start of a local calendar day ("2025-03-14") as ISO 8601, or undefined when empty. */
-export function startOfDayIso(day: string): string | undefined {
-  return day ? new Date(`${day}T00:00:00`).toISOString() : undefined;
+/** Start of the local calendar day of `day` (the datepicker's value) as ISO 8601, or undefined when empty. */
+export function startOfDayIso(day: Date | null): string | undefined {
+  return day ? new Date(day.getFullYear(), day.getMonth(), day.getDate()).toISOString() : undefined;
 }
 
-/** Last millisecond of a local calendar day as ISO 8601, so "to" includes that whole day. */
-export function endOfDayIso(day: string): string | undefined {
-  return day ? new Date(`${day}T23:59:59.999`).toISOString() : undefined;
+/** Last millisecond of the local calendar day of `day` as ISO 8601, so "to" includes that whole day. */
+export function endOfDayIso(day: Date | null): string | undefined {
+  return day
+    ? new Date(day.getFullYear(), day.getMonth(), day.getDate(), 23, 59, 59, 999).toISOString()
+    : undefined;
 }
 
 /** Lab managers and admins: who changed what, when and why. Read-only: entries are never edited or deleted. */
 @Component({
   selector: 'eq-audit-page',
+  providers: [provideDateInput()],
   imports: [
-    DatePipe,
+    DateTimePipe,
     JsonPipe,
     ReactiveFormsModule,
     MatTableModule,
@@ -47,6 +53,7 @@ export function endOfDayIso(day: string): string | undefined {
     MatInputModule,
     MatSelectModule,
     MatButtonModule,
+    MatDatepickerModule,
     MatIconModule,
   ],
   templateUrl: './audit-page.html',
@@ -61,14 +68,16 @@ export class AuditPage {
   protected readonly entities = Object.keys(AUDIT_ENTITY_LABELS) as AuditEntity[];
   protected readonly actions = AUDIT_ACTIONS;
   protected readonly columns = ['expand', 'at', 'actor', 'action', 'entity', 'summary', 'reason'];
+  /** A date as the field shows it, for its error message. */
+  protected readonly exampleDay = formatDateTime(new Date(2026, 2, 14), 'date');
 
   protected readonly filters = this.fb.group({
     entity: this.fb.control<AuditEntity | ''>(''),
     entityId: this.fb.control<number | null>(null, [Validators.min(1), Validators.pattern(/^\d+$/)]),
     action: this.fb.control(''),
     q: this.fb.control('', Validators.maxLength(200)),
-    from: this.fb.control(''),
-    to: this.fb.control(''),
+    from: this.fb.control<Date | null>(null),
+    to: this.fb.control<Date | null>(null),
   });
 
   private readonly query = signal<AuditQuery>({ page: 0, pageSize: AUDIT_PAGE_SIZE });

@@ -1,9 +1,9 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { BatchResultSummary } from '../batches/batch';
 import type { ApprovalRecord, EngineCheck } from './batch-analysis';
 import { formatNumber, kUnitOf } from '../shared/format/number-format';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /**
  * "K (1:1) = 612 L·mol⁻¹ (95 % CI 590 to 635)" — the K text every screen and report uses — or what stands
@@ -25,7 +25,7 @@ export function describeHeadline(s: BatchResultSummary | null): string {
  */
 @Component({
   selector: 'eq-approval-record-panel',
-  imports: [DatePipe, MatIconModule],
+  imports: [DateTimePipe, MatIconModule],
   templateUrl: './approval-record-panel.html',
   styleUrl: './approval-record-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

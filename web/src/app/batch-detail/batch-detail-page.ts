@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -56,6 +55,7 @@ import {
 } from './what-if';
 import { type EpsilonSourceValue, type ExclusionRow, WhatIfPanel } from './what-if-panel';
 import { WhatIfRunner } from './what-if-runner';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Quiet time after the last live event before the page asks again: a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -78,7 +78,7 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
 @Component({
   selector: 'eq-batch-detail-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     RouterLink,
     MatButtonModule,
     MatCardModule,

@@ -3,14 +3,7 @@ import { qcFindingPositions } from '@equilight/analysis';
 import type { PlateFormat } from '../batches/batch';
 import { type ScaleRange, colourFor, scaleRange, textColourOn } from '../shared/chart/colour-scale';
 import { formatAbsorbance } from '../shared/format/number-format';
-
-export const ROLE_LETTERS: Record<SampleRole, string> = {
-  blank: 'B',
-  standard: 'S',
-  unknown: 'U',
-  mixture: 'M',
-  control: 'C',
-};
+import { ROLE_CODE, asSampleRole } from '../shared/role-code/role-style';
 
 /** What marks a position besides colour: a symbol in the cell and a pattern. */
 export type CellMarker = 'missing' | 'saturated' | 'excluded' | 'flagged' | 'waiting';
@@ -76,8 +69,6 @@ function markerOf(status: PositionStatus | 'empty', flagged: boolean): CellMarke
   return null;
 }
 
-const ROLE_SET = new Set(Object.keys(ROLE_LETTERS));
-
 /**
  * The cells of a 96- or 384-well plate (8×12, 16×24) or a cuvette sequence (rows of 12), from the
  * analysed positions, the layout, and the QC flags that name a position.
@@ -130,7 +121,7 @@ export function buildPlateModel(
     row.map((position, c): PlateCell => {
       const p = byPosition.get(position);
       const l = layout.get(position);
-      const roleText = p?.role ?? (l && ROLE_SET.has(l.role) ? (l.role as SampleRole) : null);
+      const roleText = p?.role ?? asSampleRole(l?.role);
       const status: PositionStatus | 'empty' = p ? p.status : l ? 'no-reading' : 'empty';
       const cellFlags = flags.get(position) ?? [];
       const corrected = p?.absorbanceCorrected ?? null;
@@ -141,7 +132,7 @@ export function buildPlateModel(
         col: c,
         empty: !p && !l,
         role: roleText,
-        roleLetter: roleText ? ROLE_LETTERS[roleText] : '',
+        roleLetter: roleText ? ROLE_CODE[roleText].letter : '',
         sampleId: p?.sampleId ?? null,
         replicateGroup: p?.replicateGroup ?? l?.replicateGroup ?? null,
         raw: p?.absorbanceRaw ?? null,

@@ -3,6 +3,7 @@ import { TestBed } from '@angular/core/testing';
 import type { PositionResult, QcFlag } from '@equilight/analysis';
 import type { PlateFormat } from '../batches/batch';
 import { fixtureAnalysis } from './analysis-fixture';
+import { ROLE_CODE } from '../shared/role-code/role-style';
 import { PlateMap } from './plate-map';
 
 function position(p: string, changes: Partial<PositionResult> = {}): PositionResult {
@@ -64,6 +65,25 @@ describe('PlateMap', () => {
       'ABCDEFGH'.split(''),
     );
     expect(grid.querySelectorAll('[role="columnheader"]')).toHaveLength(13);
+  });
+
+  it('when positions hold roles then each shows the shared role badge and the key lists the roles present', async () => {
+    const { el, cell } = await setup('96', [
+      position('A1', { role: 'blank' }),
+      position('A2', { role: 'standard' }),
+      position('B1'),
+    ]);
+    const badge = cell('A2').querySelector<HTMLElement>('.eq-role-badge')!;
+    expect(badge.getAttribute('data-role')).toBe('standard');
+    expect(badge.textContent!.trim()).toBe(ROLE_CODE.standard.letter);
+    expect(decodeURIComponent(badge.style.backgroundImage)).toContain(ROLE_CODE.standard.fill);
+    const key = el.querySelector('[data-testid="role-legend"]')!;
+    expect([...key.querySelectorAll('li')].map((li) => li.getAttribute('data-role'))).toEqual([
+      'blank',
+      'standard',
+      'unknown',
+    ]);
+    expect(key.textContent).toContain(ROLE_CODE.unknown.patternLabel);
   });
 
   it('renders a 384-well plate as 16 × 24', async () => {

@@ -8,15 +8,16 @@ import {
   output,
   signal,
 } from '@angular/core';
-import type { PositionResult, QcFlag } from '@equilight/analysis';
+import type { PositionResult, QcFlag, SampleRole } from '@equilight/analysis';
 import type { PlateFormat } from '../batches/batch';
 import { VIRIDIS_NAME, legendGradient } from '../shared/chart/colour-scale';
 import { formatAbsorbance, formatNumber } from '../shared/format/number-format';
+import { PlateLegend } from '../shared/plate-grid/plate-legend';
+import { RoleBadge } from '../shared/role-code/role-badge';
 import {
   type CellMarker,
   MARKERS,
   type PlateCell,
-  ROLE_LETTERS,
   buildPlateModel,
   describeCell,
   statusWord,
@@ -37,6 +38,7 @@ interface Hover {
  */
 @Component({
   selector: 'eq-plate-map',
+  imports: [RoleBadge, PlateLegend],
   templateUrl: './plate-map.html',
   styleUrl: './plate-map.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -78,13 +80,14 @@ export class PlateMap {
 
   protected readonly gradient = legendGradient();
   protected readonly scaleName = VIRIDIS_NAME;
-  protected readonly roleLegend = Object.entries(ROLE_LETTERS).map(([role, letter]) => ({ role, letter }));
   protected readonly markerLegend = (Object.keys(MARKERS) as CellMarker[]).map((m) => ({
     key: m,
     ...MARKERS[m],
   }));
   protected readonly markers = MARKERS;
-  protected readonly usedRoles = computed(() => new Set(this.flatCells().map((c) => c.roleLetter)));
+  protected readonly usedRoles = computed(
+    () => new Set(this.flatCells().flatMap((c) => (c.role ? [c.role] : []))) as ReadonlySet<SampleRole>,
+  );
   protected readonly usedMarkers = computed(() => new Set(this.flatCells().map((c) => c.marker)));
   protected readonly rangeText = computed(() => {
     const r = this.model().range;

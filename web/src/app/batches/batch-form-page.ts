@@ -1,4 +1,4 @@
-import { DatePipe, LowerCasePipe } from '@angular/common';
+import { LowerCasePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import {
@@ -32,6 +32,7 @@ import {
 } from './batch';
 import { BatchesService } from './batches.service';
 import { CONCENTRATION_UNITS, type ConcentrationUnit, isMassUnit } from '../shared/format/number-format';
+import { DateTimePipe } from '../shared/format/date-format';
 
 function positive(control: AbstractControl<number | null>): ValidationErrors | null {
   const v = control.value;
@@ -65,7 +66,7 @@ function reportingChecks(group: AbstractControl): ValidationErrors | null {
 @Component({
   selector: 'eq-batch-form-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     LowerCasePipe,
     ReactiveFormsModule,
     RouterLink,

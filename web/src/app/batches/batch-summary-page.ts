@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe, PercentPipe } from '@angular/common';
+import { DecimalPipe, PercentPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, inject, input, numberAttribute, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -11,11 +11,20 @@ import type { Batch } from './batch';
 import { BatchStateLabel } from '../shared/batch-state/batch-state-label';
 import { BATCHES_LIVE_DEBOUNCE_MS } from './batches-page';
 import { BatchesService } from './batches.service';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Everyone: a read-only summary of one batch — its state, what it is made of, its files and settings. */
 @Component({
   selector: 'eq-batch-summary-page',
-  imports: [DatePipe, DecimalPipe, PercentPipe, RouterLink, BatchStateLabel, MatButtonModule, MatIconModule],
+  imports: [
+    DateTimePipe,
+    DecimalPipe,
+    PercentPipe,
+    RouterLink,
+    BatchStateLabel,
+    MatButtonModule,
+    MatIconModule,
+  ],
   templateUrl: './batch-summary-page.html',
   styleUrl: './batch-summary-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

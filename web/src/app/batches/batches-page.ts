@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -42,6 +41,7 @@ import {
 } from './batch';
 import { BatchesService } from './batches.service';
 import { mergeLiveRows } from './live-rows';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Quiet time after the last live event before the list is fetched again; a burst costs one request. */
 export const BATCHES_LIVE_DEBOUNCE_MS = 300;
@@ -71,7 +71,7 @@ type Trigger = 'person' | 'live';
 @Component({
   selector: 'eq-batches-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     RouterLink,
     BatchStateLabel,
     MatTableModule,

@@ -70,7 +70,14 @@ function overview(role: Role, change: Partial<Overview> = {}): Overview {
 describe('HomePage (the Overview)', () => {
   async function setup(role: Role, answer: Overview = overview(role)) {
     const live = new FakeLive();
-    const user: User = { id: 1, email: `${role}@lab.test`, displayName: 'Ada', role, active: true };
+    const user: User = {
+      id: 1,
+      email: `${role}@lab.test`,
+      displayName: 'Ada',
+      role,
+      active: true,
+      invited: false,
+    };
     TestBed.configureTestingModule({
       imports: [HomePage],
       providers: [

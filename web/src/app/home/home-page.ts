@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -16,6 +15,7 @@ import { LiveEventsService } from '../core/live/live-events.service';
 import { navItemsFor } from '../core/shell/navigation';
 import type { Overview, OverviewBatch, OverviewQc } from './overview';
 import { OverviewService } from './overview.service';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Quiet time after the last live event before the Overview is fetched again; a burst costs one request. */
 export const OVERVIEW_LIVE_DEBOUNCE_MS = 500;
@@ -44,7 +44,7 @@ export function qcText(qc: OverviewQc): string {
 @Component({
   selector: 'eq-home-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     MatButtonModule,
     MatCardModule,
     MatIconModule,

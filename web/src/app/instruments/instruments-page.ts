@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, type OnInit, inject, signal, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -27,6 +26,7 @@ import { InstrumentsService } from './instruments.service';
 import { ProfileDialog, type ProfileDialogData, type ProfileDialogResult } from './profile-dialog';
 import { TokenDialog, type TokenDialogData } from './token-dialog';
 import { type WatcherCredential, type WatcherPresence, WatchersService } from './watchers.service';
+import { DateTimePipe, formatDateTime } from '../shared/format/date-format';
 
 /**
  * The instruments whose exports Equilight accepts, how they are read, whether a watcher watches each
@@ -35,7 +35,7 @@ import { type WatcherCredential, type WatcherPresence, WatchersService } from '.
 @Component({
   selector: 'eq-instruments-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     MatTableModule,
     MatSortModule,
     MatFormFieldModule,
@@ -152,7 +152,7 @@ export class InstrumentsPage implements OnInit {
     if (minutes < 90) return `${minutes} min ago`;
     const hours = Math.round(minutes / 60);
     if (hours < 36) return `${hours} h ago`;
-    return iso.slice(0, 10);
+    return formatDateTime(iso, 'date');
   }
 
   protected watcherSummary(w: WatcherCredential): string {

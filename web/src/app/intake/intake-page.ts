@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -46,6 +46,7 @@ import {
 import { IntakeService } from './intake.service';
 import { IntakeStatusLabel } from './intake-status-label';
 import { UploadDialog, type UploadDialogData, type UploadProfileChoice } from './upload-dialog';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Quiet time after the last live event before the page asks again; a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -55,7 +56,7 @@ export const FILTER_DEBOUNCE_MS = 300;
 @Component({
   selector: 'eq-intake-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     DecimalPipe,
     FileSizePipe,
     IntakeStatusLabel,

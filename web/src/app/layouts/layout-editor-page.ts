@@ -16,7 +16,7 @@ import {
   FORMAT_LABELS,
   type PlateCell,
   type PlateFormat,
-  ROLE_INFO,
+  ROLE_CODE,
   SAMPLE_ROLES,
   type SampleRole,
   allPositions,
@@ -25,6 +25,7 @@ import {
 } from '../shared/plate-grid/plate-geometry';
 import { PageHeader } from '../shared/page/page-header';
 import { PlateLegend } from '../shared/plate-grid/plate-legend';
+import { RoleBadge } from '../shared/role-code/role-badge';
 import { VersionHistory } from '../shared/version-history/version-history';
 import type { Layout, LayoutPosition } from './layout';
 import { LayoutsService } from './layouts.service';
@@ -50,6 +51,7 @@ export function cellsToPositions(cells: Readonly<Record<string, PlateCell>>): La
 @Component({
   selector: 'eq-layout-editor-page',
   imports: [
+    RoleBadge,
     ReactiveFormsModule,
     MatFormFieldModule,
     MatInputModule,
@@ -78,7 +80,7 @@ export class LayoutEditorPage {
     return Number.isInteger(id) && id > 0 ? id : null;
   });
 
-  protected readonly roles = SAMPLE_ROLES.map((role) => ({ role, ...ROLE_INFO[role] }));
+  protected readonly roles = SAMPLE_ROLES.map((role) => ({ role, ...ROLE_CODE[role] }));
   protected readonly formats = Object.entries(FORMAT_LABELS) as [PlateFormat, string][];
 
   protected readonly form = inject(FormBuilder).nonNullable.group({
@@ -223,7 +225,7 @@ export class LayoutEditorPage {
     this.status.set(
       role === null
         ? `Cleared ${selected.length} position(s).`
-        : `Marked ${selected.length} position(s) as ${ROLE_INFO[role].label.toLowerCase()}${group ? `, group ${group}` : ''}.`,
+        : `Marked ${selected.length} position(s) as ${ROLE_CODE[role].label.toLowerCase()}${group ? `, group ${group}` : ''}.`,
     );
   }
 

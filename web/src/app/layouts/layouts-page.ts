@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, type OnInit, inject, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -8,15 +7,26 @@ import { RouterLink } from '@angular/router';
 import { AuthService } from '../core/auth/auth.service';
 import { LoadState } from '../shared/page/load-state';
 import { PageHeader } from '../shared/page/page-header';
+import { RoleBadge } from '../shared/role-code/role-badge';
 import { sortedDataSource } from '../shared/page/sorted-data-source';
-import { FORMAT_LABELS, ROLE_INFO, SAMPLE_ROLES } from '../shared/plate-grid/plate-geometry';
+import { FORMAT_LABELS, ROLE_CODE, SAMPLE_ROLES } from '../shared/plate-grid/plate-geometry';
 import type { LayoutSummary } from './layout';
 import { LayoutsService } from './layouts.service';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Every layout, its format, what it holds and its current version. */
 @Component({
   selector: 'eq-layouts-page',
-  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
+  imports: [
+    MatTableModule,
+    MatSortModule,
+    MatButtonModule,
+    MatIconModule,
+    RouterLink,
+    DateTimePipe,
+    PageHeader,
+    RoleBadge,
+  ],
   templateUrl: './layouts-page.html',
   styleUrl: './layouts-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -43,8 +53,8 @@ export class LayoutsPage implements OnInit {
   protected roleCounts(layout: LayoutSummary) {
     return SAMPLE_ROLES.filter((role) => layout.roleCounts[role]).map((role) => ({
       role,
-      letter: ROLE_INFO[role].letter,
-      label: ROLE_INFO[role].label.toLowerCase(),
+      letter: ROLE_CODE[role].letter,
+      label: ROLE_CODE[role].label.toLowerCase(),
       count: layout.roleCounts[role] ?? 0,
     }));
   }

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -14,11 +13,20 @@ import { PageHeader } from '../shared/page/page-header';
 import { sortedDataSource } from '../shared/page/sorted-data-source';
 import type { ManifestSummary } from './manifest';
 import { ManifestsService } from './manifests.service';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Every manifest, the layout it fills, its sample count and current version. */
 @Component({
   selector: 'eq-manifests-page',
-  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
+  imports: [
+    MatTableModule,
+    MatSortModule,
+    MatButtonModule,
+    MatIconModule,
+    RouterLink,
+    DateTimePipe,
+    PageHeader,
+  ],
   templateUrl: './manifests-page.html',
   styleUrl: './manifests-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

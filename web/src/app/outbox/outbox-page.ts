@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, type OnInit, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
@@ -9,12 +8,13 @@ import { MatTabsModule } from '@angular/material/tabs';
 import { LoadState } from '../shared/page/load-state';
 import { PageHeader } from '../shared/page/page-header';
 import { type OutboxMessage, OutboxService } from './outbox.service';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /** Admins: every mail the local SMTP stand-in received, newest first, and one message in full. */
 @Component({
   selector: 'eq-outbox-page',
   imports: [
-    DatePipe,
+    DateTimePipe,
     MatTableModule,
     MatPaginatorModule,
     MatTabsModule,

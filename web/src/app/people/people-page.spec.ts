@@ -8,6 +8,14 @@ const PEOPLE = [
   { id: 1, email: 'admin@equilight.test', displayName: 'Ada Admin', role: 'admin', active: true },
   { id: 2, email: 'manager@equilight.test', displayName: 'Mika Manager', role: 'lab_manager', active: true },
   { id: 3, email: 'former@equilight.test', displayName: 'Fay Former', role: 'scientist', active: false },
+  {
+    id: 4,
+    email: 'new@equilight.test',
+    displayName: 'Ida Invited',
+    role: 'scientist',
+    active: true,
+    invited: true,
+  },
 ];
 
 describe('PeoplePage', () => {
@@ -29,9 +37,14 @@ describe('PeoplePage', () => {
   it('lists everyone with role labels and status', async () => {
     const { el } = await setup();
     const text = rows(el).join('\n');
-    expect(rows(el)).toHaveLength(3);
+    expect(rows(el)).toHaveLength(4);
     expect(text).toContain('Lab manager');
     expect(text).toContain('Deactivated');
+    // invited and no password yet: not "Active" until they set one
+    const ida = rows(el).find((r) => r.includes('Ida Invited'))!;
+    expect(ida).toContain('Invited');
+    expect(ida).not.toContain('Active');
+    expect(rows(el).find((r) => r.includes('Mika Manager'))).toContain('Active');
   });
 
   it('filters by any of name, e-mail, role and status', async () => {

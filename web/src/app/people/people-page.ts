@@ -15,6 +15,27 @@ import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { PeopleService } from './people.service';
 import { PersonDialog, type PersonDialogData, type PersonDialogResult } from './person-dialog';
 
+/**
+ * What a person's account is now: invited (no password set yet, so they cannot sign in), active, or
+ * deactivated. An invitation that was deactivated reads as deactivated.
+ */
+export function personStatus(user: User): {
+  word: string;
+  icon: string;
+  muted: boolean;
+  hint: string | null;
+} {
+  if (!user.active) return { word: 'Deactivated', icon: 'block', muted: true, hint: null };
+  if (user.invited)
+    return {
+      word: 'Invited',
+      icon: 'schedule',
+      muted: true,
+      hint: 'Has not set a password yet with the one-time link',
+    };
+  return { word: 'Active', icon: 'check_circle', muted: false, hint: null };
+}
+
 /** Admins: everyone who may sign in, with their role and whether they are active. */
 @Component({
   selector: 'eq-people-page',
@@ -45,7 +66,7 @@ export class PeoplePage implements OnInit {
 
   constructor() {
     this.dataSource.filterPredicate = (user, filter) =>
-      `${user.displayName} ${user.email} ${ROLE_LABELS[user.role]} ${user.active ? 'active' : 'deactivated'}`
+      `${user.displayName} ${user.email} ${ROLE_LABELS[user.role]} ${personStatus(user).word}`
         .toLowerCase()
         .includes(filter);
   }
@@ -53,6 +74,8 @@ export class PeoplePage implements OnInit {
   ngOnInit(): void {
     this.load();
   }
+
+  protected readonly status = personStatus;
 
   protected load(): void {
     this.state.load(this.people.list(), (users) => (this.dataSource.data = users));

@@ -1,8 +1,9 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, ViewEncapsulation, input } from '@angular/core';
 import { type PlanRow, type PlannerSettings, kUnit } from './mixture-plan';
 import { PipettingTable } from './pipetting-table';
 import { ScientificPipe } from './scientific-pipe';
+import { DateTimePipe } from '../shared/format/date-format';
 
 /**
  * The printable prep sheet of a plan. Hidden on screen; when printing, it is the only thing on the page.
@@ -10,7 +11,7 @@ import { ScientificPipe } from './scientific-pipe';
  */
 @Component({
   selector: 'eq-prep-sheet',
-  imports: [DatePipe, DecimalPipe, PipettingTable, ScientificPipe],
+  imports: [DateTimePipe, DecimalPipe, PipettingTable, ScientificPipe],
   templateUrl: './prep-sheet.html',
   styleUrl: './prep-sheet.scss',
   encapsulation: ViewEncapsulation.None,

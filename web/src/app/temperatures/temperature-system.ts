@@ -21,9 +21,12 @@ export function vantHoffChart(system: SystemTemperatures): ScatterChartModel {
   const toXY = (p: TemperaturePoint) => ({ x: inverseKelvin(p.temperatureC), y: Math.log(p.k as number) });
   const used = withK.filter((p) => !p.excludedBecause).map(toXY);
   const left = withK.filter((p) => p.excludedBecause).map(toXY);
-  const series: ScatterChartModel['series'] = [{ label: 'In the fit', kind: 'points', points: used }];
-  if (left.length) series.push({ label: 'Left out', kind: 'flagged', points: left });
   const fit = system.vantHoff;
+  // With no fit (fewer than two usable temperatures) no point is "in the fit".
+  const series: ScatterChartModel['series'] = [
+    { label: fit ? 'In the fit' : 'ln K of a batch', kind: 'points', points: used },
+  ];
+  if (left.length) series.push({ label: 'Left out', kind: 'flagged', points: left });
   if (fit && used.length) {
     const xs = used.map((p) => p.x);
     series.push({

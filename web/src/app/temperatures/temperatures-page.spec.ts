@@ -145,11 +145,47 @@ describe('TemperaturesPage', () => {
     expect(text(rows[3])).toContain('no: not approved yet');
     expect(el.querySelector('canvas[role="img"]')!.getAttribute('aria-label')).toContain('ln K against 1/T');
 
+    // with a fit, a usable point says it is in it, and the batch name and its state stay apart
+    expect(text(rows[0])).toContain('yes');
+    expect(text(rows[0])).toContain('°C (approved)');
+
     (el.querySelector('[data-testid="include-unapproved"] button') as HTMLButtonElement).click();
     await fixture.whenStable();
     http.expectOne('/api/temperatures?includeUnapproved=true').flush([]);
     await fixture.whenStable();
     expect(el.querySelector('[data-testid="no-systems"]')).not.toBeNull();
+    http.verify();
+  });
+
+  it("when a system has no van 't Hoff fit then no point claims to be in the fit", async () => {
+    TestBed.configureTestingModule({
+      imports: [TemperaturesPage],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideRouter([]),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+      ],
+    });
+    TestBed.overrideComponent(TemperaturesPage, {
+      remove: { imports: [ScatterChart] },
+      add: { imports: [ScatterChartStub] },
+    });
+    const http = TestBed.inject(HttpTestingController);
+    const fixture = TestBed.createComponent(TemperaturesPage);
+    await fixture.whenStable();
+    const one = system();
+    http
+      .expectOne('/api/temperatures?includeUnapproved=false')
+      .flush([{ ...one, points: [one.points[0]], vantHoff: null, note: 'One temperature: no fit yet.' }]);
+    await fixture.whenStable();
+    const el = fixture.nativeElement as HTMLElement;
+    const row = el.querySelector('tbody tr')!;
+    expect(text(row)).toContain('no fit yet');
+    expect(text(row)).not.toMatch(/\byes\b/);
+    expect(vantHoffChart({ ...one, points: [one.points[0]], vantHoff: null }).series[0].label).not.toBe(
+      'In the fit',
+    );
     http.verify();
   });
 });

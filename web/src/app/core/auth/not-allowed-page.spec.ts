@@ -19,7 +19,7 @@ const text = (el: Element | null) => (el?.textContent ?? '').replace(/\s+/g, ' '
 
 describe('a page the role may not open', () => {
   async function open(role: Role, url: string) {
-    const user: User = { id: 1, email: 'a@lab.test', displayName: 'A', role, active: true };
+    const user: User = { id: 1, email: 'a@lab.test', displayName: 'A', role, active: true, invited: false };
     TestBed.configureTestingModule({
       providers: [
         provideRouter([

@@ -11,6 +11,7 @@ import {
 } from 'chart.js';
 import { BaseChartDirective, provideCharts } from 'ng2-charts';
 import type { ChartSeries, ScatterChartModel } from './chart-data';
+import { tickLabels } from './tick-labels';
 
 /** Only what the scatter charts use is registered, to keep the chunk small. */
 const REGISTERABLES = [ScatterController, LinearScale, PointElement, LineElement, Tooltip, Legend];
@@ -81,12 +82,13 @@ export class ScatterChart {
   protected readonly options = computed<ChartConfiguration<'scatter'>['options']>(() => {
     const ink = this.cssVar('--mat-sys-on-surface-variant', '#444');
     const grid = this.cssVar('--mat-sys-outline-variant', '#ccc');
-    const tick = (v: number | string) => {
-      const n = Number(v);
-      return this.compactTicks() && n !== 0 && (Math.abs(n) < 1e-2 || Math.abs(n) >= 1e4)
-        ? n.toExponential(1)
-        : String(Number(n.toPrecision(4)));
-    };
+    const compact = this.compactTicks();
+    // Every label of an axis is written with the digits that keep all of them distinct.
+    const tick = (_v: number | string, index: number, ticks: readonly { value: number }[]) =>
+      tickLabels(
+        ticks.map((t) => t.value),
+        compact,
+      )[index];
     const axis = (title: string) => ({
       type: 'linear' as const,
       title: { display: true, text: title, color: ink },

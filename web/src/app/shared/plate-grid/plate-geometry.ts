@@ -5,16 +5,8 @@ export type { PlateFormat } from '@equilight/contracts';
 export { PLATE_FORMAT_LABELS as FORMAT_LABELS } from '@equilight/contracts';
 import type { PlateFormat } from '@equilight/contracts';
 
-export const SAMPLE_ROLES: readonly SampleRole[] = ['blank', 'standard', 'unknown', 'mixture', 'control'];
-
-/** What a person sees for each role: a name, a letter in the well and a fill pattern, besides the colour. */
-export const ROLE_INFO: Record<SampleRole, { label: string; letter: string; pattern: string }> = {
-  blank: { label: 'Blank', letter: 'B', pattern: 'plain, dashed rim' },
-  standard: { label: 'Standard', letter: 'S', pattern: 'solid' },
-  unknown: { label: 'Unknown', letter: 'U', pattern: 'diagonal stripes' },
-  mixture: { label: 'Mixture', letter: 'M', pattern: 'dots' },
-  control: { label: 'Control', letter: 'C', pattern: 'cross-hatch' },
-};
+/** The role code (name, letter, pattern, colours) lives in the contracts: `shared/role-code`. */
+export { ROLE_CODE, SAMPLE_ROLES } from '../role-code/role-style';
 
 /** What one position holds, as far as the grid shows it. */
 export interface PlateCell {

@@ -1,7 +1,13 @@
 import { ChangeDetectionStrategy, Component, signal } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import { PlateGrid, describePosition } from './plate-grid';
-import { type PlateCell, type PlateFormat, comparePositions, plateGeometry } from './plate-geometry';
+import {
+  type PlateCell,
+  type PlateFormat,
+  ROLE_CODE,
+  comparePositions,
+  plateGeometry,
+} from './plate-geometry';
 
 @Component({
   imports: [PlateGrid],
@@ -46,6 +52,30 @@ describe('PlateGrid', () => {
     };
     return { fixture, el, well, selected, mouse, click, key, host: fixture.componentInstance };
   }
+
+  it('when a well holds a role then it is painted with the contracts role code: colour, pattern and letter', async () => {
+    const { well } = await setup((h) =>
+      h.cells.set({ A1: { role: 'standard' }, A2: { role: 'mixture' }, A3: { role: 'blank' } }),
+    );
+    for (const [position, role] of [
+      ['A1', 'standard'],
+      ['A2', 'mixture'],
+      ['A3', 'blank'],
+    ] as const) {
+      const w = well(position);
+      const code = ROLE_CODE[role];
+      expect(w.getAttribute('data-role')).toBe(role);
+      const svg = decodeURIComponent(w.style.backgroundImage);
+      expect(svg).toContain(`fill="${code.fill}"`);
+      expect(svg).toContain('<pattern');
+      expect(w.style.getPropertyValue('--eq-role-ink')).toBe(code.ink);
+      expect(w.querySelector('.eq-letter')!.textContent).toBe(code.letter);
+    }
+    // a pattern with marks draws them in the ink; the plain one has none
+    expect(decodeURIComponent(well('A2').style.backgroundImage)).toContain('<circle');
+    expect(decodeURIComponent(well('A3').style.backgroundImage)).not.toMatch(/<line|<circle/);
+    expect(well('B1').style.backgroundImage).toBe('');
+  });
 
   it('draws a 96-well plate as an ARIA grid of 8 rows and 12 columns', async () => {
     const { el } = await setup();

@@ -9,11 +9,13 @@ import {
   output,
   signal,
 } from '@angular/core';
+import { RoleFill } from '../role-code/role-fill';
 import {
   type GridPoint,
   type PlateCell,
   type PlateFormat,
-  ROLE_INFO,
+  type SampleRole,
+  ROLE_CODE,
   allPositions,
   plateGeometry,
   positionsInRect,
@@ -22,7 +24,7 @@ import {
 interface CellView {
   c: number;
   position: string;
-  role: string | null;
+  role: SampleRole | null;
   letter: string;
   group: string;
   label: string;
@@ -37,7 +39,7 @@ interface RowView {
 
 /** "B7, standard, group S1, sample STD-3" — what a screen reader and the tooltip say about a position. */
 export function describePosition(position: string, cell: PlateCell | undefined): string {
-  const parts = [position, cell?.role ? ROLE_INFO[cell.role].label.toLowerCase() : 'empty'];
+  const parts = [position, cell?.role ? ROLE_CODE[cell.role].label.toLowerCase() : 'empty'];
   if (cell?.replicateGroup) parts.push(`group ${cell.replicateGroup}`);
   if (cell?.label) parts.push(`sample ${cell.label}`);
   return parts.join(', ');
@@ -50,6 +52,7 @@ export function describePosition(position: string, cell: PlateCell | undefined):
  */
 @Component({
   selector: 'eq-plate-grid',
+  imports: [RoleFill],
   templateUrl: './plate-grid.html',
   styleUrl: './plate-grid.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -89,7 +92,7 @@ export class PlateGrid {
             c,
             position,
             role: cell?.role ?? null,
-            letter: cell?.role ? ROLE_INFO[cell.role].letter : '',
+            letter: cell?.role ? ROLE_CODE[cell.role].letter : '',
             group: cell?.replicateGroup ?? '',
             label: cell?.label ?? '',
             description: describePosition(position, cell),

@@ -1,7 +1,7 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
+import { DateTimePipe } from '../format/date-format';
 
 /** One saved version of something kept in versions (a layout, a manifest). */
 export interface VersionEntry {
@@ -14,14 +14,14 @@ export interface VersionEntry {
 /** The versions of what an editor shows, newest first, marking the current one and the one shown. */
 @Component({
   selector: 'eq-version-history',
-  imports: [DatePipe, MatButtonModule, MatIconModule],
+  imports: [DateTimePipe, MatButtonModule, MatIconModule],
   template: `<section class="eq-versions" aria-labelledby="versions-heading">
     <h2 id="versions-heading">Versions</h2>
     <ul [attr.data-testid]="testId()">
       @for (v of newestFirst(); track v.version) {
         <li>
           <span class="eq-num">v{{ v.version }}</span>
-          <span class="eq-num">{{ v.createdAt | date: 'yyyy-MM-dd HH:mm' }}</span>
+          <span class="eq-num">{{ v.createdAt | eqDate }}</span>
           @if (v.source) {
             <span class="eq-muted">{{ v.source }}</span>
           }
