@@ -46,6 +46,7 @@ import {
 import { IntakeService } from './intake.service';
 import { IntakeStatusLabel } from './intake-status-label';
 import { UploadDialog, type UploadDialogData, type UploadProfileChoice } from './upload-dialog';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Quiet time after the last live event before the page asks again; a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -55,6 +56,7 @@ export const FILTER_DEBOUNCE_MS = 300;
 @Component({
   selector: 'eq-intake-page',
   imports: [
+    TableScroll,
     DatePipe,
     DecimalPipe,
     FileSizePipe,
