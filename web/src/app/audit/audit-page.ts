@@ -20,6 +20,7 @@ import {
   type AuditQuery,
 } from './audit-entry';
 import { AuditService } from './audit.service';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 export const AUDIT_FILTER_DEBOUNCE_MS = 300;
 export const AUDIT_PAGE_SIZE = 50;
@@ -37,7 +38,7 @@ export function endOfDayIso(day: string): string | undefined {
 /** Lab managers and admins: who changed what, when and why. Read-only: entries are never edited or deleted. */
 @Component({
   selector: 'eq-audit-page',
-  imports: [
+  imports: [TableScroll, 
     DatePipe,
     JsonPipe,
     ReactiveFormsModule,

@@ -27,6 +27,7 @@ import { InstrumentsService } from './instruments.service';
 import { ProfileDialog, type ProfileDialogData, type ProfileDialogResult } from './profile-dialog';
 import { TokenDialog, type TokenDialogData } from './token-dialog';
 import { type WatcherCredential, type WatcherPresence, WatchersService } from './watchers.service';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /**
  * The instruments whose exports Equilight accepts, how they are read, whether a watcher watches each
@@ -34,7 +35,7 @@ import { type WatcherCredential, type WatcherPresence, WatchersService } from '.
  */
 @Component({
   selector: 'eq-instruments-page',
-  imports: [
+  imports: [TableScroll, 
     DatePipe,
     MatTableModule,
     MatSortModule,

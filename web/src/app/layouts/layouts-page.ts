@@ -12,11 +12,12 @@ import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { FORMAT_LABELS, ROLE_INFO, SAMPLE_ROLES } from '../shared/plate-grid/plate-geometry';
 import type { LayoutSummary } from './layout';
 import { LayoutsService } from './layouts.service';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Every layout, its format, what it holds and its current version. */
 @Component({
   selector: 'eq-layouts-page',
-  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
+  imports: [TableScroll, MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
   templateUrl: './layouts-page.html',
   styleUrl: './layouts-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

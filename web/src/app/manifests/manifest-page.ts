@@ -70,6 +70,7 @@ import {
   refusedReview,
 } from './manifest-review';
 import { type ManifestInput, ManifestsService } from './manifests.service';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 type RowGroup = FormGroup<Record<ManifestColumn, FormControl<string>>>;
 
@@ -90,7 +91,7 @@ export function mapOntoLayout(
 /** Create or edit a manifest: upload a file or type rows, check it against a layout, see it mapped, save. */
 @Component({
   selector: 'eq-manifest-page',
-  imports: [
+  imports: [TableScroll, 
     ReactiveFormsModule,
     MatFormFieldModule,
     MatInputModule,

@@ -14,11 +14,12 @@ import { PageHeader } from '../shared/page/page-header';
 import { sortedDataSource } from '../shared/page/sorted-data-source';
 import type { ManifestSummary } from './manifest';
 import { ManifestsService } from './manifests.service';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Every manifest, the layout it fills, its sample count and current version. */
 @Component({
   selector: 'eq-manifests-page',
-  imports: [MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
+  imports: [TableScroll, MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
   templateUrl: './manifests-page.html',
   styleUrl: './manifests-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

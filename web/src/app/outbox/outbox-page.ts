@@ -9,11 +9,12 @@ import { MatTabsModule } from '@angular/material/tabs';
 import { LoadState } from '../shared/page/load-state';
 import { PageHeader } from '../shared/page/page-header';
 import { type OutboxMessage, OutboxService } from './outbox.service';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Admins: every mail the local SMTP stand-in received, newest first, and one message in full. */
 @Component({
   selector: 'eq-outbox-page',
-  imports: [
+  imports: [TableScroll, 
     DatePipe,
     MatTableModule,
     MatPaginatorModule,

@@ -14,11 +14,12 @@ import { PageHeader } from '../shared/page/page-header';
 import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { PeopleService } from './people.service';
 import { PersonDialog, type PersonDialogData, type PersonDialogResult } from './person-dialog';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Admins: everyone who may sign in, with their role and whether they are active. */
 @Component({
   selector: 'eq-people-page',
-  imports: [
+  imports: [TableScroll, 
     MatTableModule,
     MatSortModule,
     MatFormFieldModule,

@@ -48,6 +48,7 @@ import { PrepSheet } from './prep-sheet';
 import { type NamedReagent, ReagentCautions, cautionLine } from './reagent-cautions';
 import { lookupReagent } from './reagent-hazards';
 import { saveTextFile } from './save-text-file';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 const MAX_MIXTURES = 96;
 
@@ -64,7 +65,7 @@ const SAMPLE_PREFIX = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,30}$/;
  */
 @Component({
   selector: 'eq-planner-page',
-  imports: [
+  imports: [TableScroll, 
     ReactiveFormsModule,
     MatFormFieldModule,
     MatInputModule,
