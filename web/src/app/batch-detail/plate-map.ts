@@ -21,6 +21,7 @@ import {
   describeCell,
   statusWord,
 } from './plate-map-model';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 let nextId = 0;
 
@@ -37,6 +38,7 @@ interface Hover {
  */
 @Component({
   selector: 'eq-plate-map',
+  imports: [TableScroll],
   templateUrl: './plate-map.html',
   styleUrl: './plate-map.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

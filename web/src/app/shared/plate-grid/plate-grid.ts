@@ -18,6 +18,7 @@ import {
   plateGeometry,
   positionsInRect,
 } from './plate-geometry';
+import { TableScroll } from '../table-scroll/table-scroll';
 
 interface CellView {
   c: number;
@@ -50,6 +51,7 @@ export function describePosition(position: string, cell: PlateCell | undefined):
  */
 @Component({
   selector: 'eq-plate-grid',
+  imports: [TableScroll],
   templateUrl: './plate-grid.html',
   styleUrl: './plate-grid.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
