@@ -7,7 +7,9 @@ interface AxeViolation {
   nodes: { target: string[] }[];
 }
 
-type AxeWindow = { axe?: { run: (context: unknown, options: unknown) => Promise<{ violations: AxeViolation[] }> } };
+type AxeWindow = {
+  axe?: { run: (context: unknown, options: unknown) => Promise<{ violations: AxeViolation[] }> };
+};
 
 /**
  * axe-core's serious and critical violations on the page (or inside `selector`), one line each with up to
