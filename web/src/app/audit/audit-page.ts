@@ -38,7 +38,8 @@ export function endOfDayIso(day: string): string | undefined {
 /** Lab managers and admins: who changed what, when and why. Read-only: entries are never edited or deleted. */
 @Component({
   selector: 'eq-audit-page',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     DatePipe,
     JsonPipe,
     ReactiveFormsModule,

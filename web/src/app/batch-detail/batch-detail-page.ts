@@ -78,7 +78,8 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
  */
 @Component({
   selector: 'eq-batch-detail-page',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     DatePipe,
     RouterLink,
     MatButtonModule,

@@ -53,7 +53,8 @@ const INITIAL_STATE: SpectraState = { running: true, outcome: null };
  */
 @Component({
   selector: 'eq-spectra-panel',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     MatCheckboxModule,
     MatFormFieldModule,
     MatIconModule,

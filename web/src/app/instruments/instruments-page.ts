@@ -35,7 +35,8 @@ import { TableScroll } from '../shared/table-scroll/table-scroll';
  */
 @Component({
   selector: 'eq-instruments-page',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     DatePipe,
     MatTableModule,
     MatSortModule,

@@ -17,7 +17,16 @@ import { TableScroll } from '../shared/table-scroll/table-scroll';
 /** Every layout, its format, what it holds and its current version. */
 @Component({
   selector: 'eq-layouts-page',
-  imports: [TableScroll, MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
+  imports: [
+    TableScroll,
+    MatTableModule,
+    MatSortModule,
+    MatButtonModule,
+    MatIconModule,
+    RouterLink,
+    DatePipe,
+    PageHeader,
+  ],
   templateUrl: './layouts-page.html',
   styleUrl: './layouts-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

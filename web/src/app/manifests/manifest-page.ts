@@ -91,7 +91,8 @@ export function mapOntoLayout(
 /** Create or edit a manifest: upload a file or type rows, check it against a layout, see it mapped, save. */
 @Component({
   selector: 'eq-manifest-page',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     ReactiveFormsModule,
     MatFormFieldModule,
     MatInputModule,

@@ -19,7 +19,16 @@ import { TableScroll } from '../shared/table-scroll/table-scroll';
 /** Every manifest, the layout it fills, its sample count and current version. */
 @Component({
   selector: 'eq-manifests-page',
-  imports: [TableScroll, MatTableModule, MatSortModule, MatButtonModule, MatIconModule, RouterLink, DatePipe, PageHeader],
+  imports: [
+    TableScroll,
+    MatTableModule,
+    MatSortModule,
+    MatButtonModule,
+    MatIconModule,
+    RouterLink,
+    DatePipe,
+    PageHeader,
+  ],
   templateUrl: './manifests-page.html',
   styleUrl: './manifests-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

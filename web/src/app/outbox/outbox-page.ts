@@ -14,7 +14,8 @@ import { TableScroll } from '../shared/table-scroll/table-scroll';
 /** Admins: every mail the local SMTP stand-in received, newest first, and one message in full. */
 @Component({
   selector: 'eq-outbox-page',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     DatePipe,
     MatTableModule,
     MatPaginatorModule,

@@ -19,7 +19,8 @@ import { TableScroll } from '../shared/table-scroll/table-scroll';
 /** Admins: everyone who may sign in, with their role and whether they are active. */
 @Component({
   selector: 'eq-people-page',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     MatTableModule,
     MatSortModule,
     MatFormFieldModule,

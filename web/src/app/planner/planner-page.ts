@@ -65,7 +65,8 @@ const SAMPLE_PREFIX = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,30}$/;
  */
 @Component({
   selector: 'eq-planner-page',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     ReactiveFormsModule,
     MatFormFieldModule,
     MatInputModule,

@@ -16,7 +16,8 @@ import { TableScroll } from '../shared/table-scroll/table-scroll';
 /** K of each chemical system at several temperatures, and ΔH° and ΔS° from the van 't Hoff fit. */
 @Component({
   selector: 'eq-temperatures-page',
-  imports: [TableScroll, 
+  imports: [
+    TableScroll,
     RouterLink,
     MatCardModule,
     MatIconModule,
