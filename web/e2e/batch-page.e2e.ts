@@ -6,6 +6,7 @@ import { extractPdfText } from '../../server/src/testing/pdf-text';
 import { parseWatcherConfig } from '../../watcher/src/config';
 import { silentLogger } from '../../watcher/src/logger';
 import { createWatcher, type DropFolderWatcher } from '../../watcher/src/watcher';
+import { axeSerious } from './support/axe';
 import { launchChromium } from './support/browser';
 import { eventually, expectEventually } from './support/eventually';
 import {
@@ -61,24 +62,6 @@ async function signIn(page: Page, url: string, email: string): Promise<void> {
   await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.getByTestId('main-nav').waitFor();
-}
-
-async function axeSeriousViolations(page: Page): Promise<string[]> {
-  await page.addScriptTag({ path: require.resolve('axe-core/axe.min.js') });
-  const violations = await page.evaluate(async () => {
-    const axe = (window as unknown as { axe: { run: () => Promise<{ violations: unknown[] }> } }).axe;
-    const result = await axe.run();
-    return result.violations as { id: string; impact: string; help: string; nodes: { target: string[] }[] }[];
-  });
-  return violations
-    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map(
-      (v) =>
-        `${v.impact} ${v.id}: ${v.help} (${v.nodes
-          .map((n) => n.target.join(' '))
-          .slice(0, 5)
-          .join('; ')})`,
-    );
 }
 
 describe('a scientist watches a batch fill in live, excludes a mixture, and it gets approved', () => {
@@ -272,7 +255,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     await page.getByTestId('plate-map').scrollIntoViewIfNeeded();
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-390x844-map.png') });
     await page.setViewportSize({ width: 1280, height: 800 });
-    expect(await axeSeriousViolations(page)).toEqual([]);
+    expect(await axeSerious(page)).toEqual([]);
   });
 
   it('a lab manager approves with a comment; the batch locks, live on the scientist page too', async () => {
@@ -333,7 +316,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
       fullPage: true,
     });
     await page.setViewportSize({ width: 1280, height: 800 });
-    expect(await axeSeriousViolations(page)).toEqual([]);
+    expect(await axeSerious(page)).toEqual([]);
   });
 
   it("shows a later engine's different answer as a note beside the record (display check, with a doctored engineCheck)", async () => {
@@ -374,7 +357,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
       await page.getByTestId('engine-note').scrollIntoViewIfNeeded();
       await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'batch-page-approved-note-390x844.png') });
       await page.setViewportSize({ width: 1280, height: 800 });
-      expect(await axeSeriousViolations(page)).toEqual([]);
+      expect(await axeSerious(page)).toEqual([]);
     } finally {
       await page.unroute('**/api/batches/*/analysis?engineCheck=true');
     }

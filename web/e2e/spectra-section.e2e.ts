@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { SPECTRA_K, SPECTRA_WAVELENGTHS, spectraPlate } from '../src/app/batch-detail/spectra-fixture';
+import { axeSerious } from './support/axe';
 import { launchChromium } from './support/browser';
 import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
 
@@ -53,18 +54,6 @@ function manifestRows(): Record<string, string>[] {
     volume_b_mL: s.volumeBMl === undefined ? '' : String(s.volumeBMl),
     total_volume_mL: s.totalVolumeMl === undefined ? '' : String(s.totalVolumeMl),
   }));
-}
-
-async function axeSerious(page: Page, selector: string): Promise<string[]> {
-  await page.addScriptTag({ path: require.resolve('axe-core/axe.min.js') });
-  const violations = await page.evaluate(async (sel) => {
-    const axe = (window as unknown as { axe: { run: (c: string) => Promise<{ violations: unknown[] }> } })
-      .axe;
-    return (await axe.run(sel)).violations as { id: string; impact: string; help: string }[];
-  }, selector);
-  return violations
-    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map((v) => `${v.impact} ${v.id}: ${v.help}`);
 }
 
 describe('a batch read as spectra shows its Spectra section with K from every wavelength', () => {

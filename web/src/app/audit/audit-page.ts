@@ -23,6 +23,7 @@ import {
 import { AuditService } from './audit.service';
 import { DateTimePipe, formatDateTime } from '../shared/format/date-format';
 import { provideDateInput } from '../shared/format/date-input';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 export const AUDIT_FILTER_DEBOUNCE_MS = 300;
 export const AUDIT_PAGE_SIZE = 50;
@@ -45,6 +46,7 @@ export function endOfDayIso(day: Date | null): string | undefined {
   providers: [provideDateInput()],
   imports: [
     DateTimePipe,
+    TableScroll,
     JsonPipe,
     ReactiveFormsModule,
     MatTableModule,

@@ -4,6 +4,7 @@ import type { BatchResultSummary } from '../batches/batch';
 import type { ApprovalRecord, EngineCheck } from './batch-analysis';
 import { formatNumber, kUnitOf } from '../shared/format/number-format';
 import { DateTimePipe } from '../shared/format/date-format';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /**
  * "K (1:1) = 612 L·mol⁻¹ (95 % CI 590 to 635)" — the K text every screen and report uses — or what stands
@@ -25,7 +26,7 @@ export function describeHeadline(s: BatchResultSummary | null): string {
  */
 @Component({
   selector: 'eq-approval-record-panel',
-  imports: [DateTimePipe, MatIconModule],
+  imports: [TableScroll, DateTimePipe, MatIconModule],
   templateUrl: './approval-record-panel.html',
   styleUrl: './approval-record-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -56,6 +56,7 @@ import {
 import { type EpsilonSourceValue, type ExclusionRow, WhatIfPanel } from './what-if-panel';
 import { WhatIfRunner } from './what-if-runner';
 import { DateTimePipe } from '../shared/format/date-format';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Quiet time after the last live event before the page asks again: a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -79,6 +80,7 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
   selector: 'eq-batch-detail-page',
   imports: [
     DateTimePipe,
+    TableScroll,
     RouterLink,
     MatButtonModule,
     MatCardModule,

@@ -10,11 +10,12 @@ import {
   significantDigits,
 } from '../shared/format/number-format';
 import { ScatterChart } from '../shared/chart/scatter-chart';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Beer–Lambert calibration: the statistics, the line and residual plots, and the standards as a table. */
 @Component({
   selector: 'eq-calibration-panel',
-  imports: [ScatterChart, MatIconModule],
+  imports: [TableScroll, ScatterChart, MatIconModule],
   templateUrl: './calibration-panel.html',
   styleUrl: './panels.scss',
   styles: `

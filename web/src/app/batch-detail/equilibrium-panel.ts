@@ -26,6 +26,7 @@ import {
   significantDigits,
 } from '../shared/format/number-format';
 import { ScatterChart } from '../shared/chart/scatter-chart';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 export interface IceTable {
   mixture: MixtureResult;
@@ -166,7 +167,7 @@ export function candidatesInSettingsOrder(result: BatchResult): CandidateResult[
  */
 @Component({
   selector: 'eq-equilibrium-panel',
-  imports: [ScatterChart, MatFormFieldModule, MatSelectModule, MatIconModule],
+  imports: [TableScroll, ScatterChart, MatFormFieldModule, MatSelectModule, MatIconModule],
   templateUrl: './equilibrium-panel.html',
   styleUrls: ['./panels.scss', './equilibrium-panel.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -22,6 +22,7 @@ import {
   describeCell,
   statusWord,
 } from './plate-map-model';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 let nextId = 0;
 
@@ -38,7 +39,7 @@ interface Hover {
  */
 @Component({
   selector: 'eq-plate-map',
-  imports: [RoleBadge, PlateLegend],
+  imports: [TableScroll, RoleBadge, PlateLegend],
   templateUrl: './plate-map.html',
   styleUrl: './plate-map.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

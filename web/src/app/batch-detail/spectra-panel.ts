@@ -34,6 +34,7 @@ import {
   spectraSettings,
 } from './spectra-model';
 import { WhatIfRunner } from './what-if-runner';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Quiet time after the last change before the whole-spectrum analysis runs again (it takes ~0.1–1 s). */
 export const SPECTRA_DEBOUNCE_MS = 250;
@@ -53,6 +54,7 @@ const INITIAL_STATE: SpectraState = { running: true, outcome: null };
 @Component({
   selector: 'eq-spectra-panel',
   imports: [
+    TableScroll,
     MatCheckboxModule,
     MatFormFieldModule,
     MatIconModule,

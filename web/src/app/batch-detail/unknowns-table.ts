@@ -14,14 +14,15 @@ import {
   reportingUnitOf,
 } from '../shared/format/number-format';
 import { guidanceFor } from '../shared/qc/qc-guidance';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Concentrations of the unknowns (and controls) read from the calibration, with SE and QC marks. */
 @Component({
   selector: 'eq-unknowns-table',
-  imports: [MatIconModule],
+  imports: [TableScroll, MatIconModule],
   template: `
     @if (rows().length) {
-      <div class="eq-table-wrap" tabindex="0" role="region" aria-label="Unknowns table">
+      <eq-table-scroll class="eq-table-wrap" label="Unknowns table">
         <table class="eq-table" data-testid="unknowns-table">
           <caption>
             Concentrations in the original sample (after the dilution factor), in
@@ -97,7 +98,7 @@ import { guidanceFor } from '../shared/qc/qc-guidance';
             }
           </tbody>
         </table>
-      </div>
+      </eq-table-scroll>
     } @else {
       <p class="eq-empty">This batch has no unknowns or controls.</p>
     }

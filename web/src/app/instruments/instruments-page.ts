@@ -27,6 +27,7 @@ import { ProfileDialog, type ProfileDialogData, type ProfileDialogResult } from 
 import { TokenDialog, type TokenDialogData } from './token-dialog';
 import { type WatcherCredential, type WatcherPresence, WatchersService } from './watchers.service';
 import { DateTimePipe, formatDateTime } from '../shared/format/date-format';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /**
  * The instruments whose exports Equilight accepts, how they are read, whether a watcher watches each
@@ -36,6 +37,7 @@ import { DateTimePipe, formatDateTime } from '../shared/format/date-format';
   selector: 'eq-instruments-page',
   imports: [
     DateTimePipe,
+    TableScroll,
     MatTableModule,
     MatSortModule,
     MatFormFieldModule,

@@ -47,6 +47,7 @@ import { IntakeService } from './intake.service';
 import { IntakeStatusLabel } from './intake-status-label';
 import { UploadDialog, type UploadDialogData, type UploadProfileChoice } from './upload-dialog';
 import { DateTimePipe } from '../shared/format/date-format';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Quiet time after the last live event before the page asks again; a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -57,6 +58,7 @@ export const FILTER_DEBOUNCE_MS = 300;
   selector: 'eq-intake-page',
   imports: [
     DateTimePipe,
+    TableScroll,
     DecimalPipe,
     FileSizePipe,
     IntakeStatusLabel,

@@ -13,11 +13,13 @@ import { FORMAT_LABELS, ROLE_CODE, SAMPLE_ROLES } from '../shared/plate-grid/pla
 import type { LayoutSummary } from './layout';
 import { LayoutsService } from './layouts.service';
 import { DateTimePipe } from '../shared/format/date-format';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Every layout, its format, what it holds and its current version. */
 @Component({
   selector: 'eq-layouts-page',
   imports: [
+    TableScroll,
     MatTableModule,
     MatSortModule,
     MatButtonModule,

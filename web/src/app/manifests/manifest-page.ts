@@ -70,6 +70,7 @@ import {
   refusedReview,
 } from './manifest-review';
 import { type ManifestInput, ManifestsService } from './manifests.service';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 type RowGroup = FormGroup<Record<ManifestColumn, FormControl<string>>>;
 
@@ -91,6 +92,7 @@ export function mapOntoLayout(
 @Component({
   selector: 'eq-manifest-page',
   imports: [
+    TableScroll,
     ReactiveFormsModule,
     MatFormFieldModule,
     MatInputModule,

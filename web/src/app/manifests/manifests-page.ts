@@ -14,11 +14,13 @@ import { sortedDataSource } from '../shared/page/sorted-data-source';
 import type { ManifestSummary } from './manifest';
 import { ManifestsService } from './manifests.service';
 import { DateTimePipe } from '../shared/format/date-format';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Every manifest, the layout it fills, its sample count and current version. */
 @Component({
   selector: 'eq-manifests-page',
   imports: [
+    TableScroll,
     MatTableModule,
     MatSortModule,
     MatButtonModule,

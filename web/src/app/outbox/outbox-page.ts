@@ -9,12 +9,14 @@ import { LoadState } from '../shared/page/load-state';
 import { PageHeader } from '../shared/page/page-header';
 import { type OutboxMessage, OutboxService } from './outbox.service';
 import { DateTimePipe } from '../shared/format/date-format';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** Admins: every mail the local SMTP stand-in received, newest first, and one message in full. */
 @Component({
   selector: 'eq-outbox-page',
   imports: [
     DateTimePipe,
+    TableScroll,
     MatTableModule,
     MatPaginatorModule,
     MatTabsModule,

@@ -14,6 +14,7 @@ import { PageHeader } from '../shared/page/page-header';
 import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { PeopleService } from './people.service';
 import { PersonDialog, type PersonDialogData, type PersonDialogResult } from './person-dialog';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /**
  * What a person's account is now: invited (no password set yet, so they cannot sign in), active, or
@@ -40,6 +41,7 @@ export function personStatus(user: User): {
 @Component({
   selector: 'eq-people-page',
   imports: [
+    TableScroll,
     MatTableModule,
     MatSortModule,
     MatFormFieldModule,

@@ -48,6 +48,7 @@ import { PrepSheet } from './prep-sheet';
 import { type NamedReagent, ReagentCautions, cautionLine } from './reagent-cautions';
 import { lookupReagent } from './reagent-hazards';
 import { saveTextFile } from './save-text-file';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 const MAX_MIXTURES = 96;
 
@@ -65,6 +66,7 @@ const SAMPLE_PREFIX = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,30}$/;
 @Component({
   selector: 'eq-planner-page',
   imports: [
+    TableScroll,
     ReactiveFormsModule,
     MatFormFieldModule,
     MatInputModule,

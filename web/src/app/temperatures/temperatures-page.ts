@@ -11,11 +11,13 @@ import { ScatterChart } from '../shared/chart/scatter-chart';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { type SystemTemperatures, vantHoffChart } from './temperature-system';
 import { TemperaturesService } from './temperatures.service';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 /** K of each chemical system at several temperatures, and ΔH° and ΔS° from the van 't Hoff fit. */
 @Component({
   selector: 'eq-temperatures-page',
   imports: [
+    TableScroll,
     RouterLink,
     MatCardModule,
     MatIconModule,

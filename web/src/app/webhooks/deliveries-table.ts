@@ -4,6 +4,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { type DeliveryStatus, WEBHOOK_EVENT_LABELS, type WebhookDelivery } from './webhooks.service';
 import { DateTimePipe } from '../shared/format/date-format';
+import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 export const DELIVERY_STATUS: Record<DeliveryStatus, { label: string; icon: string }> = {
   pending: { label: 'Pending', icon: 'schedule' },
@@ -14,7 +15,7 @@ export const DELIVERY_STATUS: Record<DeliveryStatus, { label: string; icon: stri
 /** The delivery log: one row per event and receiver, with a button to send it again. */
 @Component({
   selector: 'eq-deliveries-table',
-  imports: [DateTimePipe, MatButtonModule, MatIconModule, MatTooltipModule],
+  imports: [TableScroll, DateTimePipe, MatButtonModule, MatIconModule, MatTooltipModule],
   templateUrl: './deliveries-table.html',
   styleUrl: './deliveries-table.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

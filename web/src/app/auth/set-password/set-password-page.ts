@@ -21,7 +21,7 @@ import { apiErrorMessage } from '../../core/http/auth.interceptor';
     RouterLink,
   ],
   template: `
-    <div class="eq-center">
+    <main class="eq-center">
       <mat-card appearance="outlined" class="eq-card">
         <mat-card-header
           ><mat-card-title><h1>Set your password</h1></mat-card-title></mat-card-header
@@ -52,7 +52,7 @@ import { apiErrorMessage } from '../../core/http/auth.interceptor';
           </form>
         }
       </mat-card>
-    </div>
+    </main>
   `,
   styleUrl: '../sign-in/sign-in-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -27,7 +27,7 @@ export function rolesFromParam(value: string | null): Role[] {
       <mat-card appearance="outlined" class="eq-not-allowed" role="alert">
         <mat-card-header>
           <mat-icon mat-card-avatar aria-hidden="true">block</mat-icon>
-          <mat-card-title>Not allowed for your role</mat-card-title>
+          <h1 mat-card-title>Not allowed for your role</h1>
         </mat-card-header>
         <mat-card-content>
           <p data-testid="not-allowed-message">{{ message() }}</p>

@@ -104,9 +104,9 @@ describe('PlateGrid', () => {
       h.cells.set({ B7: { role: 'standard', replicateGroup: 'S1' }, A1: { role: 'blank' } }),
     );
     expect(well('B7').getAttribute('aria-label')).toBe('B7, standard, group S1');
-    expect(well('B7').textContent).toContain('S');
+    expect(well('B7').querySelector('.eq-letter')!.getAttribute('data-letter')).toBe('S');
     expect(well('B7').dataset['role']).toBe('standard');
-    expect(well('A1').textContent?.trim()).toBe('B');
+    expect(well('A1').querySelector('.eq-letter')!.getAttribute('data-letter')).toBe('B');
     expect(well('C3').getAttribute('aria-label')).toBe('C3, empty');
     expect(describePosition('D4', { role: 'unknown', label: 'U-17' })).toBe('D4, unknown, sample U-17');
   });

@@ -20,6 +20,7 @@ import {
   plateGeometry,
   positionsInRect,
 } from './plate-geometry';
+import { TableScroll } from '../table-scroll/table-scroll';
 
 interface CellView {
   c: number;
@@ -52,7 +53,7 @@ export function describePosition(position: string, cell: PlateCell | undefined):
  */
 @Component({
   selector: 'eq-plate-grid',
-  imports: [RoleFill],
+  imports: [RoleFill, TableScroll],
   templateUrl: './plate-grid.html',
   styleUrl: './plate-grid.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
