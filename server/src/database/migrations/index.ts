@@ -6,6 +6,7 @@ import { SessionOwnerHardenA1764700001000 } from './1764700001000-session-owner'
 import { FrozenResults1764648000000 } from './1764648000000-frozen-results';
 import { WebhooksBranchWebhooks1764800000000 } from './1764800000000-webhooks';
 import { Watchers1764900000000 } from './1764900000000-watchers';
+import { BatchComments1765030000000 } from './1765030000000-batch-comments';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -17,4 +18,5 @@ export const migrations = [
   FrozenResults1764648000000,
   WebhooksBranchWebhooks1764800000000,
   Watchers1764900000000,
+  BatchComments1765030000000,
 ];
