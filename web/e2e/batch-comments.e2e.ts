@@ -83,9 +83,10 @@ describe('comments on a batch, live on a second page', () => {
     const managerLoads: string[] = [];
     manager.on('framenavigated', (f) => managerLoads.push(f.url()));
 
-    const field = section(scientist).getByLabel('New comment');
-    await field.fill('Mixture M4 looks cloudy; worth a second read before approval.');
-    await section(scientist).getByText('62 / 4000 characters').waitFor();
+    const field = section(scientist).getByRole('textbox', { name: 'New comment' });
+    const words = 'Mixture M4 looks cloudy; worth a second read before approval.';
+    await field.fill(words);
+    await section(scientist).getByText(`${words.length} / 4000 characters`).waitFor();
     await section(scientist).getByRole('button', { name: 'Add comment' }).click();
     await section(scientist).getByTestId('comment-body').first().waitFor();
     expect(await field.inputValue()).toBe('');
@@ -102,7 +103,7 @@ describe('comments on a batch, live on a second page', () => {
     // The manager replies; the reply appears indented under it on the scientist's page.
     await thread.getByRole('button', { name: /^Reply to / }).click();
     await section(manager)
-      .getByLabel(/^Reply to /)
+      .getByRole('textbox', { name: /^Reply to / })
       .fill('Agreed: re-read M4 on Thursday.');
     await section(manager).getByRole('button', { name: 'Send reply' }).click();
     const reply = section(scientist)
@@ -135,8 +136,16 @@ describe('comments on a batch, live on a second page', () => {
   });
 
   it('looks right at 1280×800 and 390×844, and the section passes an axe scan', async () => {
-    await scientist.getByTestId('comment-reply').first().waitFor();
-    await section(scientist).getByLabel('New comment').fill('Plate re-read booked for Thursday 09:00.');
+    const field = section(scientist).getByRole('textbox', { name: 'New comment' });
+    await field.fill('Plate re-read booked for Thursday 09:00, same cuvettes, fresh blank.');
+    await section(scientist).getByRole('button', { name: 'Add comment' }).click();
+    await section(scientist).getByTestId('comment-reply').first().waitFor();
+    // An open reply with a draft, and a draft in the new-comment field, as a person sees them mid-way.
+    await section(scientist).getByTestId('comment-reply').first().click();
+    await section(scientist)
+      .getByRole('textbox', { name: /^Reply to / })
+      .fill('Thanks, I will bring the M4 cuvette.');
+    await field.fill('A note that is still being written');
     for (const [width, height] of [
       [1280, 800],
       [390, 844],
