@@ -11,6 +11,8 @@ import { AuditService } from './audit/audit.service';
 import { authRouter } from './auth/auth.router';
 import { batchesRouter } from './batches/batches.router';
 import { BatchesService } from './batches/batches.service';
+import { commentsRouter } from './comments/comments.router';
+import { CommentsService } from './comments/comments.service';
 import { createCsrfProtection } from './auth/csrf';
 import { createPassport } from './auth/passport';
 import { SessionRow } from './auth/session.entity';
@@ -112,7 +114,8 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     log,
   });
   const mail = createMailModule({ config, dataSource, users, batches, events, log });
-  const reports = new ReportsService(batches, audit);
+  const comments = new CommentsService(dataSource, audit, events);
+  const reports = new ReportsService(batches, audit, comments);
   const watchers = new WatchersService(dataSource, instruments, audit, mail.mail, {
     silentMs: config.instrumentSilentMs,
     publicUrl: config.publicUrl,
@@ -203,6 +206,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   api.use('/manifests', manifestsRouter(manifests, config.uploadMaxBytes));
   api.use('/batches', batchesRouter(batches));
   api.use('/batches', reportsRouter(reports));
+  api.use('/batches', commentsRouter(comments));
   mail.mount(api);
   api.use('/webhooks', webhooks.router);
   api.use('/audit', auditRouter(audit));

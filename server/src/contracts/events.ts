@@ -29,6 +29,11 @@ export const liveEventSchema = z.discriminatedUnion('type', [
   }),
   event('file.quarantined', { profileId: z.number().nullable().optional(), error: z.string().optional() }),
   event('batch.updated', { state: batchStateSchema.optional() }),
+  /** A comment on a batch was added or removed; `id` is the comment's. */
+  event('batch.comment', {
+    batchId: z.number().optional(),
+    change: z.enum(['added', 'removed']).optional(),
+  }),
 ]);
 
 export type LiveEvent = z.infer<typeof liveEventSchema>;

@@ -16,6 +16,7 @@ export * from './intake';
 export * from './layouts';
 export * from './manifests';
 export * from './batches';
+export * from './comments';
 export * from './audit';
 export * from './mail';
 export * from './temperatures';

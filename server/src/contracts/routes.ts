@@ -17,6 +17,7 @@ import {
   reasonSchema,
   updateSettingsSchema,
 } from './batches';
+import { batchCommentListSchema, batchCommentSchema, createCommentSchema } from './comments';
 import { ingestReceiptSchema, intakeFileSchema, intakePageSchema, intakeQuerySchema } from './intake';
 import {
   createProfileSchema,
@@ -587,6 +588,37 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     body: reasonSchema,
     success: [200, 'The batch'],
     response: batchSchema,
+  },
+  {
+    method: 'get',
+    path: '/api/batches/{id}/comments',
+    tag: 'batches',
+    summary:
+      "A batch's comments in reading order: each thread's first comment, then its replies, oldest first; a removed comment keeps its place with text null",
+    access: ROUTE_ACCESS['get /api/batches/{id}/comments'],
+    success: [200, 'The comments'],
+    response: batchCommentListSchema,
+  },
+  {
+    method: 'post',
+    path: '/api/batches/{id}/comments',
+    tag: 'batches',
+    summary:
+      'Comment on a batch, or reply to the first comment of a thread (replyToId); approved batches take comments too, they never change the analysis. Audited',
+    access: ROUTE_ACCESS['post /api/batches/{id}/comments'],
+    body: createCommentSchema,
+    success: [201, 'The comment'],
+    response: batchCommentSchema,
+  },
+  {
+    method: 'delete',
+    path: '/api/batches/{id}/comments/{commentId}',
+    tag: 'batches',
+    summary:
+      'Remove a comment (its author, or a lab manager): the thread shows "comment removed", the audit keeps the text',
+    access: ROUTE_ACCESS['delete /api/batches/{id}/comments/{commentId}'],
+    success: [200, 'The comment, removed'],
+    response: batchCommentSchema,
   },
   {
     method: 'get',

@@ -8,6 +8,7 @@ import { SessionRow } from '../auth/session.entity';
 import { Batch } from '../batches/batch.entity';
 import { BatchResultRecord } from '../batches/batch-result.entity';
 import { BatchSummaryRow } from '../batches/batch-summary.entity';
+import { BatchCommentRow } from '../comments/batch-comment.entity';
 import { BatchNotice, NotificationSettingsRow, OutboxMessage } from '../mail/mail.entity';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { ReadingRow } from '../ingest/reading.entity';
@@ -44,6 +45,7 @@ export const entities = [
   WebhookDelivery,
   WatcherCredential,
   InstrumentPresence,
+  BatchCommentRow,
 ];
 
 /** The one DataSource. SQLite (WAL) by default; PostgreSQL when DATABASE_URL says so. */

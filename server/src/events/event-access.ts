@@ -29,6 +29,7 @@ export const EVENT_ACCESS: { [T in LiveEventType]: readonly EventView<T>[] } = {
       view: ({ id, batchId }) => (typeof batchId === 'number' ? { id, batchId } : null),
     },
   ],
+  'batch.comment': [{ roles: BATCH_READER_ROLES, view: everything }],
   'batch.updated': [
     {
       roles: BATCH_READER_ROLES,

@@ -1,7 +1,9 @@
 import { DASH, EPSILON_UNIT, formatQuantity, reportingUnitOf, roundSignificant } from '../analysis';
 import type { AuditDto } from '../audit/audit.service';
 import type { BatchAnalysisDto } from '../batches/batches.service';
-import { PDF, SHEETS, col, detail, minute, missing, text } from './report-cells';
+import type { BatchComment } from '../contracts/comments';
+import { ROLE_LABELS } from '../contracts/enums';
+import { PDF, SHEETS, col, count, detail, minute, missing, right, text } from './report-cells';
 import type { BatchReport, ReportCell, ReportSection, ReportTable } from './report-model';
 import {
   calibrationSection,
@@ -22,6 +24,8 @@ export interface BatchReportInput {
   /** The engine this server runs (an approved batch names its record's engine instead). */
   engineVersion?: string;
   generatedAt?: Date;
+  /** The batch's comments in reading order (threads, oldest first); the report lists them last. */
+  comments?: BatchComment[];
 }
 
 export function buildBatchReport(input: BatchReportInput): BatchReport {
@@ -59,8 +63,48 @@ export function buildBatchReport(input: BatchReportInput): BatchReport {
       qcSection(a),
       filesSection(a),
       reviewSection(input),
+      ...commentsSection(input.comments ?? []),
     ],
   };
+}
+
+/**
+ * The comments, when there are any: notes beside the analysis, not part of it. A reply names the
+ * comment it answers; a removed comment reads as such (what it said is in the audit trail only).
+ */
+function commentsSection(comments: BatchComment[]): ReportSection[] {
+  if (!comments.length) return [];
+  return [
+    {
+      title: 'Comments',
+      details: [],
+      figures: [],
+      notes: [],
+      tables: [
+        {
+          title: 'Comments',
+          columns: [
+            col('comment_id', 'No.', 28, right),
+            col('reply_to', 'Reply to', 40, { ...right, in: SHEETS }),
+            col('at', 'When (UTC)', 72),
+            col('author', 'Who', 95),
+            col('role', 'Role', 58),
+            col('text', 'Comment', 246),
+          ],
+          rows: comments.map((c) => [
+            count(c.id),
+            c.replyToId === null ? text(null) : count(c.replyToId),
+            { text: minute(c.createdAt), value: c.createdAt },
+            text(c.authorName),
+            { text: ROLE_LABELS[c.authorRole], value: c.authorRole },
+            c.removed
+              ? text(`Comment removed${c.removedBy ? ` by ${c.removedBy}` : ''}, ${minute(c.removedAt)} UTC`)
+              : text(c.replyToId === null ? c.text : `Re ${c.replyToId}: ${c.text}`),
+          ]),
+        },
+      ],
+    },
+  ];
 }
 
 function rolesOf(a: BatchAnalysisDto): Map<string, string> {

@@ -1,5 +1,6 @@
 import type { AuditDto, AuditService } from '../audit/audit.service';
 import type { BatchesService } from '../batches/batches.service';
+import type { CommentsService } from '../comments/comments.service';
 import { buildBatchReport, readingsTable } from './batch-report';
 import { reportToCsv, tableToCsv } from './csv';
 import { type PdfOptions, renderReportPdf } from './pdf/render-pdf';
@@ -13,6 +14,7 @@ export class ReportsService {
   constructor(
     private readonly batches: BatchesService,
     private readonly audit: AuditService,
+    private readonly comments?: CommentsService,
   ) {}
 
   async csv(batchId: number, content: CsvContent): Promise<string> {
@@ -35,6 +37,7 @@ export class ReportsService {
       analysis,
       trail: await this.trail(batchId),
       engineVersion: this.batches.engineVersion,
+      comments: this.comments ? await this.comments.list(batchId) : [],
     });
   }
 

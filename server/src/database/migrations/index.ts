@@ -7,6 +7,7 @@ import { FrozenResults1764648000000 } from './1764648000000-frozen-results';
 import { WebhooksBranchWebhooks1764800000000 } from './1764800000000-webhooks';
 import { Watchers1764900000000 } from './1764900000000-watchers';
 import { BatchSummaries1765000000000 } from './1765000000000-batch-summaries';
+import { BatchComments1765030000000 } from './1765030000000-batch-comments';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -19,4 +20,5 @@ export const migrations = [
   WebhooksBranchWebhooks1764800000000,
   Watchers1764900000000,
   BatchSummaries1765000000000,
+  BatchComments1765030000000,
 ];

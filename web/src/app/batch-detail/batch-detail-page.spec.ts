@@ -75,7 +75,11 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     return { fixture, el };
   }
 
-  afterEach(() => http.verify());
+  afterEach(() => {
+    // The comments section asks for its own list (batch-comments.spec.ts checks it).
+    for (const req of http.match('/api/batches/7/comments')) req.flush([]);
+    http.verify();
+  });
 
   async function settle(fixture: { whenStable(): Promise<unknown> }) {
     await fixture.whenStable();

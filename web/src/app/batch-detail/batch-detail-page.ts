@@ -29,6 +29,7 @@ import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
 import { type BatchAnalysis, type EpsilonCandidate, guessFormat } from './batch-analysis';
 import { ApprovalRecordPanel } from './approval-record-panel';
+import { BatchComments } from './batch-comments';
 import { BatchDetailService } from './batch-detail.service';
 import { CalibrationPanel } from './calibration-panel';
 import { EquilibriumPanel } from './equilibrium-panel';
@@ -98,6 +99,7 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
     SpectraPanel,
     WhatIfPanel,
     ApprovalRecordPanel,
+    BatchComments,
   ],
   templateUrl: './batch-detail-page.html',
   styleUrl: './batch-detail-page.scss',
