@@ -11,7 +11,7 @@ import { ParseError } from '../parsers';
 import type { Job, JobQueue } from '../queue/job-queue';
 import { parseFile, READING_COLUMNS, rowValues, type StoreTarget } from '../workers';
 import { InstrumentProfile } from '../instruments/instrument-profile.entity';
-import { RawFileArchive, sha256Hex } from './archive';
+import { type Archive, sha256Hex } from './archive';
 import { IntakeFile, type IntakeSource, type IntakeStatus } from './intake-file.entity';
 import { ReadingRow } from './reading.entity';
 
@@ -61,7 +61,7 @@ export class IngestService {
 
   constructor(
     private readonly dataSource: DataSource,
-    private readonly archive: RawFileArchive,
+    private readonly archive: Archive,
     private readonly queue: JobQueue<IngestJobData>,
     private readonly events: EventBus,
   ) {
