@@ -109,12 +109,13 @@ export class S3RawFileArchive implements Archive {
   }
 
   async store(sha256: string, content: Buffer): Promise<void> {
+    const key = this.keyOf(sha256);
     if (sha256Hex(content) !== sha256) throw new Error(`the content given does not hash to ${sha256}`);
     if (await this.has(sha256)) return; // same content already archived
     await this.client.send(
       new PutObjectCommand({
         Bucket: this.bucket,
-        Key: this.keyOf(sha256),
+        Key: key,
         Body: content,
         ContentLength: content.length,
         ContentType: 'application/octet-stream',
