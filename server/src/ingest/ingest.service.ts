@@ -83,13 +83,15 @@ export class IngestService {
       await this.archive.store(sha256, file.content);
     } catch (err) {
       const code = (err as NodeJS.ErrnoException).code;
-      throw new AppError(
+      const unavailable = new AppError(
         'storage_unavailable',
         code === 'ENOSPC' ? 507 : 503,
         code === 'ENOSPC'
           ? 'The server has no disk space left for the archive; nothing was stored. Send the file again later.'
           : 'The archive could not be written; nothing was stored. Send the file again later.',
       );
+      unavailable.cause = err; // logged by the error handler (5xx), not sent
+      throw unavailable;
     }
     const receipt = await this.serial.run(async () => {
       const original = await this.files.findOneBy({ contentKey: sha256 });

@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { DeleteObjectCommand, GetObjectCommand } from '@aws-sdk/client-s3';
+import { DeleteObjectCommand, GetObjectCommand, PutObjectCommand } from '@aws-sdk/client-s3';
 import request from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import { startTestApp, type TestApp } from '../../testing/test-app';
@@ -21,6 +21,7 @@ function rawBytes(agent: TestAgent, sha256: string) {
       const chunks: Buffer[] = [];
       r.on('data', (c: Buffer) => chunks.push(c));
       r.on('end', () => done(null, Buffer.concat(chunks)));
+      r.on('error', (err: Error) => done(err, Buffer.concat(chunks)));
     });
 }
 
@@ -92,6 +93,31 @@ describe('ingest with the raw archive on S3 (ARCHIVE_URL=s3://…)', () => {
       ),
     ]);
     expect((await request(t.app).get('/api/health')).body.status).toBe('degraded');
+  });
+
+  it('when the object was changed in the bucket then the download never hands over the changed bytes whole', async () => {
+    const content = Buffer.from(longTableCsv(34).repeat(40));
+    const sha256 = sha256Of(content);
+    const sent = await send(content, 'RUN-34.csv');
+    await settled(t, sent.body.id);
+    const tampered = Buffer.from(content);
+    tampered[100] = tampered[100] === 0x31 ? 0x32 : 0x31;
+    await s3.client.send(
+      new PutObjectCommand({
+        Bucket: s3.bucket,
+        Key: `equilight/raw/${sha256.slice(0, 2)}/${sha256}`,
+        Body: tampered,
+      }),
+    );
+    const manager = await t.agent('lab_manager');
+    const outcome = await rawBytes(manager, sha256).then(
+      (res) => res.body as Buffer,
+      (err: unknown) => err,
+    );
+    const receivedWhole = Buffer.isBuffer(outcome) && outcome.length >= tampered.length;
+    expect(receivedWhole).toBe(false);
+    // The server goes on answering.
+    expect((await manager.get('/api/intake?pageSize=1')).status).toBe(200);
   });
 
   it('when the S3 service is down then the ingest answers "send again later" (503) and records nothing', async () => {
