@@ -4,8 +4,9 @@
  *   npm run backup [-- <target file>]
  *
  * Without a target the copy goes to <DATA_DIR>/backups/equilight-<UTC time>.sqlite. The copy is
- * checked with integrity_check; the raw-file archive (<DATA_DIR>/archive) is plain files: copy that
- * folder with the usual tools.
+ * checked with integrity_check. The raw-file archive is not in it: the folder <DATA_DIR>/archive is plain
+ * files (copy it with the usual tools); with ARCHIVE_URL=s3://… the files are in that bucket (use the
+ * storage's own versioning or replication).
  */
 import { loadConfig } from '../server/src/config';
 import { backupDatabase } from '../server/src/maintenance/backup';

@@ -3,9 +3,10 @@
  *
  *   npm run db:check [-- --sample <n>]
  *
- * Reads the same configuration as the server (DATA_DIR, DATABASE_URL). Runs SQLite's integrity_check
- * and re-hashes every archived raw file (or a random sample of n). Exits 0 when all is well, 1 with one
- * line per problem otherwise. Read-only; safe while the server runs.
+ * Reads the same configuration as the server (DATA_DIR, DATABASE_URL, ARCHIVE_URL). Runs SQLite's
+ * integrity_check and re-hashes every archived raw file, in the folder or the bucket (or a random sample
+ * of n). Exits 0 when all is well, 1 with one line per problem otherwise. Read-only; safe while the
+ * server runs.
  */
 import { parseArgs } from 'node:util';
 import { loadConfig } from '../server/src/config';

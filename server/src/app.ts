@@ -1,4 +1,3 @@
-import path from 'node:path';
 import compression from 'compression';
 import cookieParser from 'cookie-parser';
 import express, { type Express, type RequestHandler } from 'express';
@@ -20,7 +19,7 @@ import { TypeOrmSessionStore } from './auth/typeorm-session-store';
 import { apiNotFound, createErrorHandler } from './common/error-handler';
 import type { AppConfig } from './config';
 import { EventBus } from './events/event-bus';
-import { RawFileArchive } from './ingest/archive';
+import { createArchive } from './ingest/create-archive';
 import { type IngestJobData, IngestService } from './ingest/ingest.service';
 import { ingestRouter } from './ingest/ingest.router';
 import { intakeRouter } from './ingest/intake.router';
@@ -99,13 +98,9 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   users.onAccessChange((userId) => events.publishAccessChange({ kind: 'person-changed', userId }));
   const instruments = new InstrumentsService(dataSource, audit);
   const queue = new SqliteJobQueue<IngestJobData>('ingest', dataSource);
-  const ingest = new IngestService(
-    dataSource,
-    new RawFileArchive(path.join(config.dataDir, 'archive')),
-    queue,
-    events,
-  );
-  const health = new HealthService(dataSource, path.join(config.dataDir, 'archive'));
+  const archive = createArchive(config.archive);
+  const ingest = new IngestService(dataSource, archive, queue, events);
+  const health = new HealthService(dataSource, archive);
   const layouts = new LayoutsService(dataSource, audit);
   const manifests = new ManifestsService(dataSource, layouts, audit);
   const batches = new BatchesService(dataSource, layouts, manifests, audit, events, {
@@ -250,6 +245,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
       await mail.close();
       await webhooks.close();
       store.close();
+      archive.close();
     },
   };
 }

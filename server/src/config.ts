@@ -74,7 +74,63 @@ const envSchema = z.object({
   WEBHOOK_TIMEOUT_SECONDS: z.coerce.number().positive().max(120).default(10),
   WEBHOOK_RETRY_BASE_SECONDS: z.coerce.number().positive().max(3600).default(30),
   INSTRUMENT_SILENT_MINUTES: z.coerce.number().positive().max(10080).default(10),
+  ARCHIVE_URL: z.string().trim().optional(),
+  ARCHIVE_S3_ENDPOINT: z
+    .string()
+    .url()
+    .regex(/^https?:\/\//, 'must start with http:// or https://')
+    .optional(),
+  ARCHIVE_S3_REGION: z.string().trim().min(1).default('us-east-1'),
+  ARCHIVE_S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  ARCHIVE_S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  ARCHIVE_S3_FORCE_PATH_STYLE: booleanText.optional(),
 });
+
+/** S3 bucket names: 3–63 lower-case letters, digits, dots and hyphens, beginning and ending with a letter or digit. */
+const S3_BUCKET = /^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/;
+
+/**
+ * ARCHIVE_URL: unset keeps raw files in <DATA_DIR>/archive; `s3://bucket/prefix` puts them on
+ * S3-compatible storage. Returns the archive, or the sentence that says what is wrong.
+ */
+function archiveConfigOf(e: z.infer<typeof envSchema>, dataDir: string): ArchiveConfig | string {
+  const s3Settings = (
+    [
+      'ARCHIVE_S3_ENDPOINT',
+      'ARCHIVE_S3_ACCESS_KEY_ID',
+      'ARCHIVE_S3_SECRET_ACCESS_KEY',
+      'ARCHIVE_S3_FORCE_PATH_STYLE',
+    ] as const
+  ).filter((name) => e[name] !== undefined);
+  if (!e.ARCHIVE_URL) {
+    if (s3Settings.length)
+      return `${s3Settings.join(', ')}: only with ARCHIVE_URL=s3://bucket/prefix (unset, raw files stay in ${path.join(dataDir, 'archive')})`;
+    return { type: 'local', root: path.join(dataDir, 'archive') };
+  }
+  const match = /^s3:\/\/([^/]+)(?:\/(.*))?$/.exec(e.ARCHIVE_URL);
+  if (!match)
+    return 'ARCHIVE_URL: must be s3://bucket/prefix (or unset, for the folder archive/ under DATA_DIR)';
+  const [, bucket = '', rawPrefix = ''] = match;
+  if (!S3_BUCKET.test(bucket) || bucket.includes('..'))
+    return `ARCHIVE_URL: "${bucket}" is not an S3 bucket name (3–63 lower-case letters, digits, dots, hyphens)`;
+  const prefix = rawPrefix.replace(/^\/+|\/+$/g, '');
+  if (prefix.split('/').some((part) => part === '.' || part === '..' || (prefix !== '' && part === '')))
+    return 'ARCHIVE_URL: the prefix after the bucket must not hold empty, "." or ".." parts';
+  const hasKey = e.ARCHIVE_S3_ACCESS_KEY_ID !== undefined;
+  if (hasKey !== (e.ARCHIVE_S3_SECRET_ACCESS_KEY !== undefined))
+    return 'ARCHIVE_S3_ACCESS_KEY_ID, ARCHIVE_S3_SECRET_ACCESS_KEY: give both, or neither (the SDK then finds credentials itself)';
+  return {
+    type: 's3',
+    bucket,
+    prefix,
+    endpoint: e.ARCHIVE_S3_ENDPOINT ?? null,
+    region: e.ARCHIVE_S3_REGION,
+    forcePathStyle: e.ARCHIVE_S3_FORCE_PATH_STYLE ?? e.ARCHIVE_S3_ENDPOINT !== undefined,
+    credentials: hasKey
+      ? { accessKeyId: e.ARCHIVE_S3_ACCESS_KEY_ID!, secretAccessKey: e.ARCHIVE_S3_SECRET_ACCESS_KEY! }
+      : null,
+  };
+}
 
 export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
 
@@ -104,6 +160,23 @@ export interface AppConfig {
   webhooks: WebhooksConfig;
   /** An active instrument whose watcher has not reported for this long is "silent": admins get a mail. */
   instrumentSilentMs: number;
+  /** Where raw files are archived (ARCHIVE_URL): a local folder or S3-compatible storage. */
+  archive: ArchiveConfig;
+}
+
+export type ArchiveConfig = { type: 'local'; root: string } | ({ type: 's3' } & S3ArchiveConfig);
+
+/** Where an S3 archive is and how to sign in to it (ARCHIVE_URL and ARCHIVE_S3_*). */
+export interface S3ArchiveConfig {
+  bucket: string;
+  /** Key prefix without leading or trailing slash; '' keeps the files at the top of the bucket. */
+  prefix: string;
+  /** An S3-compatible service's address; null for AWS itself. */
+  endpoint: string | null;
+  region: string;
+  forcePathStyle: boolean;
+  /** null: the SDK's own credential chain (e.g. a role of the machine). Never logged. */
+  credentials: { accessKeyId: string; secretAccessKey: string } | null;
 }
 
 export interface WebhooksConfig {
@@ -148,6 +221,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
   if (e.WORKERS_IN_THREAD_FOR_TESTS && e.NODE_ENV !== 'test') {
     throw new ConfigError('Invalid configuration:\n  WORKERS_IN_THREAD_FOR_TESTS: only with NODE_ENV=test');
   }
+  const archive = archiveConfigOf(e, dataDir);
+  if (typeof archive === 'string') throw new ConfigError(`Invalid configuration:\n  ${archive}`);
   if (e.NODE_ENV === 'production' && !e.SESSION_SECRET) {
     throw new ConfigError('Invalid configuration:\n  SESSION_SECRET: required when NODE_ENV=production');
   }
@@ -182,5 +257,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       retryBaseMs: Math.round(e.WEBHOOK_RETRY_BASE_SECONDS * 1000),
     },
     instrumentSilentMs: Math.round(e.INSTRUMENT_SILENT_MINUTES * 60_000),
+    archive,
   };
 }

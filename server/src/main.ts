@@ -1,6 +1,7 @@
 import http from 'node:http';
 import { createApp } from './app';
 import { ConfigError, loadConfig } from './config';
+import { describeArchive } from './ingest/create-archive';
 import { openDatabase } from './database/data-source';
 import { DatabaseProblemError } from './database/integrity';
 import { attachLiveEvents } from './events/live-events';
@@ -12,6 +13,7 @@ async function main(): Promise<void> {
   const config = loadConfig();
   const dataSource = await openDatabase(config);
   const equilight = createApp({ config, dataSource });
+  console.log(`Raw-file archive: ${describeArchive(config.archive)}`);
   if (config.seedDemo && (await seedDemoPeople(equilight.services.users, config.demoPassword))) {
     console.log('Seeded demo people (admin@, manager@, scientist@equilight.test) with the demo password.');
   }

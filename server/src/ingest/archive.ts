@@ -6,26 +6,68 @@ export function sha256Hex(content: Buffer): string {
   return crypto.createHash('sha256').update(content).digest('hex');
 }
 
+/** What a re-hash of one archived file found. */
+export type ArchivedFileState = 'intact' | 'missing' | 'changed';
+
 /**
- * Raw files, unchanged, addressed by their SHA-256: `<root>/ab/abcdef…`. Writes are atomic
- * (temporary file, fsync, rename), so a crash or a full disk never leaves half a file under a hash.
+ * Where raw files are kept, unchanged, addressed by their SHA-256. Every implementation keeps the same
+ * promises: `store` is idempotent and leaves either the whole file or nothing under a hash (a failure
+ * throws, so the sender is told to send again); a file that is not there is an error with
+ * `code: 'ENOENT'` from `read` and `open`, as the file system gives it.
  */
-export class RawFileArchive {
+export interface Archive {
+  /** Where the files are, for messages: a folder or `s3://bucket/prefix`. Never holds a secret. */
+  readonly location: string;
+  store(sha256: string, content: Buffer): Promise<void>;
+  read(sha256: string): Promise<Buffer>;
+  /** A stream of the archived bytes and their size; rejects with ENOENT when they are not there. */
+  open(sha256: string): Promise<{ stream: NodeJS.ReadableStream; size: number }>;
+  has(sha256: string): Promise<boolean>;
+  /** Read the file again and compare it with the SHA-256 it is filed under. */
+  verify(sha256: string): Promise<ArchivedFileState>;
+  /** Why the archive as a whole cannot be reached (its folder missing, its bucket not answering); null when it can. */
+  unreachable(): Promise<string | null>;
+  /** Release connections; the archive is not used afterwards. */
+  close(): void;
+}
+
+export function assertSha256(sha256: string): void {
+  if (!/^[0-9a-f]{64}$/.test(sha256)) throw new Error(`not a SHA-256: ${sha256}`);
+}
+
+/** The file-system-like error every archive gives for a file it does not hold. */
+export function archivedFileMissing(sha256: string, where: string): NodeJS.ErrnoException {
+  return Object.assign(new Error(`ENOENT: the archive holds no file ${sha256} (${where})`), {
+    code: 'ENOENT',
+  });
+}
+
+/** SHA-256 of everything a stream gives. */
+export async function sha256OfStream(stream: AsyncIterable<unknown>): Promise<string> {
+  const hash = crypto.createHash('sha256');
+  for await (const chunk of stream) hash.update(chunk as Buffer);
+  return hash.digest('hex');
+}
+
+/**
+ * Raw files in a local folder: `<root>/ab/abcdef…`. Writes are atomic (temporary file, fsync, rename),
+ * so a crash or a full disk never leaves half a file under a hash.
+ */
+export class RawFileArchive implements Archive {
   constructor(private readonly root: string) {}
 
+  get location(): string {
+    return this.root;
+  }
+
   private pathOf(sha256: string): string {
-    if (!/^[0-9a-f]{64}$/.test(sha256)) throw new Error(`not a SHA-256: ${sha256}`);
+    assertSha256(sha256);
     return path.join(this.root, sha256.slice(0, 2), sha256);
   }
 
   async store(sha256: string, content: Buffer): Promise<void> {
     const target = this.pathOf(sha256);
-    try {
-      await fs.access(target);
-      return; // same content already archived
-    } catch {
-      // not there yet
-    }
+    if (await this.has(sha256)) return; // same content already archived
     await fs.mkdir(path.dirname(target), { recursive: true });
     const temp = `${target}.${process.pid}.${crypto.randomBytes(6).toString('hex')}.tmp`;
     const handle = await fs.open(temp, 'wx');
@@ -43,7 +85,6 @@ export class RawFileArchive {
     }
   }
 
-  /** A stream of the archived bytes; throws ENOENT (as the stream's error) when they are not there. */
   async open(sha256: string): Promise<{ stream: NodeJS.ReadableStream; size: number }> {
     const file = this.pathOf(sha256);
     const stat = await fs.stat(file);
@@ -53,5 +94,38 @@ export class RawFileArchive {
 
   async read(sha256: string): Promise<Buffer> {
     return fs.readFile(this.pathOf(sha256));
+  }
+
+  async has(sha256: string): Promise<boolean> {
+    try {
+      await fs.access(this.pathOf(sha256));
+      return true;
+    } catch {
+      return false;
+    }
+  }
+
+  async verify(sha256: string): Promise<ArchivedFileState> {
+    let opened;
+    try {
+      opened = await this.open(sha256);
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code === 'ENOENT') return 'missing';
+      throw err;
+    }
+    return (await sha256OfStream(opened.stream as AsyncIterable<unknown>)) === sha256 ? 'intact' : 'changed';
+  }
+
+  async unreachable(): Promise<string | null> {
+    try {
+      await fs.access(this.root);
+      return null;
+    } catch {
+      return `the raw-file folder ${this.root} is missing`;
+    }
+  }
+
+  close(): void {
+    // nothing held open
   }
 }

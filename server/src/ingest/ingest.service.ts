@@ -11,7 +11,7 @@ import { ParseError } from '../parsers';
 import type { Job, JobQueue } from '../queue/job-queue';
 import { parseFile, READING_COLUMNS, rowValues, type StoreTarget } from '../workers';
 import { InstrumentProfile } from '../instruments/instrument-profile.entity';
-import { RawFileArchive, sha256Hex } from './archive';
+import { type Archive, sha256Hex } from './archive';
 import { IntakeFile, type IntakeSource, type IntakeStatus } from './intake-file.entity';
 import { ReadingRow } from './reading.entity';
 
@@ -68,7 +68,7 @@ export class IngestService {
 
   constructor(
     private readonly dataSource: DataSource,
-    private readonly archive: RawFileArchive,
+    private readonly archive: Archive,
     private readonly queue: JobQueue<IngestJobData>,
     private readonly events: EventBus,
   ) {
@@ -91,13 +91,15 @@ export class IngestService {
       await this.archive.store(sha256, file.content);
     } catch (err) {
       const code = (err as NodeJS.ErrnoException).code;
-      throw new AppError(
+      const unavailable = new AppError(
         'storage_unavailable',
         code === 'ENOSPC' ? 507 : 503,
         code === 'ENOSPC'
           ? 'The server has no disk space left for the archive; nothing was stored. Send the file again later.'
           : 'The archive could not be written; nothing was stored. Send the file again later.',
       );
+      unavailable.cause = err; // logged by the error handler (5xx), not sent
+      throw unavailable;
     }
     const receipt = await this.serial.run(async () => {
       const original = await this.files.findOneBy({ contentKey: sha256 });

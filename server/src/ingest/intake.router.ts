@@ -1,3 +1,4 @@
+import { pipeline } from 'node:stream';
 import { Router } from 'express';
 import { requireRole } from '../auth/roles';
 import { AppError } from '../common/app-error';
@@ -31,8 +32,8 @@ export function intakeRouter(ingest: IngestService, batches: BatchesService): Ro
     res.setHeader('X-Content-SHA256', sha256);
     res.setHeader('X-Content-Type-Options', 'nosniff');
     res.attachment(raw.fileName);
-    raw.stream.on('error', (err) => res.destroy(err as Error));
-    raw.stream.pipe(res);
+    // An archive error mid-way cuts the answer short; a client that leaves releases the archive's stream.
+    pipeline(raw.stream, res, () => undefined);
   });
 
   router.get('/:id', async (req, res) => {

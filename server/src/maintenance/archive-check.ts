@@ -1,27 +1,19 @@
-import crypto from 'node:crypto';
-import fs from 'node:fs';
-import path from 'node:path';
 import type { DataSource } from 'typeorm';
+import type { Archive } from '../ingest/archive';
 
 /** How many archived raw files the start check reads and hashes again (a random sample). */
 export const ARCHIVE_SAMPLE_SIZE = 20;
 
-async function sha256OfFile(file: string): Promise<string> {
-  const hash = crypto.createHash('sha256');
-  for await (const chunk of fs.createReadStream(file)) hash.update(chunk as Buffer);
-  return hash.digest('hex');
-}
-
 const short = (sha256: string): string => sha256.slice(0, 12);
 
 /**
- * Check the raw-file archive against the database: the folder must exist once any file was received,
- * and a random sample of archived files (or all of them) must still be there
- * with the SHA-256 they are filed under. Returns one sentence per problem; [] when all is well.
+ * Check the raw-file archive against the database: the archive (its folder, or its bucket) must be
+ * there once any file was received, and a random sample of archived files (or all of them) must still
+ * be there with the SHA-256 they are filed under. Returns one sentence per problem; [] when all is well.
  */
 export async function checkArchive(
   dataSource: DataSource,
-  archiveRoot: string,
+  archive: Archive,
   sample: number | 'all' = ARCHIVE_SAMPLE_SIZE,
 ): Promise<string[]> {
   const [{ n }] = (await dataSource.query('SELECT COUNT(DISTINCT sha256) AS n FROM intake_files')) as {
@@ -29,10 +21,9 @@ export async function checkArchive(
   }[];
   const received = Number(n);
   if (received === 0) return [];
-  if (!fs.existsSync(archiveRoot))
-    return [
-      `archive: the raw-file folder ${archiveRoot} is missing, but ${received} received file(s) should be archived there`,
-    ];
+  const unreachable = await archive.unreachable();
+  if (unreachable)
+    return [`archive: ${unreachable}, but ${received} received file(s) should be archived there`];
   const rows = (await dataSource.query(
     `SELECT DISTINCT sha256 FROM intake_files ORDER BY RANDOM()${sample === 'all' ? '' : ' LIMIT ?'}`,
     sample === 'all' ? [] : [sample],
@@ -40,9 +31,9 @@ export async function checkArchive(
   const missing: string[] = [];
   const changed: string[] = [];
   for (const { sha256 } of rows) {
-    const file = path.join(archiveRoot, sha256.slice(0, 2), sha256);
-    if (!fs.existsSync(file)) missing.push(sha256);
-    else if ((await sha256OfFile(file)) !== sha256) changed.push(sha256);
+    const state = await archive.verify(sha256);
+    if (state === 'missing') missing.push(sha256);
+    else if (state === 'changed') changed.push(sha256);
   }
   const problems: string[] = [];
   const of = `of ${rows.length} ${sample === 'all' ? '' : 'sampled '}archived files`;

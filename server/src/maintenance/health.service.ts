@@ -1,5 +1,6 @@
 import type { RequestHandler } from 'express';
 import type { DataSource } from 'typeorm';
+import type { Archive } from '../ingest/archive';
 import { checkArchive } from './archive-check';
 
 export interface HealthReport {
@@ -18,12 +19,12 @@ export class HealthService {
 
   constructor(
     private readonly dataSource: DataSource,
-    private readonly archiveRoot: string,
+    private readonly archive: Archive,
   ) {}
 
-  /** The start checks that do not stop the server: the archive folder and a sample of its files. */
+  /** The start checks that do not stop the server: the archive (folder or bucket) and a sample of its files. */
   async checkAtStart(): Promise<string[]> {
-    this.startProblems = await checkArchive(this.dataSource, this.archiveRoot).catch((err: unknown) => [
+    this.startProblems = await checkArchive(this.dataSource, this.archive).catch((err: unknown) => [
       `archive: could not be checked (${err instanceof Error ? err.message : String(err)})`,
     ]);
     return this.startProblems;
