@@ -130,7 +130,6 @@ describe('BatchComments', () => {
     const time = reply.querySelector('time')!;
     expect(time.getAttribute('datetime')).toBe('2031-05-02T08:13:00Z');
     expect(text(time)).toBe(formatDateTime('2031-05-02T08:13:00Z'));
-    expect(text(time)).toMatch(/^\d{4}-\d\d-\d\d \d\d:\d\d$/);
     // A removed comment keeps its place and says who removed it; its words are gone.
     const removed = threads[1]!.querySelector('[data-comment-id="4"]')!;
     // (The icon's ligature text, "block", is hidden from assistive technology.)

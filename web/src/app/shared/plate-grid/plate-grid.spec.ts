@@ -69,7 +69,7 @@ describe('PlateGrid', () => {
       expect(svg).toContain(`fill="${code.fill}"`);
       expect(svg).toContain('<pattern');
       expect(w.style.getPropertyValue('--eq-role-ink')).toBe(code.ink);
-      expect(w.querySelector('.eq-letter')!.textContent).toBe(code.letter);
+      expect(w.querySelector('.eq-letter')!.getAttribute('data-letter')).toBe(code.letter);
     }
     // a pattern with marks draws them in the ink; the plain one has none
     expect(decodeURIComponent(well('A2').style.backgroundImage)).toContain('<circle');
