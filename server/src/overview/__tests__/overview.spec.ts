@@ -3,7 +3,7 @@ import request from 'supertest';
 import { InstrumentProfile } from '../../instruments/instrument-profile.entity';
 import { createProfile, LONG_TABLE_PROFILE, settled } from '../../ingest/__tests__/ingest-helpers';
 import { type AnalysedBatch, createAnalysedBatch } from '../../reports/__tests__/analysed-batch';
-import { startTestApp, type TestApp } from '../../testing/test-app';
+import { startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 import type { OverviewDto } from '../overview.dto';
 
 describe('GET /api/overview', () => {
@@ -159,7 +159,9 @@ describe('GET /api/overview', () => {
 
   it('then QC counts are the ones already worked out, and reading the Overview runs no analysis', async () => {
     // A change the cached headline does not know yet (as a new setting or file would make).
-    await t.dataSource.query("UPDATE batches SET updated_at = datetime('now', '+1 minute') WHERE id = ?", [
+    const inAMinute = new Date(Date.now() + 60_000).toISOString().replace('T', ' ').slice(0, 19);
+    await testQuery(t.dataSource, 'UPDATE batches SET updated_at = ? WHERE id = ?', [
+      inAMinute,
       complete.batchId,
     ]);
     const before = (await overviewAs('scientist')).openBatches.items.find((b) => b.id === complete.batchId)!;
