@@ -1,5 +1,10 @@
-// One jest run, three projects: the server (with analysis, parsers, watcher), the Angular web app,
-// and the browser tests that drive Debian's Chromium against a real server.
+/* global URL, console */
+// One jest run, four projects: the server (with analysis, parsers, watcher) on SQLite, the server's
+// database tests again on PostgreSQL, the Angular web app, and the browser tests that drive Debian's
+// Chromium against a real server.
+const fs = require('node:fs');
+const net = require('node:net');
+const path = require('node:path');
 const { createCjsPreset } = require('jest-preset-angular/presets');
 
 const esmPackages = [
@@ -30,40 +35,107 @@ const nodeTransform = {
   '^.+\\.[tj]sx?$': ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.spec.json' }],
 };
 
-module.exports = {
-  projects: [
-    {
-      displayName: 'server',
-      rootDir: __dirname,
-      testEnvironment: 'node',
-      testMatch: ['<rootDir>/server/src/**/*.spec.ts', '<rootDir>/watcher/src/**/*.spec.ts'],
-      transform: nodeTransform,
-      transformIgnorePatterns,
-      moduleNameMapper: sharedModules,
+const POSTGRES_URL = process.env.EQUILIGHT_TEST_POSTGRES_URL || 'postgres://postgres@127.0.0.1:5432/test';
+
+/** Does a PostgreSQL server answer at the pass's address (a TCP connection within 2 s)? */
+function postgresAnswers() {
+  const { hostname, port } = new URL(POSTGRES_URL);
+  return new Promise((resolve) => {
+    const socket = net.connect({ host: hostname, port: Number(port || 5432) });
+    const done = (ok) => {
+      socket.destroy();
+      resolve(ok);
+    };
+    socket.setTimeout(2000, () => done(false));
+    socket.once('connect', () => done(true));
+    socket.once('error', () => done(false));
+  });
+}
+
+/** The server's test files that start the app on a database (startTestApp): the PostgreSQL pass. */
+function databaseTestFiles() {
+  const found = [];
+  const walk = (dir) => {
+    for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+      const full = path.join(dir, entry.name);
+      if (entry.isDirectory()) walk(full);
+      else if (entry.name.endsWith('.spec.ts') && fs.readFileSync(full, 'utf8').includes('startTestApp('))
+        found.push(full);
+    }
+  };
+  walk(path.join(__dirname, 'server/src'));
+  return found;
+}
+
+/**
+ * The PostgreSQL pass, or null with one line saying why it is skipped. EQUILIGHT_REQUIRE_POSTGRES=1 (set
+ * by .ci/run) turns a missing PostgreSQL into a failure; EQUILIGHT_TEST_POSTGRES=off skips the pass on
+ * purpose (a quick local run).
+ */
+async function postgresPass() {
+  const required = process.env.EQUILIGHT_REQUIRE_POSTGRES === '1';
+  if (process.env.EQUILIGHT_TEST_POSTGRES === 'off' && !required) {
+    console.log('[jest] PostgreSQL pass skipped: EQUILIGHT_TEST_POSTGRES=off');
+    return null;
+  }
+  if (!(await postgresAnswers())) {
+    const why = `no PostgreSQL answers at ${POSTGRES_URL.replace(/\/\/[^@]*@/, '//')}`;
+    if (required)
+      throw new Error(`The PostgreSQL pass is required (EQUILIGHT_REQUIRE_POSTGRES=1) but ${why}.`);
+    console.log(`[jest] PostgreSQL pass skipped: ${why} (EQUILIGHT_REQUIRE_POSTGRES=1 makes this a failure)`);
+    return null;
+  }
+  return {
+    displayName: 'server-pg',
+    rootDir: __dirname,
+    testEnvironment: 'node',
+    testMatch: databaseTestFiles(),
+    setupFiles: ['<rootDir>/server/src/testing/postgres-pass.ts'],
+    // A round trip to PostgreSQL costs more than one to a SQLite file in the same process.
+    testTimeout: 30_000,
+    transform: nodeTransform,
+    transformIgnorePatterns,
+    moduleNameMapper: sharedModules,
+  };
+}
+
+const projects = [
+  {
+    displayName: 'server',
+    rootDir: __dirname,
+    testEnvironment: 'node',
+    testMatch: ['<rootDir>/server/src/**/*.spec.ts', '<rootDir>/watcher/src/**/*.spec.ts'],
+    transform: nodeTransform,
+    transformIgnorePatterns,
+    moduleNameMapper: sharedModules,
+  },
+  {
+    displayName: 'web',
+    rootDir: __dirname,
+    ...createCjsPreset({
+      tsconfig: '<rootDir>/web/tsconfig.spec.json',
+      testEnvironment: 'jest-preset-angular/environments/jest-jsdom-env',
+    }),
+    setupFilesAfterEnv: ['<rootDir>/web/src/setup-jest.ts'],
+    testMatch: ['<rootDir>/web/src/**/*.spec.ts'],
+    moduleNameMapper: {
+      ...sharedModules,
+      // import.meta (new Worker(new URL(…))) does not load under CommonJS; jsdom has no Worker anyway.
+      '^\\./what-if-worker$': '<rootDir>/web/src/testing/no-web-worker.ts',
     },
-    {
-      displayName: 'web',
-      rootDir: __dirname,
-      ...createCjsPreset({
-        tsconfig: '<rootDir>/web/tsconfig.spec.json',
-        testEnvironment: 'jest-preset-angular/environments/jest-jsdom-env',
-      }),
-      setupFilesAfterEnv: ['<rootDir>/web/src/setup-jest.ts'],
-      testMatch: ['<rootDir>/web/src/**/*.spec.ts'],
-      moduleNameMapper: {
-        ...sharedModules,
-        // import.meta (new Worker(new URL(…))) does not load under CommonJS; jsdom has no Worker anyway.
-        '^\\./what-if-worker$': '<rootDir>/web/src/testing/no-web-worker.ts',
-      },
-    },
-    {
-      displayName: 'browser',
-      rootDir: __dirname,
-      testEnvironment: 'node',
-      testMatch: ['<rootDir>/web/e2e/**/*.e2e.ts'],
-      transform: nodeTransform,
-      transformIgnorePatterns,
-      moduleNameMapper: sharedModules,
-    },
-  ],
+  },
+  {
+    displayName: 'browser',
+    rootDir: __dirname,
+    testEnvironment: 'node',
+    testMatch: ['<rootDir>/web/e2e/**/*.e2e.ts'],
+    transform: nodeTransform,
+    transformIgnorePatterns,
+    moduleNameMapper: sharedModules,
+  },
+];
+
+module.exports = async () => {
+  const pg = await postgresPass();
+  return { projects: pg ? [projects[0], pg, ...projects.slice(1)] : projects };
 };

@@ -49,6 +49,11 @@ const envSchema = z.object({
     .string()
     .regex(/^(sqlite:|postgres(ql)?:\/\/)/, 'must start with sqlite: (a file path) or postgres://')
     .optional(),
+  /** PostgreSQL only: the schema Equilight's tables live in (created when missing); default `public`. */
+  DATABASE_SCHEMA: z
+    .string()
+    .regex(/^[a-z_][a-z0-9_]{0,62}$/, 'must be a plain lower-case SQL name (letters, digits, _)')
+    .optional(),
   SESSION_SECRET: z.string().min(16, 'must be at least 16 characters').optional(),
   SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(12),
   COOKIE_SECURE: booleanText.default(false),
@@ -132,7 +137,8 @@ function archiveConfigOf(e: z.infer<typeof envSchema>, dataDir: string): Archive
   };
 }
 
-export type DatabaseConfig = { type: 'sqlite'; file: string } | { type: 'postgres'; url: string };
+export type DatabaseConfig =
+  { type: 'sqlite'; file: string } | { type: 'postgres'; url: string; schema?: string };
 
 export interface AppConfig {
   env: 'development' | 'production' | 'test';
@@ -210,7 +216,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
   const e = parsed.data;
   const dataDir = path.resolve(cwd, e.DATA_DIR);
   const database: DatabaseConfig = e.DATABASE_URL?.startsWith('postgres')
-    ? { type: 'postgres', url: e.DATABASE_URL }
+    ? { type: 'postgres', url: e.DATABASE_URL, schema: e.DATABASE_SCHEMA }
     : {
         type: 'sqlite',
         file: path.resolve(

@@ -53,7 +53,14 @@ export function createDataSource(config: Pick<AppConfig, 'database'>): DataSourc
   const common = { entities, migrations, migrationsRun: false, synchronize: false, logging: false } as const;
   let options: DataSourceOptions;
   if (config.database.type === 'postgres') {
-    options = { ...common, type: 'postgres', url: config.database.url };
+    const schema = config.database.schema;
+    options = {
+      ...common,
+      type: 'postgres',
+      url: config.database.url,
+      // Every connection of the pool works in the schema, raw SQL included (the migrations' too).
+      extra: schema ? { options: `-c search_path=${schema}` } : undefined,
+    };
   } else {
     fs.mkdirSync(path.dirname(config.database.file), { recursive: true });
     options = {
@@ -93,6 +100,8 @@ export async function openDatabase(config: Pick<AppConfig, 'database'>): Promise
     }
   } else {
     await dataSource.initialize();
+    const schema = config.database.schema;
+    if (schema) await dataSource.query(`CREATE SCHEMA IF NOT EXISTS ${dataSource.driver.escape(schema)}`);
   }
   await dataSource.runMigrations({ transaction: 'each' });
   return dataSource;

@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -5,7 +6,7 @@ import request from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import type { Express } from 'express';
 import type { AnalysisEngine } from '../analysis-engine/analysis-engine';
-import type { DataSource } from 'typeorm';
+import { DataSource } from 'typeorm';
 import { createApp, type EquilightApp } from '../app';
 import { type AppConfig, loadConfig } from '../config';
 import { openDatabase } from '../database/data-source';
@@ -60,8 +61,53 @@ export async function signedInAgent(app: Express, role?: keyof typeof DEMO_EMAIL
   return a;
 }
 
+/** Set by the PostgreSQL pass of the tests (jest project `server-pg`): run the apps on PostgreSQL. */
+export const TEST_ON_POSTGRES = process.env['EQUILIGHT_TEST_DATABASE'] === 'postgres';
+/** The PostgreSQL database that pass uses; each test app gets a fresh schema of its own in it. */
+export const TEST_POSTGRES_URL =
+  process.env['EQUILIGHT_TEST_POSTGRES_URL'] ?? 'postgres://postgres@127.0.0.1:5432/test';
+
+/** The schema a test app's data folder maps to (the same folder, as on a restart, the same schema). */
+function schemaFor(dir: string): string {
+  return `t_${crypto.createHash('sha256').update(dir).digest('hex').slice(0, 20)}`;
+}
+
+/** On the PostgreSQL pass: the database settings of a test app, unless the test chose a database itself. */
+function databaseEnv(dir: string, env: Record<string, string>): Record<string, string> {
+  if (!TEST_ON_POSTGRES || env['DATABASE_URL']) return {};
+  return { DATABASE_URL: TEST_POSTGRES_URL, DATABASE_SCHEMA: schemaFor(dir) };
+}
+
+/** Drops a test app's schema once the app has let go of its connections. */
+async function dropSchema(schema: string): Promise<void> {
+  const admin = new DataSource({ type: 'postgres', url: TEST_POSTGRES_URL });
+  await admin.initialize();
+  try {
+    await admin.query(`DROP SCHEMA IF EXISTS "${schema}" CASCADE`);
+  } finally {
+    await admin.destroy();
+  }
+}
+
+/** Raw SQL in a test, written with `?` placeholders, run on either database (PostgreSQL numbers them). */
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- as DataSource.query: rows of any shape
+export function testQuery<T = any>(
+  dataSource: DataSource,
+  sql: string,
+  params: readonly unknown[] = [],
+): Promise<T> {
+  let n = 0;
+  const text = dataSource.driver.options.type === 'postgres' ? sql.replace(/\?/g, () => `$${++n}`) : sql;
+  return dataSource.query(text, [...params]) as Promise<T>;
+}
+
+/** Tests of the SQLite file itself (pages, PRAGMAs, triggers, file backups): skipped on the PostgreSQL pass. */
+export const sqliteOnly = TEST_ON_POSTGRES ? describe.skip : describe;
+/** One test of SQLite itself (a trigger written in its dialect): skipped on the PostgreSQL pass. */
+export const itSqliteOnly = TEST_ON_POSTGRES ? it.skip : it;
+
 /**
- * A real app on a real SQLite file in a temporary folder, seeded with the demo people. The demo people
+ * A real app on a real SQLite file in a temporary folder (on the PostgreSQL pass, a fresh schema), seeded with the demo people. The demo people
  * have one lab manager, so four-eyes approval is off unless a test turns it on (FOUR_EYES_APPROVAL).
  */
 export async function startTestApp(
@@ -77,6 +123,7 @@ export async function startTestApp(
     DEMO_PASSWORD,
     WEB_DIST_DIR: path.join(dir, 'no-web'),
     FOUR_EYES_APPROVAL: 'false',
+    ...databaseEnv(dir, env),
     ...env,
   });
   const dataSource = await openDatabase(config);
@@ -100,6 +147,8 @@ export async function startTestApp(
     agent,
     async stop() {
       await shutDown();
+      if (config.database.type === 'postgres' && config.database.schema)
+        await dropSchema(config.database.schema);
       fs.rmSync(dir, { recursive: true, force: true });
     },
     shutDown,

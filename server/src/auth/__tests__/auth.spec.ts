@@ -1,5 +1,5 @@
 import request from 'supertest';
-import { DEMO_EMAILS, DEMO_PASSWORD, startTestApp, type TestApp } from '../../testing/test-app';
+import { DEMO_EMAILS, DEMO_PASSWORD, startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 
 describe('sign-in', () => {
   let t: TestApp;
@@ -115,7 +115,7 @@ describe('sign-in', () => {
 
   it('keeps the session in the database, not in memory', async () => {
     await t.agent('lab_manager');
-    const rows = await t.dataSource.query('SELECT COUNT(*) AS n FROM sessions');
+    const rows = await testQuery(t.dataSource, 'SELECT COUNT(*) AS n FROM sessions');
     expect(Number(rows[0].n)).toBeGreaterThan(0);
   });
 });

@@ -10,6 +10,7 @@ import {
   signedInAgent,
   startTestApp,
   type TestApp,
+  testQuery,
 } from '../../testing/test-app';
 
 interface AuditItem {
@@ -187,7 +188,7 @@ describe('comments on a batch', () => {
     expect(list[0]!.removedBy).toEqual(expect.any(String));
     expect(list[0]!.removedAt).not.toBeNull();
     // Nor does the database row: only the audit entry holds the words.
-    const row = await t.dataSource.query('SELECT text, removed_at FROM batch_comments WHERE id = ?', [
+    const row = await testQuery(t.dataSource, 'SELECT text, removed_at FROM batch_comments WHERE id = ?', [
       added.id,
     ]);
     expect(row[0].text).toBe('');

@@ -1,5 +1,5 @@
 import request from 'supertest';
-import { startTestApp, type TestApp } from '../../testing/test-app';
+import { startTestApp, type TestApp, testQuery, itSqliteOnly } from '../../testing/test-app';
 import { createProfile, longTableCsv, readingCount, settled } from './ingest-helpers';
 
 describe('storing is all-or-nothing and happens once', () => {
@@ -17,23 +17,27 @@ describe('storing is all-or-nothing and happens once', () => {
       .set('Authorization', `Bearer ${token}`)
       .attach('file', Buffer.from(content), name);
 
-  it('when the database refuses one reading mid-file then none of the file lands and it is quarantined with the cause', async () => {
-    // A real fault inside the transaction: SQLite aborts the insert of the last well of the plate.
-    await t.dataSource.query(
-      "CREATE TRIGGER refuse_h12 BEFORE INSERT ON readings WHEN NEW.position = 'H12' BEGIN SELECT RAISE(ABORT, 'simulated write fault'); END",
-    );
-    try {
-      const res = await send(longTableCsv(100), 'RUN-0100.csv');
-      const file = await settled(t, res.body.id, 20_000);
-      expect(file.status).toBe('quarantined');
-      expect(file.error).toMatch(
-        /Storing failed after 3 tries \(.*simulated write fault.*\); no reading of it was kept/,
+  itSqliteOnly(
+    'when the database refuses one reading mid-file then none of the file lands and it is quarantined with the cause',
+    async () => {
+      // A real fault inside the transaction: SQLite aborts the insert of the last well of the plate.
+      await testQuery(
+        t.dataSource,
+        "CREATE TRIGGER refuse_h12 BEFORE INSERT ON readings WHEN NEW.position = 'H12' BEGIN SELECT RAISE(ABORT, 'simulated write fault'); END",
       );
-      expect(await readingCount(t, res.body.id)).toBe(0);
-    } finally {
-      await t.dataSource.query('DROP TRIGGER refuse_h12');
-    }
-  });
+      try {
+        const res = await send(longTableCsv(100), 'RUN-0100.csv');
+        const file = await settled(t, res.body.id, 20_000);
+        expect(file.status).toBe('quarantined');
+        expect(file.error).toMatch(
+          /Storing failed after 3 tries \(.*simulated write fault.*\); no reading of it was kept/,
+        );
+        expect(await readingCount(t, res.body.id)).toBe(0);
+      } finally {
+        await testQuery(t.dataSource, 'DROP TRIGGER refuse_h12');
+      }
+    },
+  );
 
   it('when a finished job runs again (as after a restart) then nothing is stored twice', async () => {
     const res = await send(longTableCsv(101), 'RUN-0101.csv');
@@ -53,8 +57,9 @@ describe('storing is all-or-nothing and happens once', () => {
     const res = await send(longTableCsv(102), 'RUN-0102.csv');
     await settled(t, res.body.id);
     // simulate a crash after some rows were written outside a transaction, then a restart
-    await t.dataSource.query("UPDATE intake_files SET status = 'parsing' WHERE id = ?", [res.body.id]);
-    await t.dataSource.query(
+    await testQuery(t.dataSource, "UPDATE intake_files SET status = 'parsing' WHERE id = ?", [res.body.id]);
+    await testQuery(
+      t.dataSource,
       "INSERT INTO readings (intake_file_id, position, wavelength_nm, absorbance) VALUES (?, 'A1', 450, 0.1)",
       [res.body.id],
     );

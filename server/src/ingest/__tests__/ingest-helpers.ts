@@ -1,6 +1,7 @@
 import type TestAgent from 'supertest/lib/agent';
 import type { TestApp } from '../../testing/test-app';
 import type { IntakeFileDto } from '../ingest.service';
+import { testQuery } from '../../testing/test-app';
 
 export const LONG_TABLE_PROFILE = {
   name: 'Reader 1 (long table)',
@@ -43,7 +44,9 @@ export async function settled(t: TestApp, id: number, timeoutMs = 10_000): Promi
 
 export async function readingCount(t: TestApp, intakeFileId?: number): Promise<number> {
   const rows = intakeFileId
-    ? await t.dataSource.query('SELECT COUNT(*) AS n FROM readings WHERE intake_file_id = ?', [intakeFileId])
-    : await t.dataSource.query('SELECT COUNT(*) AS n FROM readings');
+    ? await testQuery(t.dataSource, 'SELECT COUNT(*) AS n FROM readings WHERE intake_file_id = ?', [
+        intakeFileId,
+      ])
+    : await testQuery(t.dataSource, 'SELECT COUNT(*) AS n FROM readings');
   return Number(rows[0].n);
 }

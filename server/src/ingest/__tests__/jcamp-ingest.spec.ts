@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import request from 'supertest';
-import { startTestApp, type TestApp } from '../../testing/test-app';
+import { startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 import { createProfile, readingCount, settled } from './ingest-helpers';
 
 // JCAMP-DX files through the real ingest path: archive, queue, parser worker, readings table.
@@ -48,7 +48,8 @@ describe('ingest of JCAMP-DX spectra', () => {
     expect(file.status).not.toBe('quarantined');
     // 19 cuvettes × 176 wavelengths (350–700 nm every 2 nm), as the generator wrote them.
     expect(await readingCount(t, res.body.id)).toBe(19 * 176);
-    const perPosition: { position: string; n: number; lo: number; hi: number }[] = await t.dataSource.query(
+    const perPosition: { position: string; n: number; lo: number; hi: number }[] = await testQuery(
+      t.dataSource,
       `SELECT position, COUNT(*) AS n, MIN(wavelength_nm) AS lo, MAX(wavelength_nm) AS hi
          FROM readings WHERE intake_file_id = ? GROUP BY position`,
       [res.body.id],
@@ -59,7 +60,8 @@ describe('ingest of JCAMP-DX spectra', () => {
     const csv = fs.readFileSync(path.join(SAMPLES, 'spectra.csv'), 'utf8').trim().split('\n');
     const header = csv[0].split(',');
     const row = csv.find((l) => l.startsWith('500,'))!.split(',');
-    const [stored] = await t.dataSource.query(
+    const [stored] = await testQuery(
+      t.dataSource,
       'SELECT absorbance FROM readings WHERE intake_file_id = ? AND position = ? AND wavelength_nm = 500',
       [res.body.id, 'C3'],
     );
@@ -89,7 +91,8 @@ describe('ingest of JCAMP-DX spectra', () => {
     const res = await send(content, 'point-4.dx', plateToken);
     expect(res.status).toBe(202);
     await settled(t, res.body.id);
-    const rows = await t.dataSource.query(
+    const rows = await testQuery(
+      t.dataSource,
       'SELECT position, wavelength_nm AS nm, absorbance FROM readings WHERE intake_file_id = ? ORDER BY nm',
       [res.body.id],
     );

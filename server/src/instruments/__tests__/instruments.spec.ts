@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { FIXTURES } from '../../parsers/__tests__/load-fixture';
-import { startTestApp, type TestApp } from '../../testing/test-app';
+import { startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 import { LONG_TABLE_PROFILE, createProfile } from '../../ingest/__tests__/ingest-helpers';
 
 type Who = 'signed out' | 'admin' | 'lab_manager' | 'scientist';
@@ -66,7 +66,7 @@ describe('instrument profiles API', () => {
     expect(text).not.toContain(created.token);
     const row = list.body.find((p: { id: number }) => p.id === created.profile.id);
     expect(row).toMatchObject({ hasToken: true, tokenPrefix: created.token.slice(0, 10) });
-    const stored = await t.dataSource.query('SELECT token_hash FROM instrument_profiles WHERE id = ?', [
+    const stored = await testQuery(t.dataSource, 'SELECT token_hash FROM instrument_profiles WHERE id = ?', [
       created.profile.id,
     ]);
     expect(stored[0].token_hash).toMatch(/^[0-9a-f]{64}$/);

@@ -3,19 +3,19 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { loadConfig } from '../../config';
-import { startTestApp, type TestApp } from '../../testing/test-app';
+import { startTestApp, type TestApp, testQuery, sqliteOnly } from '../../testing/test-app';
 import { backupDatabase, integrityProblems, restoreDatabase } from '../backup';
 
 const REPO_ROOT = path.resolve(__dirname, '../../../..');
 const run = promisify(execFile);
 
 async function emails(t: TestApp): Promise<string[]> {
-  return ((await t.dataSource.query('SELECT email FROM users ORDER BY email')) as { email: string }[]).map(
-    (r) => r.email,
-  );
+  return (
+    (await testQuery(t.dataSource, 'SELECT email FROM users ORDER BY email')) as { email: string }[]
+  ).map((r) => r.email);
 }
 
-describe('backup and restore of the database', () => {
+sqliteOnly('backup and restore of the database', () => {
   let dir: string;
   afterAll(() => {
     if (dir) fs.rmSync(dir, { recursive: true, force: true });
@@ -40,7 +40,7 @@ describe('backup and restore of the database', () => {
       displayName: 'After',
       role: 'scientist',
     });
-    await t.dataSource.query("DELETE FROM users WHERE email = 'before.backup@lab.test'");
+    await testQuery(t.dataSource, "DELETE FROM users WHERE email = 'before.backup@lab.test'");
 
     // While the server holds the database, a restore refuses and changes nothing.
     await expect(restoreDatabase(t.config, backup)).rejects.toThrow(/is in use .*Stop the server first/);

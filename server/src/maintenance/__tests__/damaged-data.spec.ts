@@ -9,7 +9,7 @@ import request from 'supertest';
 import { loadConfig } from '../../config';
 import { openDatabase } from '../../database/data-source';
 import { createProfile, longTableCsv, settled } from '../../ingest/__tests__/ingest-helpers';
-import { startTestApp } from '../../testing/test-app';
+import { startTestApp, sqliteOnly } from '../../testing/test-app';
 import { checkDatabaseAndArchive } from '../database-check';
 
 const REPO_ROOT = path.resolve(__dirname, '../../../..');
@@ -40,7 +40,7 @@ function archivedFiles(dir: string): string[] {
     .flatMap((sub) => fs.readdirSync(path.join(root, sub)).map((f) => path.join(root, sub, f)));
 }
 
-describe('damaged data is noticed at start', () => {
+sqliteOnly('damaged data is noticed at start', () => {
   const folders: string[] = [];
   const folder = (dir: string): string => {
     folders.push(dir);

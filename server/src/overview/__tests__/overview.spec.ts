@@ -3,7 +3,7 @@ import request from 'supertest';
 import { InstrumentProfile } from '../../instruments/instrument-profile.entity';
 import { createProfile, LONG_TABLE_PROFILE, settled } from '../../ingest/__tests__/ingest-helpers';
 import { type AnalysedBatch, createAnalysedBatch } from '../../reports/__tests__/analysed-batch';
-import { startTestApp, type TestApp } from '../../testing/test-app';
+import { startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 import type { OverviewDto } from '../overview.dto';
 
 describe('GET /api/overview', () => {
@@ -170,7 +170,7 @@ describe('GET /api/overview', () => {
       errorCount: summary.qcErrorCount,
     });
     // A change the stored headline does not know yet (as a new setting or file makes it, before its analysis lands).
-    await t.dataSource.query("UPDATE batch_summaries SET status = 'pending' WHERE batch_id = ?", [
+    await testQuery(t.dataSource, "UPDATE batch_summaries SET status = 'pending' WHERE batch_id = ?", [
       complete.batchId,
     ]);
     const pending = (await overviewAs('scientist')).openBatches.items.find((b) => b.id === complete.batchId)!;

@@ -1,4 +1,4 @@
-import { DEMO_EMAILS, startTestApp, type TestApp } from '../../testing/test-app';
+import { DEMO_EMAILS, startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 
 describe('one-time links and sessions after a new password', () => {
   let t: TestApp;
@@ -65,7 +65,7 @@ describe('one-time links and sessions after a new password', () => {
 
   it('when an expired token is used then it is refused and the password is unchanged', async () => {
     const issued = await t.services.users.issueResetToken(DEMO_EMAILS.admin);
-    await t.dataSource.query('UPDATE users SET set_password_expires_at = ? WHERE email = ?', [
+    await testQuery(t.dataSource, 'UPDATE users SET set_password_expires_at = ? WHERE email = ?', [
       Date.now() - 1000,
       DEMO_EMAILS.admin,
     ]);

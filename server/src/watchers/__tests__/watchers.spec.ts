@@ -6,7 +6,7 @@ import {
   settled,
 } from '../../ingest/__tests__/ingest-helpers';
 import type { OutboxMessageDto } from '../../mail/outbox.service';
-import { startTestApp, type TestApp } from '../../testing/test-app';
+import { startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 
 async function delivered(t: TestApp): Promise<OutboxMessageDto[]> {
   await t.mail.idle();
@@ -42,7 +42,7 @@ describe('watcher credentials, folders, reports and silence', () => {
       tokenPrefix: token.slice(0, 10),
       revokedAt: null,
     });
-    const stored = await t.dataSource.query('SELECT token_hash FROM watcher_credentials');
+    const stored = await testQuery(t.dataSource, 'SELECT token_hash FROM watcher_credentials');
     expect(stored[0].token_hash).toMatch(/^[0-9a-f]{64}$/);
     const audit = await admin.get('/api/audit?entity=watcher');
     expect(JSON.stringify(audit.body)).toContain('Lab PC 3');

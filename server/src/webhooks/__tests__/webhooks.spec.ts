@@ -4,7 +4,7 @@ import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import { LONG_TABLE_PROFILE, createProfile, settled } from '../../ingest/__tests__/ingest-helpers';
 import { createAnalysedBatch } from '../../reports/__tests__/analysed-batch';
-import { startTestApp, type TestApp } from '../../testing/test-app';
+import { startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 import { uuidV5 } from '../webhook-crypto';
 import type { DeliveryDto, WebhookDto } from '../webhooks.service';
 
@@ -192,7 +192,7 @@ describe('outbound webhooks to a real local receiver', () => {
       (await admin.patch(`/api/webhooks/${created.body.id}`).send({ active: false })).body,
     ];
     for (const body of answers) expect(JSON.stringify(body)).not.toContain(SECRET.slice(0, 12));
-    const [row] = await t.dataSource.query('SELECT * FROM webhooks WHERE id = ?', [created.body.id]);
+    const [row] = await testQuery(t.dataSource, 'SELECT * FROM webhooks WHERE id = ?', [created.body.id]);
     expect(JSON.stringify(row)).not.toContain(SECRET.slice(0, 12));
     expect(row.secret_encrypted).toMatch(/^v1\./);
     // Registering and removing are in the audit trail.
@@ -376,7 +376,8 @@ describe('webhook deliveries across a restart', () => {
     expect(tried.status).toBe('pending');
     // A delivery recorded just before a crash, before its job was queued.
     const orphanId = uuidV5('restart-orphan');
-    await t.dataSource.query(
+    await testQuery(
+      t.dataSource,
       `INSERT INTO webhook_deliveries (event_id, event, webhook_id, payload, status, attempts, created_at)
        VALUES (?, 'file.quarantined', ?, ?, 'pending', 0, ?)`,
       [
