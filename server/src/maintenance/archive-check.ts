@@ -24,9 +24,10 @@ export async function checkArchive(
   const unreachable = await archive.unreachable();
   if (unreachable)
     return [`archive: ${unreachable}, but ${received} received file(s) should be archived there`];
+  // A random sample of the distinct hashes (written so SQLite and PostgreSQL both take it).
+  const limit = sample === 'all' ? '' : ` LIMIT ${Math.floor(sample)}`;
   const rows = (await dataSource.query(
-    `SELECT DISTINCT sha256 FROM intake_files ORDER BY RANDOM()${sample === 'all' ? '' : ' LIMIT ?'}`,
-    sample === 'all' ? [] : [sample],
+    `SELECT d.sha256 FROM (SELECT DISTINCT sha256 FROM intake_files) d ORDER BY RANDOM()${limit}`,
   )) as { sha256: string }[];
   const missing: string[] = [];
   const changed: string[] = [];

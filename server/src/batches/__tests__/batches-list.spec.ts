@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type TestAgent from 'supertest/lib/agent';
 import { BetterSqlite3QueryRunner } from 'typeorm/driver/better-sqlite3/BetterSqlite3QueryRunner';
+import { PostgresQueryRunner } from 'typeorm/driver/postgres/PostgresQueryRunner';
 import type { AnalysisEngine } from '../../analysis-engine/analysis-engine';
 import { currentAnalysisEngine } from '../../analysis-engine/analysis-engine';
 import type { BatchListItemDto } from '../../contracts/batches';
@@ -155,7 +156,9 @@ describe('GET /api/batches (paged, stored summaries)', () => {
   });
 
   it('when a page is read then two queries touch the batches, whatever its size, and nothing is analysed', async () => {
-    const spy = jest.spyOn(BetterSqlite3QueryRunner.prototype, 'query');
+    const runner =
+      t.dataSource.driver.options.type === 'postgres' ? PostgresQueryRunner : BetterSqlite3QueryRunner;
+    const spy = jest.spyOn(runner.prototype, 'query');
     const before = engine.calls;
     const count = async (query: string): Promise<number> => {
       spy.mockClear();

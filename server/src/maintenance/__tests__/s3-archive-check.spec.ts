@@ -7,7 +7,7 @@ import request from 'supertest';
 import { loadConfig } from '../../config';
 import { createProfile, longTableCsv, settled } from '../../ingest/__tests__/ingest-helpers';
 import { STAND_IN_KEY, startS3StandIn, type S3StandIn } from '../../ingest/__tests__/s3-stand-in';
-import { startTestApp } from '../../testing/test-app';
+import { sqliteOnly, startTestApp } from '../../testing/test-app';
 import { checkDatabaseAndArchive } from '../database-check';
 
 jest.setTimeout(120_000);
@@ -15,7 +15,8 @@ jest.setTimeout(120_000);
 const REPO_ROOT = path.resolve(__dirname, '../../../..');
 const PREFIX = 'checks/raw';
 
-describe('archive checks with the raw archive on S3', () => {
+// db:check reads the SQLite file, so these run on the SQLite pass only.
+sqliteOnly('archive checks with the raw archive on S3', () => {
   let s3: S3StandIn;
   let dir: string;
   let shas: string[];
