@@ -144,7 +144,9 @@ describe('every page passes an axe scan as every role', () => {
     const page = await ctx.newPage();
     await signIn(page, server.url, 'admin@equilight.test');
     const get = async <T>(p: string) => (await (await ctx.request.get(`${server.url}${p}`)).json()) as T;
-    const batches = await get<{ id: number; state: string; layoutId: number }[]>('/api/batches');
+    const { items: batches } = await get<{ items: { id: number; state: string; layoutId: number }[] }>(
+      '/api/batches?pageSize=500',
+    );
     const layouts = await get<{ id: number; format: string }[]>('/api/layouts');
     const manifests = await get<{ id: number; layoutId: number }[]>('/api/manifests');
     const plateLayout = layouts.find((l) => l.format === '96')!.id;
