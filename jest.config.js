@@ -90,9 +90,7 @@ async function postgresPass() {
     rootDir: __dirname,
     testEnvironment: 'node',
     testMatch: databaseTestFiles(),
-    setupFiles: ['<rootDir>/server/src/testing/postgres-pass.ts'],
-    // A round trip to PostgreSQL costs more than one to a SQLite file in the same process.
-    testTimeout: 30_000,
+    setupFilesAfterEnv: ['<rootDir>/server/src/testing/postgres-pass.ts'],
     transform: nodeTransform,
     transformIgnorePatterns,
     moduleNameMapper: sharedModules,
