@@ -121,7 +121,7 @@ describe('a large file does not hold up the server', () => {
     await t.stop();
   });
 
-  it('when a 300 000-reading file is parsed and stored then /api/health answers within 1 s throughout', async () => {
+  it('when a 300 000-reading file is parsed and stored then /api/health keeps answering throughout', async () => {
     const { token } = await createProfile(await t.agent('admin'));
     const wavelengths = 3100;
     const form = new FormData();
@@ -135,6 +135,7 @@ describe('a large file does not hold up the server', () => {
     const { id } = (await res.json()) as { id: number };
 
     const latencies: number[] = [];
+    const began = performance.now();
     let done = false;
     const finished = settled(t, id, 150_000).finally(() => (done = true));
     while (!done) {
@@ -145,11 +146,15 @@ describe('a large file does not hold up the server', () => {
       await new Promise((r) => setTimeout(r, 50));
     }
     const file = await finished;
+    const processing = performance.now() - began;
     expect(file.status).toBe('unassigned');
     expect(file.readingCount).toBe(wavelengths * 96);
     expect(await readingCount(t, id)).toBe(wavelengths * 96);
-    // Parsing this file takes seconds of CPU; on the main thread the health check waited for all of it.
+    // Parsing this file takes seconds of CPU; on the main thread the health check waited for all of it
+    // (one or two answers in all). No wall-clock bound here: a loaded CI machine stretches every figure,
+    // so the test asks that the server answered many times and that no single wait took a large share
+    // of the processing time.
     expect(latencies.length).toBeGreaterThan(10);
-    expect(Math.max(...latencies)).toBeLessThan(1000);
+    expect(Math.max(...latencies)).toBeLessThan(processing / 3);
   });
 });
