@@ -4,7 +4,8 @@ import { EVERYONE, rolesOf } from '@equilight/contracts';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { axeSerious } from './support/axe';
 import { launchChromium } from './support/browser';
-import { DEMO_PASSWORD, REPO_ROOT, type RunningServer, startServer } from './support/server-process';
+import { REPO_ROOT, type RunningServer, startServer } from './support/server-process';
+import { signIn } from './support/session';
 
 jest.setTimeout(180_000);
 
@@ -210,11 +211,3 @@ describe('every page passes an axe scan as every role', () => {
     expect(await scanAs(role, email)).toEqual([]);
   });
 });
-
-async function signIn(page: Page, url: string, email: string): Promise<void> {
-  await page.goto(`${url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByTestId('main-nav').waitFor();
-}

@@ -1,38 +1,15 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { axeSerious } from './support/axe';
 import { launchChromium } from './support/browser';
-import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
+import { type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
+import { signIn } from './support/session';
 
 jest.setTimeout(180_000);
 
 // Two people have the same demo batch open; what one writes under Comments appears on the other's
 // page through the live channel, without a reload.
-
-async function signIn(page: Page, url: string, email: string): Promise<void> {
-  await page.goto(`${url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByTestId('main-nav').waitFor();
-}
-
-async function axeSerious(page: Page, selector: string): Promise<string[]> {
-  await page.addScriptTag({ path: require.resolve('axe-core/axe.min.js') });
-  const violations = await page.evaluate(async (sel) => {
-    const axe = (window as unknown as { axe: { run: (c: string) => Promise<{ violations: unknown[] }> } })
-      .axe;
-    return (await axe.run(sel)).violations as {
-      id: string;
-      impact: string;
-      help: string;
-      nodes: { target: string[] }[];
-    }[];
-  }, selector);
-  return violations
-    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map((v) => `${v.impact} ${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join('; ')})`);
-}
 
 describe('comments on a batch, live on a second page', () => {
   let server: RunningServer;

@@ -1,8 +1,9 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
+import type { Browser, Page } from 'playwright-core';
 import { launchChromium } from './support/browser';
-import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
+import { type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
+import { apiAs, signIn } from './support/session';
 
 jest.setTimeout(240_000);
 
@@ -15,24 +16,6 @@ interface ListedBatch {
   manifestId: number;
 }
 
-/** A signed-in API client in its own browser context, sending the XSRF cookie back as the header. */
-async function apiAs(browser: Browser, url: string, email: string) {
-  const ctx: BrowserContext = await browser.newContext();
-  await ctx.request.get(`${url}/api/auth/me`);
-  const call = async (method: string, urlPath: string, data?: unknown): Promise<Record<string, unknown>> => {
-    const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
-    const res = await ctx.request.fetch(`${url}${urlPath}`, {
-      method,
-      data,
-      headers: { 'X-XSRF-TOKEN': xsrf },
-    });
-    if (!res.ok()) throw new Error(`${method} ${urlPath} → ${res.status()} ${await res.text()}`);
-    return (await res.json()) as Record<string, unknown>;
-  };
-  await call('POST', '/api/auth/login', { email, password: DEMO_PASSWORD });
-  return { call, ctx };
-}
-
 describe('the Batches page: server paging and search, live rows that stay put', () => {
   let server: RunningServer;
   let browser: Browser;
@@ -43,11 +26,7 @@ describe('the Batches page: server paging and search, live rows that stay put', 
     browser = await launchChromium();
     fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
     page = await (await browser.newContext({ viewport: { width: 1280, height: 800 } })).newPage();
-    await page.goto(`${server.url}/sign-in`);
-    await page.getByLabel('E-mail').fill('scientist@equilight.test');
-    await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.getByTestId('main-nav').waitFor();
+    await signIn(page, server.url, 'scientist@equilight.test');
   });
   afterAll(async () => {
     await browser?.close();

@@ -1,66 +1,20 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import { parseWatcherConfig } from '../../watcher/src/config';
 import { silentLogger } from '../../watcher/src/logger';
 import { createWatcher, type DropFolderWatcher } from '../../watcher/src/watcher';
 import { launchChromium } from './support/browser';
 import { eventually } from './support/eventually';
-import {
-  DEMO_PASSWORD,
-  REPO_ROOT,
-  type RunningServer,
-  SCREENSHOT_DIR,
-  startServer,
-} from './support/server-process';
+import { REPO_ROOT, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
+import { apiAs, sampleManifestRows, signIn } from './support/session';
 
 jest.setTimeout(240_000);
 
 const SAMPLES = path.join(REPO_ROOT, 'samples/analysis');
 const PROFILE_NAME = 'Cuvette bench 4 (watcher test)';
 const FOLDER = 'cuvette-bench-4';
-
-type Call = (method: string, urlPath: string, data?: unknown) => Promise<Record<string, unknown>>;
-
-/** A signed-in API client in its own browser context, sending the XSRF cookie back as the header. */
-async function apiAs(
-  browser: Browser,
-  url: string,
-  email: string,
-): Promise<{ call: Call; ctx: BrowserContext }> {
-  const ctx = await browser.newContext();
-  await ctx.request.get(`${url}/api/auth/me`);
-  const call: Call = async (method, urlPath, data) => {
-    const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
-    const res = await ctx.request.fetch(`${url}${urlPath}`, {
-      method,
-      data,
-      headers: { 'X-XSRF-TOKEN': xsrf },
-    });
-    if (!res.ok()) throw new Error(`${method} ${urlPath} → ${res.status()} ${await res.text()}`);
-    return (await res.json()) as Record<string, unknown>;
-  };
-  await call('POST', '/api/auth/login', { email, password: DEMO_PASSWORD });
-  return { call, ctx };
-}
-
-function manifestRows(): Record<string, string>[] {
-  const [header, ...lines] = fs
-    .readFileSync(path.join(SAMPLES, 'manifest.csv'), 'utf8')
-    .trim()
-    .split(/\r?\n/);
-  const columns = header!.split(',');
-  return lines.map((line) => Object.fromEntries(line.split(',').map((cell, i) => [columns[i], cell])));
-}
-
-async function signIn(page: Page, url: string, email: string): Promise<void> {
-  await page.goto(`${url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByTestId('main-nav').waitFor();
-}
 
 describe('a watcher joins a new profile live; a lab manager assigns its unassigned file from Intake', () => {
   let server: RunningServer;
@@ -170,7 +124,7 @@ describe('a watcher joins a new profile live; a lab manager assigns its unassign
 
     // A batch for another run id (it does not take the file by itself).
     const manager = await apiAs(browser, server.url, 'manager@equilight.test');
-    const rows = manifestRows();
+    const rows = sampleManifestRows();
     const layout = await manager.call('POST', '/api/layouts', {
       name: 'Bench 4 cuvettes (browser test)',
       format: 'cuvette',

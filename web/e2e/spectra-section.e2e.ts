@@ -4,7 +4,8 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { SPECTRA_K, SPECTRA_WAVELENGTHS, spectraPlate } from '../src/app/batch-detail/spectra-fixture';
 import { axeSerious } from './support/axe';
 import { launchChromium } from './support/browser';
-import { DEMO_PASSWORD, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
+import { type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
+import { apiAs, signIn } from './support/session';
 
 jest.setTimeout(180_000);
 
@@ -12,25 +13,6 @@ jest.setTimeout(180_000);
 // uploaded spectrum-format file; the batch page's Spectra section analyses it in the browser's worker.
 
 const RUN_ID = 'SPX-1';
-
-type Call = (method: string, urlPath: string, data?: unknown) => Promise<Record<string, unknown>>;
-
-async function apiAs(browser: Browser, url: string, email: string) {
-  const ctx = await browser.newContext();
-  await ctx.request.get(`${url}/api/auth/me`);
-  const xsrf = async () => (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
-  const call: Call = async (method, urlPath, data) => {
-    const res = await ctx.request.fetch(`${url}${urlPath}`, {
-      method,
-      data,
-      headers: { 'X-XSRF-TOKEN': await xsrf() },
-    });
-    if (!res.ok()) throw new Error(`${method} ${urlPath} → ${res.status()} ${await res.text()}`);
-    return (await res.json()) as Record<string, unknown>;
-  };
-  await call('POST', '/api/auth/login', { email, password: DEMO_PASSWORD });
-  return { call, ctx, xsrf };
-}
 
 /** The invented plate as the spectrum format: a wavelength column, then one column per position. */
 function spectrumCsv(): string {
@@ -126,11 +108,7 @@ describe('a batch read as spectra shows its Spectra section with K from every wa
 
     context = await browser.newContext({ viewport: { width: 1280, height: 800 }, bypassCSP: true });
     page = await context.newPage();
-    await page.goto(`${server.url}/sign-in`);
-    await page.getByLabel('E-mail').fill('scientist@equilight.test');
-    await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.getByTestId('main-nav').waitFor();
+    await signIn(page, server.url, 'scientist@equilight.test');
   });
 
   afterAll(async () => {

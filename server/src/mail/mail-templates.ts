@@ -1,4 +1,5 @@
 import type { QcFlag } from '../analysis';
+import { minute } from '../reports/report-cells';
 
 /** A mail's content: a subject, a plain-text part and a simple HTML part saying the same. */
 export interface MailContent {
@@ -130,7 +131,7 @@ export function batchApprovedMail(
   const blocks: Block[] = [
     {
       kind: 'p',
-      text: `${batch.approver} approved batch "${batch.name}"${batch.approvedAt ? ` on ${batch.approvedAt.slice(0, 16).replace('T', ' ')} UTC` : ''}. The batch is now locked.`,
+      text: `${batch.approver} approved batch "${batch.name}"${batch.approvedAt ? ` on ${minute(batch.approvedAt)}` : ''}. The batch is now locked.`,
     },
     { kind: 'p', text: `Comment: ${batch.comment}` },
   ];
@@ -194,7 +195,7 @@ export function watcherSilentMail(name: string, s: WatcherSilence): MailContent 
       kind: 'list',
       items: [
         `Drop folder: ${s.folder}`,
-        `Last report: ${s.lastSeenAt.slice(0, 16).replace('T', ' ')} UTC by ${s.watcherName}`,
+        `Last report: ${minute(s.lastSeenAt)} by ${s.watcherName}`,
       ],
     },
     {
@@ -210,7 +211,7 @@ export function watcherBackMail(name: string, s: Omit<WatcherSilence, 'silentMin
   return compose(`Watcher back: ${s.instrument}`, `Hello ${name},`, [
     {
       kind: 'p',
-      text: `The drop folder of instrument "${s.instrument}" is watched again (${s.watcherName} reported at ${s.lastSeenAt.slice(0, 16).replace('T', ' ')} UTC).`,
+      text: `The drop folder of instrument "${s.instrument}" is watched again (${s.watcherName} reported at ${minute(s.lastSeenAt)}).`,
     },
     { kind: 'list', items: [`Drop folder: ${s.folder}`] },
     { kind: 'link', label: 'Open Instruments', url: s.url },

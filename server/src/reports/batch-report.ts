@@ -98,7 +98,7 @@ function commentsSection(comments: BatchComment[]): ReportSection[] {
             text(c.authorName),
             { text: ROLE_LABELS[c.authorRole], value: c.authorRole },
             c.removed
-              ? text(`Comment removed${c.removedBy ? ` by ${c.removedBy}` : ''}, ${minute(c.removedAt)} UTC`)
+              ? text(`Comment removed${c.removedBy ? ` by ${c.removedBy}` : ''}, ${minute(c.removedAt)}`)
               : text(c.replyToId === null ? c.text : `Re ${c.replyToId}: ${c.text}`),
           ]),
         },

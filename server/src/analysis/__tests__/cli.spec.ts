@@ -2,17 +2,36 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { buildSync } from 'esbuild';
 import { solveEquilibrium } from '../equilibrium-solve';
 import { parseStoichiometry } from '../stoichiometry-model';
 
 const ROOT = resolve(__dirname, '../../../..');
-const TSX = resolve(ROOT, 'node_modules/.bin/tsx');
 const SAMPLES = resolve(ROOT, 'samples/analysis');
 const READINGS = join(SAMPLES, 'readings.csv');
 const MANIFEST = join(SAMPLES, 'manifest.csv');
 
+/**
+ * The CLI (`npm run analyze`, scripts/analyze.ts) bundled once for this file and run as a real child
+ * process each time: the same code tsx runs, without compiling it again for each of the runs below.
+ */
+let cli = '';
+beforeAll(() => {
+  cli = join(mkdtempSync(join(tmpdir(), 'analyze-cli-')), 'analyze.cjs');
+  buildSync({
+    entryPoints: [join(ROOT, 'scripts/analyze.ts')],
+    bundle: true,
+    platform: 'node',
+    format: 'cjs',
+    target: 'node20',
+    tsconfig: join(ROOT, 'server/tsconfig.json'),
+    outfile: cli,
+    logLevel: 'silent',
+  });
+});
+
 function run(args: string[]): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(TSX, ['--tsconfig', 'server/tsconfig.json', 'scripts/analyze.ts', ...args], {
+  const r = spawnSync(process.execPath, [cli, ...args], {
     cwd: ROOT,
     encoding: 'utf8',
     timeout: 60_000,
@@ -244,6 +263,16 @@ describe('npm run analyze (CLI)', () => {
     expect(r.stdout).toMatch(/^Mole-ratio series \(\d+ mixtures, A held at .* mol\/L\)/m);
     // The best candidate's notes are printed under it, not again as warnings.
     expect(r.stdout).not.toMatch(/^Warning: 1:1 with ε fitted too/m);
+  });
+
+  it('when run as `npm run analyze` (tsx on the source) then it prints what the bundled run prints', () => {
+    const viaTsx = spawnSync(
+      resolve(ROOT, 'node_modules/.bin/tsx'),
+      ['--tsconfig', 'server/tsconfig.json', 'scripts/analyze.ts', '--help'],
+      { cwd: ROOT, encoding: 'utf8', timeout: 60_000 },
+    );
+    expect(viaTsx.status).toBe(0);
+    expect(viaTsx.stdout).toBe(run(['--help']).stdout);
   });
 
   it('--help prints every option with a line each and exits 0', () => {
