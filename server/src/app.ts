@@ -90,7 +90,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   configureWorkers(config.workers);
   const store = new TypeOrmSessionStore(dataSource.getRepository(SessionRow), config.sessionMaxAgeMs);
   const audit = new AuditService(dataSource);
-  const users = new UsersService(dataSource, store, audit);
+  const users = new UsersService(dataSource, store, audit, config.passwordHashRounds);
   const passport = createPassport(users);
   const events = new EventBus();
   // Sign-out, deactivation and role changes end live connections (events/live-events.ts).

@@ -40,6 +40,9 @@ const trustProxyText = z
       .join(',');
   });
 
+/** bcrypt's cost for stored passwords (2¹⁰ rounds; common practice for interactive sign-in). */
+export const PASSWORD_HASH_ROUNDS = 10;
+
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   PORT: z.coerce.number().int().min(0).max(65535).default(4210),
@@ -74,6 +77,11 @@ const envSchema = z.object({
   SMTP_STANDIN_PORT: z.coerce.number().int().min(0).max(65535).optional(),
   WORKER_THREADS: z.coerce.number().int().min(2).max(16).default(2),
   WORKERS_IN_THREAD_FOR_TESTS: booleanText.default(false),
+  /** bcrypt's cost in tests (4 hashes in a few ms); only with NODE_ENV=test. Elsewhere the cost is 10. */
+  PASSWORD_HASH_ROUNDS_FOR_TESTS: z.preprocess(
+    (v) => (v === '' ? undefined : v),
+    z.coerce.number().int().min(4).max(10).optional(),
+  ),
   FOUR_EYES_APPROVAL: booleanText.default(true),
   WEBHOOK_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(6),
   WEBHOOK_TIMEOUT_SECONDS: z.coerce.number().positive().max(120).default(10),
@@ -161,6 +169,8 @@ export interface AppConfig {
   mail: MailConfig;
   /** Worker threads for parsing and analysis (server/src/workers). */
   workers: { threads: number; inThreadForTests: boolean };
+  /** bcrypt cost of stored passwords (10; lower only in tests). */
+  passwordHashRounds: number;
   /** Lab policy: whoever approves a batch did not create it nor mark it reviewed. */
   fourEyesApproval: boolean;
   webhooks: WebhooksConfig;
@@ -227,6 +237,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
   if (e.WORKERS_IN_THREAD_FOR_TESTS && e.NODE_ENV !== 'test') {
     throw new ConfigError('Invalid configuration:\n  WORKERS_IN_THREAD_FOR_TESTS: only with NODE_ENV=test');
   }
+  if (e.PASSWORD_HASH_ROUNDS_FOR_TESTS !== undefined && e.NODE_ENV !== 'test') {
+    throw new ConfigError(
+      'Invalid configuration:\n  PASSWORD_HASH_ROUNDS_FOR_TESTS: only with NODE_ENV=test',
+    );
+  }
   const archive = archiveConfigOf(e, dataDir);
   if (typeof archive === 'string') throw new ConfigError(`Invalid configuration:\n  ${archive}`);
   if (e.NODE_ENV === 'production' && !e.SESSION_SECRET) {
@@ -256,6 +271,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       standInPort: e.SMTP_STANDIN_PORT ?? (e.NODE_ENV === 'test' ? 0 : 2525),
     },
     workers: { threads: e.WORKER_THREADS, inThreadForTests: e.WORKERS_IN_THREAD_FOR_TESTS },
+    passwordHashRounds: e.PASSWORD_HASH_ROUNDS_FOR_TESTS ?? PASSWORD_HASH_ROUNDS,
     fourEyesApproval: e.FOUR_EYES_APPROVAL,
     webhooks: {
       maxAttempts: e.WEBHOOK_MAX_ATTEMPTS,

@@ -3,21 +3,19 @@ import bcrypt from 'bcryptjs';
 import type { DataSource, EntityManager, Repository } from 'typeorm';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
+import { PASSWORD_HASH_ROUNDS } from '../config';
 import { normaliseEmail } from '../contracts/email-address';
 import { type PublicUser, type Role, User, toPublicUser } from './user.entity';
 import type { CreateUserInput, UpdateUserInput } from '../contracts/users';
 
-const BCRYPT_ROUNDS = 10;
 const SET_PASSWORD_TTL_MS = 72 * 3_600_000;
 const RESET_PASSWORD_TTL_MS = 2 * 3_600_000;
 export const SET_PASSWORD_TTL_HOURS = SET_PASSWORD_TTL_MS / 3_600_000;
 export const RESET_PASSWORD_TTL_HOURS = RESET_PASSWORD_TTL_MS / 3_600_000;
 
-export function hashPassword(password: string): Promise<string> {
-  return bcrypt.hash(password, BCRYPT_ROUNDS);
+export function hashPassword(password: string, rounds = PASSWORD_HASH_ROUNDS): Promise<string> {
+  return bcrypt.hash(password, rounds);
 }
-
-let dummyHash: string | undefined;
 
 function sha256(text: string): string {
   return crypto.createHash('sha256').update(text).digest('hex');
@@ -44,9 +42,14 @@ export class UsersService {
     private readonly dataSource: DataSource,
     private readonly sessions?: SessionEnder,
     private readonly audit?: AuditService,
+    /** bcrypt's cost for new hashes (config.passwordHashRounds). */
+    private readonly hashRounds = PASSWORD_HASH_ROUNDS,
   ) {
     this.users = dataSource.getRepository(User);
   }
+
+  /** A hash of the cost this service writes, compared against when no such person exists. */
+  private dummyHash: string | undefined;
 
   /** Runs a change with its audit entry in one transaction (no entry without an actor, e.g. the demo seed). */
   private async audited<T>(
@@ -77,8 +80,8 @@ export class UsersService {
   async verifyCredentials(email: string, password: string): Promise<User> {
     const user = await this.users.findOneBy({ email: normaliseEmail(email) });
     // Compare against a dummy hash when there is no user so timing does not reveal who exists.
-    dummyHash ??= bcrypt.hashSync('no such person', BCRYPT_ROUNDS);
-    const hash = user?.passwordHash ?? dummyHash;
+    this.dummyHash ??= await hashPassword('no such person', this.hashRounds);
+    const hash = user?.passwordHash ?? this.dummyHash;
     const matches = await bcrypt.compare(password, hash);
     if (!user || !user.passwordHash || !matches)
       throw AppError.unauthorized('E-mail or password is not correct.');
@@ -189,7 +192,7 @@ export class UsersService {
     const tokenHash = sha256(token);
     const user = await this.users.findOneBy({ setPasswordTokenHash: tokenHash });
     if (!user) throw invalid();
-    const passwordHash = await hashPassword(password);
+    const passwordHash = await hashPassword(password, this.hashRounds);
     const consumed = await this.users
       .createQueryBuilder()
       .update(User)

@@ -44,7 +44,15 @@ export async function startServer(
   let log = '';
   const child = spawn(process.execPath, [main], {
     cwd: root,
-    env: { ...process.env, NODE_ENV: 'test', PORT: String(port), DATA_DIR: dataDir, DEMO_PASSWORD, ...env },
+    env: {
+      ...process.env,
+      NODE_ENV: 'test',
+      PORT: String(port),
+      DATA_DIR: dataDir,
+      DEMO_PASSWORD,
+      PASSWORD_HASH_ROUNDS_FOR_TESTS: '4',
+      ...env,
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   child.stdout!.on('data', (d) => (log += d));

@@ -1,5 +1,7 @@
+import bcrypt from 'bcryptjs';
+import { loadConfig } from '../../config';
 import { seedDemoPeople } from '../../seed/demo-people';
-import { DEMO_EMAILS, DEMO_PASSWORD, startTestApp, type TestApp } from '../../testing/test-app';
+import { DEMO_EMAILS, DEMO_PASSWORD, startTestApp, type TestApp, testQuery } from '../../testing/test-app';
 
 type Who = 'signed out' | 'admin' | 'lab_manager' | 'scientist';
 const EVERYONE: Who[] = ['signed out', 'admin', 'lab_manager', 'scientist'];
@@ -248,5 +250,42 @@ describe('demo seeding', () => {
     } finally {
       await t.stop();
     }
+  });
+});
+
+describe('stored passwords', () => {
+  it('when the app runs with its own settings then a new password is a bcrypt hash of cost 10', async () => {
+    // Cost 10 (2¹⁰ rounds) for interactive sign-in: common practice. Tests run at cost 4 for speed only.
+    const t = await startTestApp({ PASSWORD_HASH_ROUNDS_FOR_TESTS: '' });
+    try {
+      expect(t.config.passwordHashRounds).toBe(10);
+      const admin = await t.agent('admin');
+      const created = await admin.post('/api/users').send({
+        email: 'cost@equilight.test',
+        displayName: 'Cost Check',
+        role: 'scientist',
+        password: 'a-long-password-1',
+      });
+      expect(created.status).toBe(201);
+      const [row] = await testQuery<{ passwordHash: string }[]>(
+        t.dataSource,
+        'SELECT password_hash AS "passwordHash" FROM users WHERE email = ?',
+        ['cost@equilight.test'],
+      );
+      expect(bcrypt.getRounds(row!.passwordHash)).toBe(10);
+      expect(await bcrypt.compare('a-long-password-1', row!.passwordHash)).toBe(true);
+    } finally {
+      await t.stop();
+    }
+  });
+
+  it('when the test-only cost is set outside NODE_ENV=test then the server refuses to start', () => {
+    expect(() =>
+      loadConfig({
+        NODE_ENV: 'production',
+        SESSION_SECRET: 'x'.repeat(32),
+        PASSWORD_HASH_ROUNDS_FOR_TESTS: '4',
+      }),
+    ).toThrow(/PASSWORD_HASH_ROUNDS_FOR_TESTS: only with NODE_ENV=test/);
   });
 });
