@@ -59,6 +59,9 @@ export async function closeWorkers(): Promise<void> {
 function workerFile(): { filename: string; execArgv: string[] } {
   const compiled = path.join(__dirname, 'tasks.js');
   if (fs.existsSync(compiled)) return { filename: compiled, execArgv: [] };
+  // Under jest: the same source bundled once per run (server/src/testing/bundle-worker-tasks.js).
+  const bundled = process.env['EQUILIGHT_TEST_WORKER_TASKS'];
+  if (bundled && fs.existsSync(bundled)) return { filename: bundled, execArgv: [] };
   const source = path.join(__dirname, 'tasks.ts');
   if (!fs.existsSync(source)) throw new Error(`no worker file next to ${__filename}`);
   const hasTsx = process.execArgv.some((a) => a.includes('tsx'));
