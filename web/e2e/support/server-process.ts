@@ -58,7 +58,7 @@ export async function startServer(
   child.stdout!.on('data', (d) => (log += d));
   child.stderr!.on('data', (d) => (log += d));
   const url = `http://127.0.0.1:${port}`;
-  const deadline = Date.now() + 20_000;
+  const deadline = Date.now() + 60_000;
   for (;;) {
     if (child.exitCode !== null) throw new Error(`server exited early:\n${log}`);
     try {
@@ -67,7 +67,7 @@ export async function startServer(
     } catch {
       // not listening yet
     }
-    if (Date.now() > deadline) throw new Error(`server did not answer within 20 s:\n${log}`);
+    if (Date.now() > deadline) throw new Error(`server did not answer within 60 s:\n${log}`);
     await new Promise((r) => setTimeout(r, 150));
   }
   return {
