@@ -72,7 +72,7 @@ export async function startServer(port: number, dataDir: string): Promise<Child>
     DEMO_PASSWORD: E2E_PASSWORD,
     WEB_DIST_DIR: path.join(dataDir, 'no-web'),
   });
-  const deadline = Date.now() + 20_000;
+  const deadline = Date.now() + 60_000;
   for (;;) {
     if (!child.running) throw new Error(`server exited early:\n${child.output()}`);
     try {
@@ -81,7 +81,7 @@ export async function startServer(port: number, dataDir: string): Promise<Child>
     } catch {
       // not listening yet
     }
-    if (Date.now() > deadline) throw new Error(`server did not answer within 20 s:\n${child.output()}`);
+    if (Date.now() > deadline) throw new Error(`server did not answer within 60 s:\n${child.output()}`);
     await sleep(100);
   }
 }
