@@ -135,9 +135,9 @@ const projects = [
 
 module.exports = async () => {
   const pg = await postgresPass();
-  // 15 s a test, not jest's 5 s: on a loaded 2-core CI machine a test that takes 2 s alone can take 6.
+  // 30 s a test or hook, not jest's 5 s: on a loaded 2-core machine starting a test app alone took over 15 s.
   return {
-    testTimeout: 15_000,
+    testTimeout: 30_000,
     globalSetup: '<rootDir>/server/src/testing/bundle-worker-tasks.js',
     projects: pg ? [projects[0], pg, ...projects.slice(1)] : projects,
   };
