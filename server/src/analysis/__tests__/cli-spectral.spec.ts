@@ -1,13 +1,12 @@
-import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { runAnalyzeCli } from '../../testing/analyze-cli';
 
 // The CLI's whole-spectrum option (--all-wavelengths, --from, --to) on the invented spectra of
 // samples/analysis (scripts/make-spectral-samples.ts) and on spectra written here from a closed form.
 
 const ROOT = resolve(__dirname, '../../../..');
-const TSX = resolve(ROOT, 'node_modules/.bin/tsx');
 const SAMPLES = resolve(ROOT, 'samples/analysis');
 const LONG = join(SAMPLES, 'spectra-long.csv');
 const SPECTRUM = join(SAMPLES, 'spectra.csv');
@@ -42,14 +41,7 @@ interface CliJson {
   warnings: string[];
 }
 
-function run(args: string[]): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(TSX, ['--tsconfig', 'server/tsconfig.json', 'scripts/analyze.ts', ...args], {
-    cwd: ROOT,
-    encoding: 'utf8',
-    timeout: 90_000,
-  });
-  return { status: r.status, stdout: r.stdout, stderr: r.stderr };
-}
+const run = (args: string[]) => runAnalyzeCli(args);
 
 function runJson(args: string[]): CliJson {
   const r = run([...args, '--json']);

@@ -1,43 +1,16 @@
-import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { buildSync } from 'esbuild';
 import { solveEquilibrium } from '../equilibrium-solve';
 import { parseStoichiometry } from '../stoichiometry-model';
+import { runAnalyzeCli, runAnalyzeCliSource } from '../../testing/analyze-cli';
 
 const ROOT = resolve(__dirname, '../../../..');
 const SAMPLES = resolve(ROOT, 'samples/analysis');
 const READINGS = join(SAMPLES, 'readings.csv');
 const MANIFEST = join(SAMPLES, 'manifest.csv');
 
-/**
- * The CLI (`npm run analyze`, scripts/analyze.ts) bundled once for this file and run as a real child
- * process each time: the same code tsx runs, without compiling it again for each of the runs below.
- */
-let cli = '';
-beforeAll(() => {
-  cli = join(mkdtempSync(join(tmpdir(), 'analyze-cli-')), 'analyze.cjs');
-  buildSync({
-    entryPoints: [join(ROOT, 'scripts/analyze.ts')],
-    bundle: true,
-    platform: 'node',
-    format: 'cjs',
-    target: 'node20',
-    tsconfig: join(ROOT, 'server/tsconfig.json'),
-    outfile: cli,
-    logLevel: 'silent',
-  });
-});
-
-function run(args: string[]): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [cli, ...args], {
-    cwd: ROOT,
-    encoding: 'utf8',
-    timeout: 60_000,
-  });
-  return { status: r.status, stdout: r.stdout, stderr: r.stderr };
-}
+const run = (args: string[]) => runAnalyzeCli(args, 60_000);
 
 /**
  * One candidate in the CLI's JSON, as these tests read it: values typed as present because each test
@@ -266,11 +239,7 @@ describe('npm run analyze (CLI)', () => {
   });
 
   it('when run as `npm run analyze` (tsx on the source) then it prints what the bundled run prints', () => {
-    const viaTsx = spawnSync(
-      resolve(ROOT, 'node_modules/.bin/tsx'),
-      ['--tsconfig', 'server/tsconfig.json', 'scripts/analyze.ts', '--help'],
-      { cwd: ROOT, encoding: 'utf8', timeout: 60_000 },
-    );
+    const viaTsx = runAnalyzeCliSource(['--help']);
     expect(viaTsx.status).toBe(0);
     expect(viaTsx.stdout).toBe(run(['--help']).stdout);
   });
