@@ -6,24 +6,17 @@
  * Not a timed test. Run: npm run bench:batches [-- --runs 20 --sizes 100,2000]
  */
 import fs from 'node:fs';
-import { bulkInsert } from '../../server/src/database/bulk-insert';
+import { BatchAnalysisRow } from '../../server/src/batches/batch-analysis.entity';
 import { BatchSummaryRow } from '../../server/src/batches/batch-summary.entity';
 import { Batch } from '../../server/src/batches/batch.entity';
+import { IntakeFile } from '../../server/src/ingest/intake-file.entity';
 import { createAnalysedBatch } from '../../server/src/reports/__tests__/analysed-batch';
 import { startTestApp, type TestApp } from '../../server/src/testing/test-app';
-
-function option(name: string, fallback: string): string {
-  const i = process.argv.indexOf(`--${name}`);
-  return i > 0 && process.argv[i + 1] ? process.argv[i + 1]! : fallback;
-}
+import { median, option } from './bench-kit';
+import { writeSyntheticBatches } from './synthetic-batches';
 
 const RUNS = Number(option('runs', '20'));
 const SIZES = option('sizes', '100,2000').split(',').map(Number);
-
-function median(values: number[]): number {
-  const s = [...values].sort((a, b) => a - b);
-  return s.length % 2 ? s[(s.length - 1) / 2]! : (s[s.length / 2 - 1]! + s[s.length / 2]!) / 2;
-}
 
 /** A database holding `count` batches with stored summaries and one file each; returns its folder. */
 async function seed(count: number): Promise<string> {
@@ -31,130 +24,28 @@ async function seed(count: number): Promise<string> {
   const real = await createAnalysedBatch(t, { name: 'Bench: analysed' });
   await real.ingest();
   await t.services.batches.summariesIdle();
-  const template = await t.dataSource.getRepository(Batch).findOneByOrFail({ id: real.batchId });
-  const summary = await t.dataSource
-    .getRepository(BatchSummaryRow)
-    .findOneByOrFail({ batchId: real.batchId });
+  const batchId = real.batchId;
+  const template = {
+    batch: await t.dataSource.getRepository(Batch).findOneByOrFail({ id: batchId }),
+    summary: await t.dataSource.getRepository(BatchSummaryRow).findOneByOrFail({ batchId }),
+    analysis: await t.dataSource.getRepository(BatchAnalysisRow).findOneByOrFail({ batchId }),
+    file: await t.dataSource.getRepository(IntakeFile).findOneByOrFail({ batchId }),
+  };
   const start = Date.parse('2030-01-01T08:00:00Z');
-  const iso = (i: number) => new Date(start + i * 4 * 3_600_000).toISOString();
-  await t.dataSource.transaction(async (manager) => {
-    const batches = Array.from({ length: count - 1 }, (_, i) => [
-      `Bench series ${i + 1}`,
-      ['open', 'reviewed', 'approved'][i % 3],
-      template.profileId,
-      template.layoutId,
-      template.layoutVersion,
-      template.manifestId,
-      template.manifestVersion,
-      `BX-${i + 1}`,
-      1,
-      'Bench system',
-      15 + (i % 3) * 10,
-      template.settingsJson,
-      template.createdById,
-      iso(i).replace('T', ' ').slice(0, 19),
-      iso(i).replace('T', ' ').slice(0, 19),
-    ]);
-    await bulkInsert(
-      manager,
-      'batches',
-      [
-        'name',
-        'state',
-        'profile_id',
-        'layout_id',
-        'layout_version',
-        'manifest_id',
-        'manifest_version',
-        'run_id',
-        'expected_files',
-        'system_name',
-        'temperature_c',
-        'settings_json',
-        'created_by_id',
-        'created_at',
-        'updated_at',
-      ],
-      batches,
-    );
-    const ids = (
-      await manager.query<{ id: number }[]>('SELECT id FROM batches WHERE id <> ? ORDER BY id', [
-        real.batchId,
-      ])
-    ).map((r) => Number(r.id));
-    await bulkInsert(
-      manager,
-      'intake_files',
-      [
-        'profile_id',
-        'original_name',
-        'sha256',
-        'size_bytes',
-        'status',
-        'run_id',
-        'reading_count',
-        'source',
-        'batch_id',
-        'received_at',
-        'finished_at',
-      ],
-      ids.map((id, i) => [
-        template.profileId,
-        `BX-${i + 1}_readings.csv`,
-        `${String(id).padStart(64, '0')}`,
-        1000,
-        'stored',
-        `BX-${i + 1}`,
-        12,
-        'upload',
-        id,
-        iso(i),
-        iso(i),
-      ]),
-    );
-    await bulkInsert(
-      manager,
-      'batch_summaries',
-      [
-        'batch_id',
-        'revision',
-        'stored_files',
-        'last_file_at',
-        'last_activity_at',
-        'sample_ids',
-        'status',
-        'source',
-        'inputs_hash',
-        'engine_version',
-        'analysed_at',
-        'summary_json',
-        'result_json',
-        'qc_flag_count',
-        'qc_error_count',
-        'best_model',
-        'k',
-      ],
-      ids.map((id, i) => [
-        id,
-        1,
-        1,
-        iso(i),
-        iso(i),
-        summary.sampleIds,
-        'current',
-        'analysis',
-        summary.inputsHash,
-        summary.engineVersion,
-        iso(i),
-        summary.summaryJson,
-        summary.resultJson,
-        summary.qcFlagCount,
-        summary.qcErrorCount,
-        summary.bestModel,
-        (summary.k ?? 800) * (1 + (i % 50) / 100),
-      ]),
-    );
-  });
+  await writeSyntheticBatches(
+    t.dataSource,
+    template,
+    Array.from({ length: count - 1 }, (_, i) => ({
+      name: `Bench series ${i + 1}`,
+      state: (['open', 'reviewed', 'approved'] as const)[i % 3]!,
+      profileId: template.batch.profileId,
+      runId: `BX-${i + 1}`,
+      systemName: 'Bench system',
+      temperatureC: 15 + (i % 3) * 10,
+      createdAt: new Date(start + i * 4 * 3_600_000).toISOString(),
+      k: (template.summary.k ?? 800) * (1 + (i % 50) / 100),
+    })),
+  );
   await t.shutDown();
   return t.dir;
 }

@@ -31,6 +31,16 @@ export function likePattern(text: string): string {
   return `%${text.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 }
 
+/** A batch of a chemical system at a temperature, with its stored headline (Temperatures). */
+export interface SystemBatch {
+  id: number;
+  name: string;
+  state: Batch['state'];
+  systemName: string;
+  temperatureC: number;
+  summary: BatchResultSummary | null;
+}
+
 /** Filters of a batches query beyond paging. */
 export interface BatchListFilter {
   id?: number;
@@ -38,8 +48,6 @@ export interface BatchListFilter {
   profileId?: number;
   unapproved?: boolean;
   q?: string;
-  /** Only batches with a system name and a temperature (van 't Hoff). */
-  withSystemAndTemperature?: boolean;
 }
 
 /**
@@ -50,23 +58,29 @@ export interface BatchListFilter {
 export class BatchListQueryBuilder {
   constructor(private readonly dataSource: DataSource) {}
 
+  /** The batches and the joins a list shows (set-up and people's names) besides those it filters and sorts on. */
   private base(filter: BatchListFilter): SelectQueryBuilder<Batch> {
-    const qb = this.dataSource
-      .createQueryBuilder(Batch, 'b')
-      .leftJoin(BatchSummaryRow, 's', 's.batch_id = b.id')
-      .leftJoin(InstrumentProfile, 'p', 'p.id = b.profile_id')
+    return this.filtered(filter)
       .leftJoin(Layout, 'l', 'l.id = b.layout_id')
       .leftJoin(Manifest, 'm', 'm.id = b.manifest_id')
       .leftJoin(User, 'uc', 'uc.id = b.created_by_id')
       .leftJoin(User, 'ur', 'ur.id = b.reviewed_by_id')
       .leftJoin(User, 'ua', 'ua.id = b.approved_by_id');
+  }
+
+  /**
+   * The batches the filter lets through, joined to what sorts read (summary, instrument) unless `countOnly`:
+   * then only a search joins the summary (its sample ids).
+   */
+  private filtered(filter: BatchListFilter, countOnly = false): SelectQueryBuilder<Batch> {
+    const qb = this.dataSource.createQueryBuilder(Batch, 'b');
+    if (!countOnly || filter.q) qb.leftJoin(BatchSummaryRow, 's', 's.batch_id = b.id');
+    if (!countOnly) qb.leftJoin(InstrumentProfile, 'p', 'p.id = b.profile_id');
     if (filter.id !== undefined) qb.andWhere('b.id = :id', { id: filter.id });
     if (filter.state) qb.andWhere('b.state = :state', { state: filter.state });
     if (filter.profileId !== undefined)
       qb.andWhere('b.profile_id = :profileId', { profileId: filter.profileId });
     if (filter.unapproved) qb.andWhere('b.state <> :approved', { approved: 'approved' });
-    if (filter.withSystemAndTemperature)
-      qb.andWhere('b.system_name IS NOT NULL AND b.temperature_c IS NOT NULL');
     if (filter.q) {
       // The files' names through their batch_id index; sample ids from the stored summary.
       const files = this.dataSource
@@ -83,15 +97,52 @@ export class BatchListQueryBuilder {
     return qb;
   }
 
-  /** One page and the total: two queries whatever the page size. */
+  /**
+   * One page and the total: two queries whatever the page size. The count joins nothing it does not
+   * filter on (each join is one row per batch at most, so COUNT(*) counts batches).
+   */
   async page(
     filter: BatchListFilter,
     order: { sort?: BatchListParams['sort']; dir?: 'asc' | 'desc'; page?: number; pageSize?: number },
   ): Promise<{ items: BatchListItemDto[]; total: number }> {
-    const total = await this.base(filter).getCount();
+    const count = await this.filtered(filter, true)
+      .select('COUNT(*)', 'n')
+      .getRawOne<{ n: number | string }>();
+    const total = Number(count?.n ?? 0);
     const pageSize = order.pageSize ?? 25;
     const items = await this.rows(filter, order, { offset: (order.page ?? 0) * pageSize, limit: pageSize });
     return { items, total };
+  }
+
+  /**
+   * Every batch with a chemical system and a temperature, newest first, with its stored headline: one
+   * query of the few columns Temperatures shows (no names of people or set-ups, no settings).
+   */
+  async withSystemAndTemperature(): Promise<SystemBatch[]> {
+    const rows = await this.dataSource
+      .createQueryBuilder(Batch, 'b')
+      .leftJoin(BatchSummaryRow, 's', 's.batch_id = b.id')
+      .select('b.id', 'id')
+      .addSelect('b.name', 'name')
+      .addSelect('b.state', 'state')
+      .addSelect('b.system_name', 'system_name')
+      .addSelect('b.temperature_c', 'temperature_c')
+      .addSelect('s.summary_json', 'summary_json')
+      .where('b.system_name IS NOT NULL AND b.temperature_c IS NOT NULL')
+      .orderBy('b.created_at', 'DESC')
+      .addOrderBy('b.id', 'DESC')
+      .getRawMany<Record<string, unknown>>();
+    return rows.map((r) => {
+      const summaryJson = text(r['summary_json']);
+      return {
+        id: Number(r['id']),
+        name: String(r['name']),
+        state: r['state'] as Batch['state'],
+        systemName: String(r['system_name']),
+        temperatureC: Number(r['temperature_c']),
+        summary: summaryJson ? (JSON.parse(summaryJson) as BatchResultSummary) : null,
+      };
+    });
   }
 
   /** Every batch the filter lets through (one query), in the given order. */
@@ -106,6 +157,7 @@ export class BatchListQueryBuilder {
   ): Promise<BatchListItemDto[]> {
     const dir = order.dir === 'asc' ? 'ASC' : 'DESC';
     const sort = SORTS[order.sort ?? 'lastActivityAt'];
+    const nulls = sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0';
     const qb = this.base(filter)
       .select('b')
       .addSelect('p.name', 'profile_name')
@@ -119,12 +171,26 @@ export class BatchListQueryBuilder {
       .addSelect('s.status', 's_status')
       .addSelect('s.error', 's_error')
       .addSelect('s.summary_json', 's_summary_json')
-      .addSelect(sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0', 'sort_nulls')
+      .addSelect(nulls, 'sort_nulls')
       .addSelect(sort.key, 'sort_key')
       .orderBy('sort_nulls', 'ASC')
       .addOrderBy('sort_key', dir)
       .addOrderBy('b.id', dir);
-    if (window) qb.offset(window.offset).limit(window.limit);
+    if (window) {
+      // The page's ids first, sorted on the sort key alone, so no wide column (settings, headline) of
+      // every batch goes through the sort; then those few rows in full.
+      const ids = this.filtered(filter)
+        .select('b.id', 'id')
+        .addSelect(nulls, 'sort_nulls')
+        .addSelect(sort.key, 'sort_key')
+        .orderBy('sort_nulls', 'ASC')
+        .addOrderBy('sort_key', dir)
+        .addOrderBy('b.id', dir)
+        .offset(window.offset)
+        .limit(window.limit);
+      qb.andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`);
+      qb.setParameters({ ...qb.getParameters(), ...ids.getParameters() });
+    }
     const { entities, raw } = await qb.getRawAndEntities<Record<string, unknown>>();
     return entities.map((b, i) => toListItem(b, raw[i] ?? {}));
   }

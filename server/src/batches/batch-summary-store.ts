@@ -2,8 +2,9 @@ import { createHash } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import type { BatchResult } from '../analysis';
-import { type BatchResultSummary, batchSettingsSchema } from '../contracts/batches';
+import { type BatchAnalysisDto, type BatchResultSummary, batchSettingsSchema } from '../contracts/batches';
 import type { Batch } from './batch.entity';
+import { BatchAnalysisRow } from './batch-analysis.entity';
 import { BatchSummaryRow, type SummaryState } from './batch-summary.entity';
 
 /** The files a batch's analysis reads, as its inputs hash names them. */
@@ -39,8 +40,13 @@ export interface SummaryWrite {
   error: string | null;
   summary: BatchResultSummary | null;
   result: BatchResult | null;
+  /** The whole-spectrum analysis of the same inputs; undefined or null: not worked out (yet). */
+  spectral?: StoredSpectral | null;
   sampleIds?: readonly string[];
 }
+
+/** The whole-spectrum part of a batch's analysis as stored beside its result. */
+export type StoredSpectral = Required<Pick<BatchAnalysisDto, 'spectral' | 'spectralError'>>;
 
 /** The row's columns for a write: the headline as JSON and the sortable parts beside it. */
 export function summaryColumns(write: SummaryWrite, now: string): Partial<BatchSummaryRow> {
@@ -52,12 +58,22 @@ export function summaryColumns(write: SummaryWrite, now: string): Partial<BatchS
     analysedAt: now,
     error: write.error,
     summaryJson: write.summary ? JSON.stringify(write.summary) : null,
-    resultJson: write.result ? JSON.stringify(write.result) : null,
     qcFlagCount: write.summary?.qcFlagCount ?? null,
     qcErrorCount: write.summary?.qcErrorCount ?? null,
     bestModel: write.summary?.best ?? null,
     k: write.summary?.k ?? null,
     ...(write.sampleIds ? { sampleIds: write.sampleIds.join('\n') } : {}),
+  };
+}
+
+/** The whole stored analysis of a write (in `batch_analyses`, beside the summary row). */
+function analysisRow(batchId: number, write: SummaryWrite): BatchAnalysisRow {
+  return {
+    batchId,
+    inputsHash: write.inputsHash,
+    engineVersion: write.engineVersion,
+    resultJson: write.result ? JSON.stringify(write.result) : null,
+    spectralJson: write.spectral ? JSON.stringify(write.spectral) : null,
   };
 }
 
@@ -115,7 +131,6 @@ export class BatchSummaryStore {
         analysedAt: null,
         error: null,
         summaryJson: null,
-        resultJson: null,
         qcFlagCount: null,
         qcErrorCount: null,
         bestModel: null,
@@ -142,7 +157,17 @@ export class BatchSummaryStore {
     }
   }
 
-  /** Write a headline unless the row changed since `revision` was read; true when it was written. */
+  /** The whole stored analysis of a batch (result and whole-spectrum part) when it is of these inputs and engine. */
+  async analysisOf(batchId: number, of: { inputsHash: string; engineVersion: string }) {
+    const row = await this.dataSource.manager.findOneBy(BatchAnalysisRow, { batchId });
+    return row && row.inputsHash === of.inputsHash && row.engineVersion === of.engineVersion ? row : null;
+  }
+
+  /**
+   * Write a headline unless the row changed since `revision` was read, then its whole analysis; true when
+   * written. Two statements, no transaction (background work on SQLite's one connection must not open one
+   * beside a request's): a reader between them finds an analysis of other inputs and does not use it.
+   */
   async writeIfRevision(batchId: number, revision: number, write: SummaryWrite): Promise<boolean> {
     const res = await this.dataSource
       .createQueryBuilder()
@@ -150,7 +175,26 @@ export class BatchSummaryStore {
       .set(summaryColumns(write, new Date().toISOString()))
       .where('batch_id = :batchId AND revision = :revision', { batchId, revision })
       .execute();
-    return (res.affected ?? 0) > 0;
+    if (!res.affected) return false;
+    await this.dataSource.manager.upsert(BatchAnalysisRow, analysisRow(batchId, write), ['batchId']);
+    return true;
+  }
+
+  /** Store the whole-spectrum part beside the stored result of the same inputs and engine, if that is there. */
+  async writeSpectral(
+    batchId: number,
+    of: { inputsHash: string; engineVersion: string },
+    spectral: StoredSpectral,
+  ): Promise<void> {
+    await this.dataSource
+      .createQueryBuilder()
+      .update(BatchAnalysisRow)
+      .set({ spectralJson: JSON.stringify(spectral) })
+      .where('batch_id = :batchId AND inputs_hash = :inputsHash AND engine_version = :engineVersion', {
+        batchId,
+        ...of,
+      })
+      .execute();
   }
 
   /** Inside the approval's transaction: the record's headline is the batch's, at once. */
@@ -161,6 +205,7 @@ export class BatchSummaryStore {
       .set({ ...summaryColumns(write, new Date().toISOString()), revision: () => 'revision + 1' })
       .where('batch_id = :batchId', { batchId })
       .execute();
+    await manager.upsert(BatchAnalysisRow, analysisRow(batchId, write), ['batchId']);
   }
 
   /** Batches with no stored summary yet (made before summaries were stored). */

@@ -70,8 +70,4 @@ export class BatchSummaryRow {
 
   @Column('double precision', { nullable: true })
   k!: number | null;
-
-  /** The whole BatchResult the headline comes from, so the batch page need not analyse again. */
-  @Column('text', { name: 'result_json', nullable: true })
-  resultJson!: string | null;
 }

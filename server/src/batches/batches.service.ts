@@ -32,9 +32,9 @@ import {
 } from './analysis-extras';
 import { Batch, type BatchState } from './batch.entity';
 import { BATCH_RESULT_SCHEMA_VERSION, BatchResultRecord } from './batch-result.entity';
-import { BatchListQueryBuilder } from './batch-list';
+import { BatchListQueryBuilder, type SystemBatch } from './batch-list';
 import type { SummaryState } from './batch-summary.entity';
-import { BatchSummaryStore, inputsHash, type SummaryWrite } from './batch-summary-store';
+import { BatchSummaryStore, type StoredSpectral, inputsHash, type SummaryWrite } from './batch-summary-store';
 import type {
   ApprovalRecordDto,
   ApprovalRecordFullDto,
@@ -576,9 +576,9 @@ export class BatchesService {
     );
   }
 
-  /** Every batch with a chemical system and a temperature, with its stored headline (one query). */
-  withSystemAndTemperature(): Promise<BatchListItemDto[]> {
-    return this.listQuery.all({ withSystemAndTemperature: true }, { sort: 'createdAt', dir: 'desc' });
+  /** Every batch with a chemical system and a temperature, newest first, with its stored headline (one query). */
+  withSystemAndTemperature(): Promise<SystemBatch[]> {
+    return this.listQuery.withSystemAndTemperature();
   }
 
   async get(id: number): Promise<BatchDto> {
@@ -722,6 +722,7 @@ export class BatchesService {
       } else if (same && (row.summaryJson || row.error)) {
         // The stored headline (or failure) is of these very inputs: nothing to analyse.
         if (row.status !== 'pending' && row.source === 'analysis') return;
+        const stored = await this.store.analysisOf(id, { inputsHash: hash, engineVersion });
         write = {
           status: row.summaryJson ? 'current' : 'failed',
           source: 'analysis',
@@ -729,7 +730,8 @@ export class BatchesService {
           engineVersion,
           error: row.error,
           summary: row.summaryJson ? (JSON.parse(row.summaryJson) as BatchResultSummary) : null,
-          result: row.resultJson ? (JSON.parse(row.resultJson) as BatchResult) : null,
+          result: stored?.resultJson ? (JSON.parse(stored.resultJson) as BatchResult) : null,
+          spectral: stored?.spectralJson ? (JSON.parse(stored.spectralJson) as StoredSpectral) : null,
         };
       } else {
         const inputs = await this.loadInputs(batch);
@@ -747,6 +749,7 @@ export class BatchesService {
             error: null,
             summary: summarize(result),
             result,
+            spectral: await this.spectralToStore(inputs, settings),
           };
         } catch (err) {
           if (err instanceof AppError && err.status === 503) throw err; // busy: not the batch's fault
@@ -875,14 +878,16 @@ export class BatchesService {
       toAnalysisSettings(batch.settings, overrides),
       inputs.wellPathLengths,
     );
-    const result = hasOverrides
-      ? addWaterNotes(
-          await analyzeWith(this.engine, inputs.readings, inputs.samples, settings),
-          inputs.wellPathLengths,
-        )
+    const { result, spectral } = hasOverrides
+      ? {
+          result: addWaterNotes(
+            await analyzeWith(this.engine, inputs.readings, inputs.samples, settings),
+            inputs.wellPathLengths,
+          ),
+          spectral: await this.spectral(inputs, settings),
+        }
       : await this.currentResult(entity, inputs, settings);
     if (inputs.files.length && !hasOverrides) batch.summary = summarize(result);
-    const spectral = await this.spectral(inputs, settings);
     return {
       batch,
       ...inputs,
@@ -895,20 +900,28 @@ export class BatchesService {
   }
 
   /**
-   * The analysis of the batch as it stands: the stored one when it is of these inputs and this engine,
-   * else computed off the main thread and stored (when no newer change came in meanwhile).
+   * The analysis of the batch as it stands, with its whole-spectrum part: the stored ones when they are of
+   * these inputs and this engine, else computed off the main thread and stored (when no newer change came
+   * in meanwhile).
    */
   private async currentResult(
     batch: Batch,
     inputs: BatchInputs,
     settings: AnalysisSettings,
-  ): Promise<BatchResult> {
+  ): Promise<{ result: BatchResult; spectral: StoredSpectral }> {
     const row = await this.store.find(batch.id);
     const hash = inputsHash(batch, inputs.files);
     const engineVersion = this.engine.version.label;
-    if (row?.resultJson && row.inputsHash === hash && row.engineVersion === engineVersion)
-      return JSON.parse(row.resultJson) as BatchResult;
+    const stored = row ? await this.store.analysisOf(batch.id, { inputsHash: hash, engineVersion }) : null;
+    if (stored?.resultJson) {
+      const result = JSON.parse(stored.resultJson) as BatchResult;
+      if (stored.spectralJson) return { result, spectral: JSON.parse(stored.spectralJson) as StoredSpectral };
+      const spectral = await this.spectral(inputs, settings);
+      await this.store.writeSpectral(batch.id, { inputsHash: hash, engineVersion }, spectral);
+      return { result, spectral };
+    }
     const result = await this.computeResult(batch.id, hash, inputs, settings);
+    const spectral = await this.spectral(inputs, settings);
     if (row && inputs.files.length) {
       const write: SummaryWrite = {
         status: 'current',
@@ -918,19 +931,28 @@ export class BatchesService {
         error: null,
         summary: summarize(result),
         result,
+        spectral,
       };
       const changed = row.summaryJson !== JSON.stringify(write.summary) || row.status !== 'current';
       if ((await this.store.writeIfRevision(batch.id, row.revision, write)) && changed)
         this.events.publish('batch.updated', { id: batch.id });
     }
-    return result;
+    return { result, spectral };
+  }
+
+  /**
+   * The whole-spectrum part to store with a new result; null (worked out when the page asks) when the
+   * analysis threads cannot take it now — the stored headline does not wait for it.
+   */
+  private spectralToStore(inputs: BatchInputs, settings: AnalysisSettings): Promise<StoredSpectral | null> {
+    return this.spectral(inputs, settings).catch((err: unknown) => {
+      if (err instanceof AppError) return null;
+      throw err;
+    });
   }
 
   /** The whole-spectrum analysis when the batch has spectra (on an analysis thread); else nothing. */
-  private async spectral(
-    inputs: BatchInputs,
-    settings: AnalysisSettings,
-  ): Promise<Pick<BatchAnalysisDto, 'spectral' | 'spectralError'>> {
+  private async spectral(inputs: BatchInputs, settings: AnalysisSettings): Promise<StoredSpectral> {
     if (!hasSpectra(inputs.readings, inputs.wellPathLengths)) return { spectral: null, spectralError: null };
     try {
       const spectral = await analyzeSpectraWith(

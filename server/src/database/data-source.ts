@@ -8,6 +8,7 @@ import { SessionRow } from '../auth/session.entity';
 import { Batch } from '../batches/batch.entity';
 import { BatchResultRecord } from '../batches/batch-result.entity';
 import { BatchSummaryRow } from '../batches/batch-summary.entity';
+import { BatchAnalysisRow } from '../batches/batch-analysis.entity';
 import { BatchCommentRow } from '../comments/batch-comment.entity';
 import { BatchNotice, NotificationSettingsRow, OutboxMessage } from '../mail/mail.entity';
 import { IntakeFile } from '../ingest/intake-file.entity';
@@ -38,6 +39,7 @@ export const entities = [
   Batch,
   BatchResultRecord,
   BatchSummaryRow,
+  BatchAnalysisRow,
   OutboxMessage,
   NotificationSettingsRow,
   BatchNotice,

@@ -1,6 +1,13 @@
 import type { IngestReceipt, IntakeFileDto } from '../contracts/intake';
 import path from 'node:path';
-import { type DataSource, type EntityManager, In, IsNull, type Repository } from 'typeorm';
+import {
+  type DataSource,
+  type EntityManager,
+  In,
+  IsNull,
+  type Repository,
+  type SelectQueryBuilder,
+} from 'typeorm';
 import { AppError } from '../common/app-error';
 import { cleanFileName } from '../common/file-name';
 import { SerialRunner } from '../common/serial';
@@ -290,24 +297,33 @@ export class IngestService {
   }
 
   async list(query: IntakeQuery): Promise<{ items: IntakeFileDto[]; total: number }> {
-    const qb = this.files
-      .createQueryBuilder('f')
-      .leftJoin(InstrumentProfile, 'p', 'p.id = f.profile_id')
-      .select('f')
-      .addSelect('p.name', 'profile_name');
-    if (query.id !== undefined) qb.andWhere('f.id = :id', { id: query.id });
-    if (query.status) qb.andWhere('f.status = :status', { status: query.status });
-    if (query.profileId !== undefined)
-      qb.andWhere('f.profile_id = :profileId', { profileId: query.profileId });
-    if (query.q) {
-      qb.andWhere(
-        "(LOWER(f.original_name) LIKE :q ESCAPE '\\' OR f.sha256 LIKE :q ESCAPE '\\' OR LOWER(COALESCE(f.run_id, '')) LIKE :q ESCAPE '\\')",
-        {
-          q: `%${query.q.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`,
-        },
-      );
-    }
-    const total = await qb.getCount();
+    const filtered = (qb: SelectQueryBuilder<IntakeFile>): SelectQueryBuilder<IntakeFile> => {
+      if (query.id !== undefined) qb.andWhere('f.id = :id', { id: query.id });
+      if (query.status) qb.andWhere('f.status = :status', { status: query.status });
+      if (query.profileId !== undefined)
+        qb.andWhere('f.profile_id = :profileId', { profileId: query.profileId });
+      if (query.q) {
+        qb.andWhere(
+          "(LOWER(f.original_name) LIKE :q ESCAPE '\\' OR f.sha256 LIKE :q ESCAPE '\\' OR LOWER(COALESCE(f.run_id, '')) LIKE :q ESCAPE '\\')",
+          {
+            q: `%${query.q.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`,
+          },
+        );
+      }
+      return qb;
+    };
+    // The count joins nothing: it reads the files alone (an index of them, where one covers the filter).
+    const count = await filtered(this.files.createQueryBuilder('f'))
+      .select('COUNT(*)', 'n')
+      .getRawOne<{ n: number | string }>();
+    const total = Number(count?.n ?? 0);
+    const qb = filtered(
+      this.files
+        .createQueryBuilder('f')
+        .leftJoin(InstrumentProfile, 'p', 'p.id = f.profile_id')
+        .select('f')
+        .addSelect('p.name', 'profile_name'),
+    );
     const sortColumn = SORT_COLUMNS[query.sort ?? 'receivedAt'];
     qb.orderBy(sortColumn, query.dir === 'asc' ? 'ASC' : 'DESC').addOrderBy(
       'f.id',

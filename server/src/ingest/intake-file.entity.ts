@@ -7,6 +7,7 @@ export type { IntakeSource, IntakeStatus } from '../contracts/enums';
 /** One received file: where it came from, its archived content, and what became of it. */
 @Entity('intake_files')
 @Index('idx_intake_files_status', ['status'])
+@Index('idx_intake_files_received', ['receivedAt', 'id'])
 export class IntakeFile {
   @PrimaryGeneratedColumn('increment')
   id!: number;

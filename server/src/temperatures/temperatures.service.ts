@@ -1,6 +1,7 @@
 import { type VantHoffResult, vantHoff } from '../analysis';
 import type { SystemTemperatures, TemperaturePoint } from '../contracts/temperatures';
 import type { BatchesService } from '../batches/batches.service';
+import type { SystemBatch } from '../batches/batch-list';
 
 export type { SystemTemperatures, TemperaturePoint } from '../contracts/temperatures';
 
@@ -9,32 +10,28 @@ export class TemperaturesService {
   constructor(private readonly batches: BatchesService) {}
 
   async systems(options: { includeUnapproved?: boolean } = {}): Promise<SystemTemperatures[]> {
-    const all = await this.batches.withSystemAndTemperature();
-    const names = [...new Set(all.map((b) => b.systemName as string))].sort();
+    const bySystem = new Map<string, SystemBatch[]>();
+    for (const batch of await this.batches.withSystemAndTemperature()) {
+      const list = bySystem.get(batch.systemName);
+      if (list) list.push(batch);
+      else bySystem.set(batch.systemName, [batch]);
+    }
     const out: SystemTemperatures[] = [];
-    for (const systemName of names) {
-      const points: TemperaturePoint[] = [];
+    for (const systemName of [...bySystem.keys()].sort()) {
       // Each batch's stored headline (written when its analysis changed): no analysis here.
-      for (const batch of all.filter((b) => b.systemName === systemName)) {
-        const summary = batch.summary;
-        points.push({
-          batchId: batch.id,
-          batchName: batch.name,
-          state: batch.state,
-          temperatureC: batch.temperatureC as number,
-          model: summary?.best ?? null,
-          k: summary?.k ?? null,
-          kSe: summary?.kSe ?? null,
-          kCi95: summary?.kCi95 ?? null,
-          kText: summary?.kText ?? null,
-          excludedBecause: null,
-        });
-      }
-      const models = points.filter((p) => p.model).map((p) => p.model as string);
-      const model =
-        models.sort(
-          (a, b) => models.filter((m) => m === b).length - models.filter((m) => m === a).length,
-        )[0] ?? null;
+      const points: TemperaturePoint[] = bySystem.get(systemName)!.map((batch) => ({
+        batchId: batch.id,
+        batchName: batch.name,
+        state: batch.state,
+        temperatureC: batch.temperatureC,
+        model: batch.summary?.best ?? null,
+        k: batch.summary?.k ?? null,
+        kSe: batch.summary?.kSe ?? null,
+        kCi95: batch.summary?.kCi95 ?? null,
+        kText: batch.summary?.kText ?? null,
+        excludedBecause: null,
+      }));
+      const model = mostFrequent(points.flatMap((p) => (p.model ? [p.model] : [])));
       for (const p of points) {
         if (!options.includeUnapproved && p.state !== 'approved') p.excludedBecause = 'not approved yet';
         else if (p.k === null) p.excludedBecause = p.kText ? `K ${p.kText}` : 'no K from this batch';
@@ -61,4 +58,13 @@ export class TemperaturesService {
     }
     return out;
   }
+}
+
+/** The value found most often; on a tie, the one found first. Null for none. */
+function mostFrequent(values: readonly string[]): string | null {
+  const counts = new Map<string, number>();
+  for (const v of values) counts.set(v, (counts.get(v) ?? 0) + 1);
+  let best: string | null = null;
+  for (const [v, n] of counts) if (best === null || n > counts.get(best)!) best = v;
+  return best;
 }

@@ -101,10 +101,13 @@ export function testQuery<T = any>(
   return dataSource.query(text, [...params]) as Promise<T>;
 }
 
+// Read through globalThis: benchmarks load this module outside jest, where describe and it do not exist.
 /** Tests of the SQLite file itself (pages, PRAGMAs, triggers, file backups): skipped on the PostgreSQL pass. */
-export const sqliteOnly = TEST_ON_POSTGRES ? describe.skip : describe;
+export const sqliteOnly = (
+  TEST_ON_POSTGRES ? globalThis.describe?.skip : globalThis.describe
+) as typeof describe;
 /** One test of SQLite itself (a trigger written in its dialect): skipped on the PostgreSQL pass. */
-export const itSqliteOnly = TEST_ON_POSTGRES ? it.skip : it;
+export const itSqliteOnly = (TEST_ON_POSTGRES ? globalThis.it?.skip : globalThis.it) as typeof it;
 
 /**
  * A real app on a real SQLite file in a temporary folder (on the PostgreSQL pass, a fresh schema), seeded with the demo people. The demo people

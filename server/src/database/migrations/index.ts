@@ -8,6 +8,7 @@ import { WebhooksBranchWebhooks1764800000000 } from './1764800000000-webhooks';
 import { Watchers1764900000000 } from './1764900000000-watchers';
 import { BatchSummaries1765000000000 } from './1765000000000-batch-summaries';
 import { BatchComments1765030000000 } from './1765030000000-batch-comments';
+import { YearsOfBatches1765100000000 } from './1765100000000-years-of-batches';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -21,4 +22,5 @@ export const migrations = [
   Watchers1764900000000,
   BatchSummaries1765000000000,
   BatchComments1765030000000,
+  YearsOfBatches1765100000000,
 ];
