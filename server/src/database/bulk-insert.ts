@@ -6,14 +6,17 @@ const SQLITE_CHUNK_ROWS = 500;
 /** PostgreSQL takes at most 65,535 bound parameters per statement. */
 const POSTGRES_MAX_PARAMETERS = 65_535;
 
-/** Prepared INSERTs of the app's SQLite connection, by SQL text: compiling a 500-row INSERT costs ~1 ms. */
+/**
+ * Prepared INSERTs of the app's SQLite connection, by table, columns and row count: compiling a 500-row
+ * INSERT costs ~1 ms, and so does writing out its SQL text.
+ */
 const prepared = new WeakMap<Database.Database, Map<string, Database.Statement>>();
 
-function statement(db: Database.Database, sql: string): Database.Statement {
+function statement(db: Database.Database, key: string, sql: () => string): Database.Statement {
   let cache = prepared.get(db);
   if (!cache) prepared.set(db, (cache = new Map()));
-  let found = cache.get(sql);
-  if (!found) cache.set(sql, (found = db.prepare(sql)));
+  let found = cache.get(key);
+  if (!found) cache.set(key, (found = db.prepare(sql())));
   return found;
 }
 
@@ -51,8 +54,11 @@ export async function bulkInsert(
   const escape = (name: string) => driver.escape(name);
   if (driver.options.type === 'better-sqlite3') {
     const db = (driver as unknown as { databaseConnection: Database.Database }).databaseConnection;
-    const chunk = statement(db, insertSql(escape, table, columns, SQLITE_CHUNK_ROWS, false));
-    const single = statement(db, insertSql(escape, table, columns, 1, false));
+    const key = `${table}(${columns.join(',')})`;
+    const chunk = statement(db, `${key}×${SQLITE_CHUNK_ROWS}`, () =>
+      insertSql(escape, table, columns, SQLITE_CHUNK_ROWS, false),
+    );
+    const single = statement(db, `${key}×1`, () => insertSql(escape, table, columns, 1, false));
     let start = 0;
     for (; start + SQLITE_CHUNK_ROWS <= rows.length; start += SQLITE_CHUNK_ROWS)
       chunk.run(rows.slice(start, start + SQLITE_CHUNK_ROWS).flat());

@@ -123,7 +123,7 @@ export class IngestService {
         receivedAt: new Date().toISOString(),
         finishedAt: original ? new Date().toISOString() : null,
       });
-      await this.files.save(row);
+      await this.files.insert(row); // fills in row.id
       return row;
     });
     this.events.publish('file.received', {
