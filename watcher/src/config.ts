@@ -47,7 +47,7 @@ const configSchema = z
       .trim()
       .min(1, 'is required'),
     settleMs: z.number().int().min(50).max(600_000).default(1500),
-    maxConcurrentUploads: z.number().int().min(1).max(16).default(2),
+    maxConcurrentUploads: z.number().int().min(1).max(16).default(4),
     retryInitialMs: positiveMs(600_000).default(500),
     retryMaxMs: positiveMs(3_600_000).default(30_000),
     requestTimeoutMs: positiveMs(3_600_000).default(120_000),

@@ -68,6 +68,8 @@ interface Task {
 
 /** How long to wait before retrying after a local failure (disk, permissions) on one file. */
 const LOCAL_RETRY_MS = 30_000;
+/** Files being finished at once (a status request and a local move each), beside the uploads. */
+const MAX_CONCURRENT_FINISHING = 4;
 const RETRY_AFTER_CAP_MS = 10 * 60_000;
 const RESERVED: readonly string[] = RESERVED_FOLDERS;
 
@@ -84,6 +86,8 @@ class Watcher extends EventEmitter<WatcherEvents> implements DropFolderWatcher {
   private state: 'new' | 'running' | 'stopping' | 'stopped' = 'new';
 
   private readonly inFlight = new Map<string, Task>();
+  /** Tasks of `inFlight` that are uploading now (the rest are finishing). */
+  private uploading = 0;
   /** Per entry: attempts so far and the earliest time of the next one (entry-specific back-off). */
   private readonly entryRetry = new Map<string, { attempts: number; notBefore: number }>();
   /** Server unreachable / overloaded: every upload waits. */
@@ -488,7 +492,11 @@ at: ${new Date().toISOString()}
 
   // ── spool → server ─────────────────────────────────────────────────────────────────────────────
 
-  /** Start as many due tasks as the upload limit allows, and wake up when the next one falls due. */
+  /**
+   * Start as many due tasks as the limits allow, and wake up when the next one falls due. Uploads and
+   * finishing (asking the server for a file's final state, moving the original) have limits of their
+   * own, so files waiting to be finished never hold up the uploads of new ones.
+   */
   private pump(): void {
     if (this.state !== 'running') return;
     clearTimeout(this.pumpTimer);
@@ -496,8 +504,11 @@ at: ${new Date().toISOString()}
     const now = Date.now();
     let wakeAt = Infinity;
     for (const entry of this.spool.entries()) {
-      if (this.inFlight.size >= this.config.maxConcurrentUploads) break;
+      const uploadsFull = this.uploading >= this.config.maxConcurrentUploads;
+      const finishingFull = this.inFlight.size - this.uploading >= MAX_CONCURRENT_FINISHING;
+      if (uploadsFull && finishingFull) break;
       if (this.inFlight.has(entry.id)) continue;
+      if (entry.outcome ? finishingFull : uploadsFull) continue;
       let dueAt = this.entryRetry.get(entry.id)?.notBefore ?? 0;
       if (!entry.outcome) {
         if (!this.senderFor(entry.folder)) continue;
@@ -514,9 +525,21 @@ at: ${new Date().toISOString()}
 
   private startTask(entry: SpoolEntry): void {
     const controller = new AbortController();
+    let holdsUploadSlot = !entry.outcome;
+    if (holdsUploadSlot) this.uploading++;
+    const freeUploadSlot = () => {
+      if (!holdsUploadSlot) return;
+      holdsUploadSlot = false;
+      this.uploading--;
+    };
     const promise = (async () => {
       try {
-        if (!entry.outcome) await this.send(entry, controller.signal);
+        if (!entry.outcome) {
+          await this.send(entry, controller.signal);
+          // The next upload starts while this file is finished.
+          freeUploadSlot();
+          this.pump();
+        }
         // Finishing is local and quick: done even while stopping, so an acknowledged file is not sent twice.
         let later = false;
         if (entry.outcome) {
@@ -538,6 +561,7 @@ at: ${new Date().toISOString()}
             `it stays in the spool, next try in ${Math.round(LOCAL_RETRY_MS / 1000)} s`,
         );
       } finally {
+        freeUploadSlot();
         this.inFlight.delete(entry.id);
         this.pump();
       }

@@ -1,12 +1,48 @@
+import type Database from 'better-sqlite3';
 import type { EntityManager } from 'typeorm';
 
-/** Rows per statement: 8 columns × 500 stays far below SQLite's and PostgreSQL's bound-parameter limits. */
-const CHUNK_ROWS = 500;
+/** Rows per statement on SQLite: 8 columns × 500 stays far below its bound-parameter limit (32,766). */
+const SQLITE_CHUNK_ROWS = 500;
+/** PostgreSQL takes at most 65,535 bound parameters per statement. */
+const POSTGRES_MAX_PARAMETERS = 65_535;
 
 /**
- * Insert many rows with multi-row parameterised INSERTs inside the caller's transaction.
- * Measured on a 1,152-row plate: about 10× faster than TypeORM's insert query builder, which spends
- * its time mapping every value through entity metadata. Placeholders follow the driver (`?` or `$n`).
+ * Prepared INSERTs of the app's SQLite connection, by table, columns and row count: compiling a 500-row
+ * INSERT costs ~1 ms, and so does writing out its SQL text.
+ */
+const prepared = new WeakMap<Database.Database, Map<string, Database.Statement>>();
+
+function statement(db: Database.Database, key: string, sql: () => string): Database.Statement {
+  let cache = prepared.get(db);
+  if (!cache) prepared.set(db, (cache = new Map()));
+  let found = cache.get(key);
+  if (!found) cache.set(key, (found = db.prepare(sql())));
+  return found;
+}
+
+function insertSql(
+  escape: (name: string) => string,
+  table: string,
+  columns: readonly string[],
+  rowCount: number,
+  numbered: boolean,
+): string {
+  let n = 0;
+  const tuples = Array.from(
+    { length: rowCount },
+    () => `(${columns.map(() => (numbered ? `$${++n}` : '?')).join(', ')})`,
+  );
+  return `INSERT INTO ${escape(table)} (${columns.map(escape).join(', ')}) VALUES ${tuples.join(', ')}`;
+}
+
+/**
+ * Insert many rows inside the caller's transaction with multi-row parameterised INSERTs.
+ * SQLite: straight on the app's one better-sqlite3 connection (the connection the transaction is open
+ * on), with statements prepared once: 500-row chunks, and the rest one row at a time. This skips
+ * TypeORM's per-call statement preparation and its promise per statement. PostgreSQL: as few statements
+ * as the parameter limit allows (a 1,152-reading plate is one round trip).
+ * Measured on a 1,152-row plate: about 10× faster than TypeORM's insert query builder, which spends its
+ * time mapping every value through entity metadata.
  */
 export async function bulkInsert(
   manager: EntityManager,
@@ -14,13 +50,25 @@ export async function bulkInsert(
   columns: readonly string[],
   rows: readonly (readonly unknown[])[],
 ): Promise<void> {
-  const numbered = manager.connection.driver.options.type === 'postgres';
-  const escape = (name: string) => manager.connection.driver.escape(name);
-  const head = `INSERT INTO ${escape(table)} (${columns.map(escape).join(', ')}) VALUES `;
-  for (let start = 0; start < rows.length; start += CHUNK_ROWS) {
-    const chunk = rows.slice(start, start + CHUNK_ROWS);
-    let n = 0;
-    const tuples = chunk.map(() => `(${columns.map(() => (numbered ? `$${++n}` : '?')).join(', ')})`);
-    await manager.query(head + tuples.join(', '), chunk.flat());
+  const driver = manager.connection.driver;
+  const escape = (name: string) => driver.escape(name);
+  if (driver.options.type === 'better-sqlite3') {
+    const db = (driver as unknown as { databaseConnection: Database.Database }).databaseConnection;
+    const key = `${table}(${columns.join(',')})`;
+    const chunk = statement(db, `${key}×${SQLITE_CHUNK_ROWS}`, () =>
+      insertSql(escape, table, columns, SQLITE_CHUNK_ROWS, false),
+    );
+    const single = statement(db, `${key}×1`, () => insertSql(escape, table, columns, 1, false));
+    let start = 0;
+    for (; start + SQLITE_CHUNK_ROWS <= rows.length; start += SQLITE_CHUNK_ROWS)
+      chunk.run(rows.slice(start, start + SQLITE_CHUNK_ROWS).flat());
+    for (; start < rows.length; start++) single.run(rows[start] as unknown[]);
+    return;
+  }
+  const numbered = driver.options.type === 'postgres';
+  const perStatement = Math.max(1, Math.floor(POSTGRES_MAX_PARAMETERS / columns.length));
+  for (let start = 0; start < rows.length; start += perStatement) {
+    const part = rows.slice(start, start + perStatement);
+    await manager.query(insertSql(escape, table, columns, part.length, numbered), part.flat());
   }
 }

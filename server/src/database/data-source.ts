@@ -22,6 +22,7 @@ import { WebhookDelivery } from '../webhooks/webhook-delivery.entity';
 import { Webhook } from '../webhooks/webhook.entity';
 import { assertDatabaseFileNotEmpty, assertQuickCheckPasses, openFailure } from './integrity';
 import { migrations } from './migrations';
+import { serialiseSqliteTransactions } from './sqlite-transactions';
 import { InstrumentPresence, WatcherCredential } from '../watchers/watcher-credential.entity';
 
 export const entities = [
@@ -106,5 +107,6 @@ export async function openDatabase(config: Pick<AppConfig, 'database'>): Promise
     if (schema) await dataSource.query(`CREATE SCHEMA IF NOT EXISTS ${dataSource.driver.escape(schema)}`);
   }
   await dataSource.runMigrations({ transaction: 'each' });
+  if (config.database.type === 'sqlite') serialiseSqliteTransactions(dataSource);
   return dataSource;
 }

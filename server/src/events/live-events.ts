@@ -121,16 +121,16 @@ export function attachLiveEvents(
   });
 
   const unsubscribe = deps.events.subscribe((event) => {
-    // One serialisation per role, not per socket.
-    const texts = new Map<Role, string | null>();
+    // One serialisation and one UTF-8 encoding per role, not per socket; sent as text frames.
+    const texts = new Map<Role, Buffer | null>();
     for (const [client, who] of listeners) {
       if (client.readyState !== WebSocket.OPEN) continue;
       if (!texts.has(who.role)) {
         const seen = eventForRole(who.role, event);
-        texts.set(who.role, seen ? JSON.stringify(seen) : null);
+        texts.set(who.role, seen ? Buffer.from(JSON.stringify(seen)) : null);
       }
       const text = texts.get(who.role);
-      if (text) client.send(text);
+      if (text) client.send(text, { binary: false });
     }
   });
   const stopAccess = deps.events.onAccessChange((change) => {

@@ -5,6 +5,7 @@ import {
   type EntityManager,
   In,
   IsNull,
+  Not,
   type Repository,
   type SelectQueryBuilder,
 } from 'typeorm';
@@ -130,7 +131,7 @@ export class IngestService {
         receivedAt: new Date().toISOString(),
         finishedAt: original ? new Date().toISOString() : null,
       });
-      await this.files.save(row);
+      await this.files.insert(row); // fills in row.id
       return row;
     });
     this.events.publish('file.received', {
@@ -200,17 +201,14 @@ export class IngestService {
       runIdFromFileName(profile.fileNamePattern, file.originalName) ?? parsed.metadata.runId ?? null;
 
     const readings = parsed.readings;
-    const batchId = await this.dataSource.transaction(async (manager) => {
-      if (readings) {
-        await manager.delete(ReadingRow, { intakeFileId: file.id });
-        const rows = Array.from({ length: readings.count }, (_, i) => [file.id, ...rowValues(readings, i)]);
-        await bulkInsert(manager, 'readings', ['intake_file_id', ...READING_COLUMNS], rows);
-      }
+    const stored = await this.dataSource.transaction(async (manager) => {
       const batch = await this.matchBatch(manager, profile.id, runId);
-      await manager.update(
-        IntakeFile,
-        { id: file.id },
-        {
+      // The final status first, and only while the file has none: a second run of the same file (a job
+      // retried after its first run committed) changes nothing and stores nothing.
+      const claimed = await manager
+        .createQueryBuilder()
+        .update(IntakeFile)
+        .set({
           status: batch ? 'stored' : 'unassigned',
           batchId: batch,
           readingCount: parsed.readingCount,
@@ -218,11 +216,23 @@ export class IngestService {
           warnings: parsed.warnings.length ? JSON.stringify(parsed.warnings) : null,
           error: null,
           finishedAt: new Date().toISOString(),
-        },
-      );
+        })
+        .where({ id: file.id, status: Not(In(FINAL)) })
+        .execute();
+      if (claimed.affected !== 1) return null;
+      if (readings) {
+        await manager.delete(ReadingRow, { intakeFileId: file.id });
+        const rows = Array.from({ length: readings.count }, (_, i) => [file.id, ...rowValues(readings, i)]);
+        await bulkInsert(manager, 'readings', ['intake_file_id', ...READING_COLUMNS], rows);
+      }
       if (batch) await this.batchHooks?.stored(manager, batch);
-      return batch;
+      return { batchId: batch };
     });
+    if (!stored) {
+      const now = await this.files.findOneBy({ id: file.id });
+      return now?.status ?? 'quarantined';
+    }
+    const { batchId } = stored;
     this.events.publish('file.stored', {
       id: file.id,
       profileId: profile.id,

@@ -9,14 +9,24 @@ import type { Reading, SampleDefinition } from '../analysis/types';
 import { AppError } from '../common/app-error';
 import { ParseError } from '../parsers/parse-error';
 import type { ParseRulesInput } from '../parsers/parse-rules';
-import { MAX_MONTE_CARLO_DRAWS, MAX_QUEUED_TASKS, WORKER_STORE_MIN_READINGS } from './limits';
+import {
+  IN_THREAD_PARSE_MAX_BYTES,
+  MAX_MONTE_CARLO_DRAWS,
+  MAX_QUEUED_TASKS,
+  WORKER_STORE_MIN_READINGS,
+} from './limits';
 import { closeConnections, handleTask, type ParseOutcome, type StoreTarget, type WorkerTask } from './tasks';
 
 export type { ReadingColumns } from './reading-columns';
 export { fromColumns, READING_COLUMNS, rowValues } from './reading-columns';
 export type { StoreTarget } from './tasks';
 
-export { MAX_MONTE_CARLO_DRAWS, MAX_QUEUED_TASKS, WORKER_STORE_MIN_READINGS } from './limits';
+export {
+  IN_THREAD_PARSE_MAX_BYTES,
+  MAX_MONTE_CARLO_DRAWS,
+  MAX_QUEUED_TASKS,
+  WORKER_STORE_MIN_READINGS,
+} from './limits';
 
 /**
  * Parsing and analysis off the main thread, so that one big file or one heavy analysis never holds up
@@ -96,7 +106,7 @@ function pool(name: PoolName): Piscina {
 }
 
 async function run<T>(task: WorkerTask): Promise<T> {
-  if (options.inThreadForTests) return (await handleTask(task)) as T;
+  if (options.inThreadForTests || isSmallParse(task)) return (await handleTask(task)) as T;
   try {
     return (await pool(task.kind === 'parse' ? 'files' : 'analyses').run(task)) as T;
   } catch (err) {
@@ -105,6 +115,11 @@ async function run<T>(task: WorkerTask): Promise<T> {
     }
     throw err;
   }
+}
+
+/** A file small enough to parse on the calling thread (IN_THREAD_PARSE_MAX_BYTES). */
+function isSmallParse(task: WorkerTask): boolean {
+  return task.kind === 'parse' && task.content.byteLength < IN_THREAD_PARSE_MAX_BYTES;
 }
 
 /** `analyzeBatch` on a worker thread, with Monte Carlo draws capped at MAX_MONTE_CARLO_DRAWS. */
@@ -136,7 +151,8 @@ export function runSpectra(
 export type ParsedFile = Extract<ParseOutcome, { ok: true }>;
 
 /**
- * `parseInstrumentFile` on a worker thread; readings come back as columns. With `store`, a file of
+ * `parseInstrumentFile` on a worker thread (files under IN_THREAD_PARSE_MAX_BYTES: on this thread);
+ * readings come back as columns. With `store`, a file of
  * WORKER_STORE_MIN_READINGS or more readings is written to the database by the worker
  * (`storedByWorker`, `readings` null). A bad file throws the same ParseError as in-thread parsing.
  */

@@ -25,7 +25,7 @@ describe('watcher configuration', () => {
       dropDir: path.join(dir, 'drop'),
       spoolDir: path.join(dir, 'spool'),
       settleMs: 1500,
-      maxConcurrentUploads: 2,
+      maxConcurrentUploads: 4,
       retryInitialMs: 500,
       retryMaxMs: 30_000,
     });

@@ -71,4 +71,29 @@ describe('storing is all-or-nothing and happens once', () => {
     });
     expect(await readingCount(t, res.body.id)).toBe(96);
   });
+
+  it('when two runs of the same file overlap then it is stored and announced once', async () => {
+    const res = await send(longTableCsv(103), 'RUN-0103.csv');
+    await settled(t, res.body.id);
+    // As if the job had been picked up twice before either finished (a retry racing the first run).
+    await testQuery(t.dataSource, "UPDATE intake_files SET status = 'parsing' WHERE id = ?", [res.body.id]);
+    const announced: unknown[] = [];
+    const stop = t.events.subscribe((event) => {
+      if (event.type === 'file.stored' && event.data.id === res.body.id) announced.push(event);
+    });
+    try {
+      const job = {
+        id: 'twice',
+        name: 'parse-and-store',
+        data: { intakeFileId: res.body.id },
+        attemptsMade: 0,
+      };
+      const statuses = await Promise.all([t.services.ingest.process(job), t.services.ingest.process(job)]);
+      expect(statuses).toEqual(['unassigned', 'unassigned']);
+    } finally {
+      stop();
+    }
+    expect(announced).toHaveLength(1);
+    expect(await readingCount(t, res.body.id)).toBe(96);
+  });
 });

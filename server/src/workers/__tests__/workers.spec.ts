@@ -12,6 +12,7 @@ import {
   closeWorkers,
   configureWorkers,
   fromColumns,
+  IN_THREAD_PARSE_MAX_BYTES,
   MAX_MONTE_CARLO_DRAWS,
   parseFile,
   runAnalysis,
@@ -52,21 +53,35 @@ describe('worker threads (parse and analysis off the main thread)', () => {
 
   it('when a file is parsed on a worker then the readings are the same as parsed in-thread', async () => {
     configureWorkers({ threads: 2, inThreadForTests: false });
-    const content = fs.readFileSync(path.join(SAMPLES, 'readings.csv'));
-    const direct = await parseInstrumentFile(content, 'readings.csv', { plateFormat: 'cuvette' });
-    const viaWorker = await parseFile(content, 'readings.csv', { plateFormat: 'cuvette' });
+    // Over IN_THREAD_PARSE_MAX_BYTES, so it goes to the worker thread.
+    const content = Buffer.from(largeLongTable(60));
+    expect(content.length).toBeGreaterThanOrEqual(IN_THREAD_PARSE_MAX_BYTES);
+    const direct = await parseInstrumentFile(content, 'large.csv', {});
+    const viaWorker = await parseFile(content, 'large.csv', {});
     expect(viaWorker.readingCount).toBe(direct.readings.length);
     expect(fromColumns(viaWorker.readings!)).toEqual(direct.readings);
     expect(viaWorker.metadata).toEqual(direct.metadata);
   });
 
+  it('when a small file is parsed then it is read on the calling thread with the same readings', async () => {
+    configureWorkers({ threads: 2, inThreadForTests: false });
+    const content = fs.readFileSync(path.join(SAMPLES, 'readings.csv'));
+    expect(content.length).toBeLessThan(IN_THREAD_PARSE_MAX_BYTES);
+    const direct = await parseInstrumentFile(content, 'readings.csv', { plateFormat: 'cuvette' });
+    const parsed = await parseFile(content, 'readings.csv', { plateFormat: 'cuvette' });
+    expect(fromColumns(parsed.readings!)).toEqual(direct.readings);
+    expect(parsed.metadata).toEqual(direct.metadata);
+  });
+
   it('when a file is bad then the worker gives the same ParseError as in-thread parsing', async () => {
-    const bad = Buffer.from('position,wavelength_nm,absorbance\nA1,450,0,12\n');
+    // A large file whose last line holds one cell too many.
+    const bad = Buffer.from(`${largeLongTable(60)}A1,450,0,12\n`);
+    expect(bad.length).toBeGreaterThanOrEqual(IN_THREAD_PARSE_MAX_BYTES);
     const direct = await parseInstrumentFile(bad, 'bad.csv', {}).catch((e: unknown) => e);
     const viaWorker = await parseFile(bad, 'bad.csv', {}).catch((e: unknown) => e);
     expect(viaWorker).toBeInstanceOf(ParseError);
     expect((viaWorker as ParseError).message).toBe((direct as ParseError).message);
-    expect((viaWorker as ParseError).line).toBe(2);
+    expect((viaWorker as ParseError).line).toBe(60 * 96 + 2);
   });
 
   it('when an analysis runs on a worker then its result equals the in-thread analysis', async () => {
