@@ -44,6 +44,9 @@ export interface ReceivedFile {
 export type { IngestReceipt, IntakeFileDto } from '../contracts/intake';
 
 const FINAL: readonly IntakeStatus[] = ['stored', 'duplicate', 'quarantined', 'unassigned'];
+const OPEN: readonly IntakeStatus[] = ['queued', 'parsing'];
+/** The storing transaction found the file final: another job stored it first. */
+const STORED_ELSEWHERE = Symbol('stored elsewhere');
 
 /** A display name from whatever the sender called the file: last path segment, printable, bounded. */
 export function displayName(name: string | undefined): string {
@@ -168,8 +171,14 @@ export class IngestService {
   async process(job: Job<IngestJobData>): Promise<IntakeStatus> {
     const file = await this.files.findOneBy({ id: job.data.intakeFileId });
     if (!file) return 'quarantined';
-    if (FINAL.includes(file.status)) return file.status; // already done before a restart: do not store twice
-    await this.files.update({ id: file.id }, { status: 'parsing' });
+    if (FINAL.includes(file.status)) return this.alreadyFinal(file.id); // do not store twice
+    const started = await this.files
+      .createQueryBuilder()
+      .update(IntakeFile)
+      .set({ status: 'parsing' })
+      .where('id = :id AND status IN (:...open)', { id: file.id, open: OPEN })
+      .execute();
+    if (!started.affected) return this.alreadyFinal(file.id); // finished by another job meanwhile
 
     const profile = file.profileId
       ? await this.dataSource.getRepository(InstrumentProfile).findOneBy({ id: file.profileId })
@@ -194,6 +203,15 @@ export class IngestService {
 
     const readings = parsed.readings;
     const batchId = await this.dataSource.transaction(async (manager) => {
+      // The final-status check, inside the storing transaction: with several workers (or processes) on one
+      // file, the first claim holds the row until its commit; the others then find the file final.
+      const claimed = await manager
+        .createQueryBuilder()
+        .update(IntakeFile)
+        .set({ status: 'parsing' })
+        .where('id = :id AND status IN (:...open)', { id: file.id, open: OPEN })
+        .execute();
+      if (!claimed.affected) return STORED_ELSEWHERE;
       if (readings) {
         await manager.delete(ReadingRow, { intakeFileId: file.id });
         const rows = Array.from({ length: readings.count }, (_, i) => [file.id, ...rowValues(readings, i)]);
@@ -216,19 +234,50 @@ export class IngestService {
       if (batch) await this.batchHooks?.stored(manager, batch);
       return batch;
     });
-    this.events.publish('file.stored', {
+    // The job that stored it tells the live pages; this one only reports the outcome.
+    if (batchId === STORED_ELSEWHERE)
+      return (await this.files.findOneBy({ id: file.id }))?.status ?? 'quarantined';
+    return this.afterStore({
       id: file.id,
       profileId: profile.id,
       readingCount: parsed.readingCount,
       runId,
       batchId,
-      status: batchId ? 'stored' : 'unassigned',
     });
-    if (batchId) {
-      this.events.publish('batch.updated', { id: batchId });
-      this.batchHooks?.committed(batchId);
+  }
+
+  /** After the storing commit: tell the live pages and let the batch work out its new headline. */
+  private afterStore(stored: {
+    id: number;
+    profileId: number | null;
+    readingCount: number;
+    runId: string | null;
+    batchId: number | null;
+  }): IntakeStatus {
+    const status = stored.batchId ? 'stored' : 'unassigned';
+    this.events.publish('file.stored', { ...stored, status });
+    if (stored.batchId) {
+      this.events.publish('batch.updated', { id: stored.batchId });
+      this.batchHooks?.committed(stored.batchId);
     }
-    return batchId ? 'stored' : 'unassigned';
+    return status;
+  }
+
+  /**
+   * A job for a file that is already final stores nothing. A stored file's after-commit work is done
+   * again: the process that stored it may have died between its commit and its events.
+   */
+  private async alreadyFinal(id: number): Promise<IntakeStatus> {
+    const now = await this.files.findOneBy({ id });
+    if (!now) return 'quarantined';
+    if (now.status !== 'stored' && now.status !== 'unassigned') return now.status;
+    return this.afterStore({
+      id: now.id,
+      profileId: now.profileId,
+      readingCount: now.readingCount,
+      runId: now.runId,
+      batchId: now.batchId,
+    });
   }
 
   /** A job that kept failing (an I/O or database fault, not a bad file): keep the file, say so, allow a re-queue. */

@@ -71,4 +71,28 @@ describe('storing is all-or-nothing and happens once', () => {
     });
     expect(await readingCount(t, res.body.id)).toBe(96);
   });
+
+  it('when two workers take the same file at once then its readings are stored once', async () => {
+    const res = await send(longTableCsv(103), 'RUN-0103.csv');
+    const id: number = res.body.id;
+    await settled(t, id);
+    // As before any job ran; then two jobs for it side by side (a take-over from a stuck worker, or the
+    // file queued twice), each in its own transaction (on PostgreSQL, two connections of the pool).
+    await testQuery(t.dataSource, 'DELETE FROM readings WHERE intake_file_id = ?', [id]);
+    await testQuery(
+      t.dataSource,
+      "UPDATE intake_files SET status = 'queued', finished_at = NULL WHERE id = ?",
+      [id],
+    );
+    const job = (n: number) => ({
+      id: `race-${n}`,
+      name: 'parse-and-store',
+      data: { intakeFileId: id },
+      attemptsMade: 0,
+    });
+    const outcomes = await Promise.all([1, 2, 3].map((n) => t.services.ingest.process(job(n))));
+    expect(outcomes).toEqual(['unassigned', 'unassigned', 'unassigned']);
+    expect(await readingCount(t, id)).toBe(96);
+    expect((await t.services.ingest.getDto(id)).status).toBe('unassigned');
+  });
 });
