@@ -43,13 +43,7 @@ function connectionOf(redis: RedisConfig): RedisOptions {
 }
 
 function toJob<T>(job: BullJob<T>): Job<T> {
-  return {
-    id: String(job.id),
-    name: job.name,
-    data: job.data,
-    // A try cut short by a dead worker counts too (BullMQ counts it as started, not made).
-    attemptsMade: Math.max(job.attemptsMade, job.attemptsStarted ?? 0),
-  };
+  return { id: String(job.id), name: job.name, data: job.data, attemptsMade: job.attemptsMade };
 }
 
 /**
@@ -131,7 +125,13 @@ export class BullJobWorker<T> extends EventEmitter implements JobWorker<T> {
       // No job: one that stalled too often was failed and already removed; nothing is left to mark.
       if (!job) this.emit('error', error);
       // finishedOn is set only when the job has no try left; a retry is not a failure yet.
-      else if (job.finishedOn) this.emit('failed', toJob(job), error);
+      // A try cut short by a dead worker counts too (BullMQ counts it as started, not made).
+      else if (job.finishedOn)
+        this.emit(
+          'failed',
+          { ...toJob(job), attemptsMade: Math.max(job.attemptsMade, job.attemptsStarted) },
+          error,
+        );
     });
     this.worker.on('error', (error) => this.emit('error', error));
     this.worker.on('drained', () => this.emit('drained'));

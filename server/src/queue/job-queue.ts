@@ -27,6 +27,7 @@ export interface WorkerEvents<T> {
   completed: [job: Job<T>, result: unknown];
   failed: [job: Job<T>, error: Error];
   error: [error: Error];
+  /** Nothing is left waiting to be taken (the database queue: and nothing runs; BullMQ: jobs may still run). */
   drained: [];
 }
 
