@@ -92,7 +92,31 @@ describe('storing is all-or-nothing and happens once', () => {
       data: { intakeFileId: id },
       attemptsMade: 0,
     });
-    const runs = await Promise.allSettled([1, 2, 3].map((n) => t.services.ingest.process(job(n))));
+    // PostgreSQL: hold the readings table until all three wait at their storing transactions, so that
+    // they surely meet there (SQLite has one connection: the transactions take turns anyway).
+    const onPostgres = t.dataSource.options.type === 'postgres';
+    const holder = t.dataSource.createQueryRunner();
+    if (onPostgres) {
+      await holder.startTransaction();
+      await holder.query('LOCK TABLE readings IN SHARE MODE');
+    }
+    const racing = Promise.allSettled([1, 2, 3].map((n) => t.services.ingest.process(job(n))));
+    if (onPostgres) {
+      const waiting = async () =>
+        Number(
+          (
+            await testQuery(
+              t.dataSource,
+              "SELECT COUNT(*) AS n FROM pg_locks WHERE NOT granted AND (relation = 'readings'::regclass OR locktype IN ('transactionid', 'tuple'))",
+            )
+          )[0].n,
+        );
+      const deadline = Date.now() + 20_000;
+      while ((await waiting()) < 3 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 20));
+      await holder.commitTransaction();
+    }
+    await holder.release();
+    const runs = await racing;
     // A try may fail outright (SQLite: one connection, one transaction at a time); the queue runs it again.
     const outcomes = await Promise.all(
       runs.map((run, i) => (run.status === 'fulfilled' ? run.value : t.services.ingest.process(job(i + 1)))),
