@@ -37,11 +37,13 @@ const nodeTransform = {
 
 const POSTGRES_URL = process.env.EQUILIGHT_TEST_POSTGRES_URL || 'postgres://postgres@127.0.0.1:5432/test';
 
-/** Does a PostgreSQL server answer at the pass's address (a TCP connection within 2 s)? */
-function postgresAnswers() {
-  const { hostname, port } = new URL(POSTGRES_URL);
+const REDIS_URL = process.env.EQUILIGHT_TEST_REDIS_URL || 'redis://127.0.0.1:6379';
+
+/** Does a server answer at this address (a TCP connection within 2 s)? */
+function answers(url, defaultPort) {
+  const { hostname, port } = new URL(url);
   return new Promise((resolve) => {
-    const socket = net.connect({ host: hostname, port: Number(port || 5432) });
+    const socket = net.connect({ host: hostname, port: Number(port || defaultPort) });
     const done = (ok) => {
       socket.destroy();
       resolve(ok);
@@ -78,11 +80,12 @@ async function postgresPass() {
     console.log('[jest] PostgreSQL pass skipped: EQUILIGHT_TEST_POSTGRES=off');
     return null;
   }
-  if (!(await postgresAnswers())) {
+  if (!(await answers(POSTGRES_URL, 5432))) {
     const why = `no PostgreSQL answers at ${POSTGRES_URL.replace(/\/\/[^@]*@/, '//')}`;
     if (required)
       throw new Error(`The PostgreSQL pass is required (EQUILIGHT_REQUIRE_POSTGRES=1) but ${why}.`);
     console.log(`[jest] PostgreSQL pass skipped: ${why} (EQUILIGHT_REQUIRE_POSTGRES=1 makes this a failure)`);
+    process.env.EQUILIGHT_TEST_POSTGRES = 'off';
     return null;
   }
   return {
@@ -133,7 +136,26 @@ const projects = [
   },
 ];
 
+/**
+ * The tests on Redis (server/src/testing/redis.ts `describeWithRedis`) run when a Redis server answers at
+ * EQUILIGHT_TEST_REDIS_URL (default redis://127.0.0.1:6379); otherwise they are skipped with one line
+ * saying why, or, with EQUILIGHT_REQUIRE_REDIS=1 (set by .ci/run), the run fails. The answer reaches the
+ * test files through EQUILIGHT_TEST_REDIS (on/off).
+ */
+async function redisTests() {
+  const required = process.env.EQUILIGHT_REQUIRE_REDIS === '1';
+  if (await answers(REDIS_URL, 6379)) {
+    process.env.EQUILIGHT_TEST_REDIS = 'on';
+    return;
+  }
+  const why = `no Redis answers at ${REDIS_URL.replace(/\/\/[^@]*@/, '//')}`;
+  if (required) throw new Error(`The Redis tests are required (EQUILIGHT_REQUIRE_REDIS=1) but ${why}.`);
+  console.log(`[jest] Redis tests skipped: ${why} (EQUILIGHT_REQUIRE_REDIS=1 makes this a failure)`);
+  process.env.EQUILIGHT_TEST_REDIS = 'off';
+}
+
 module.exports = async () => {
+  await redisTests();
   const pg = await postgresPass();
   // 30 s a test or hook, not jest's 5 s: on a loaded 2-core machine starting a test app alone took over 15 s.
   return {

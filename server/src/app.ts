@@ -33,7 +33,11 @@ import { manifestsRouter } from './manifests/manifests.router';
 import { ReportsService } from './reports/reports.service';
 import { reportsRouter } from './reports/reports.router';
 import { ManifestsService } from './manifests/manifests.service';
-import { SqliteJobQueue, SqliteJobWorker } from './queue/sqlite-queue';
+import type { JobWorker } from './queue/job-queue';
+import { createQueues, type Queues } from './queue/queues';
+import { RedisEventBus } from './events/redis-event-bus';
+import { closeRedis, openRedis } from './redis/redis-connection';
+import { inProcessCounts, redisRateLimitStores } from './redis/rate-limit-stores';
 import { buildOpenApiDocument } from './openapi/openapi-document';
 import { overviewRouter } from './overview/overview.router';
 import { OverviewService } from './overview/overview.service';
@@ -76,7 +80,9 @@ export interface EquilightApp {
   mail: MailModule;
   /** Outbound webhooks: receivers, delivery log, and their own queue. */
   webhooks: WebhooksModule;
-  worker: SqliteJobWorker<IngestJobData>;
+  worker: JobWorker<IngestJobData>;
+  /** Where the ingest and webhooks queues live (QUEUE_URL). */
+  queues: Queues;
   /** /api/health: touches the database; keeps what the start checks found. */
   health: HealthService;
   /** Start background work: resume queued jobs left by a previous run, fill in missing batch summaries. */
@@ -92,12 +98,17 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   const audit = new AuditService(dataSource);
   const users = new UsersService(dataSource, store, audit, config.passwordHashRounds);
   const passport = createPassport(users);
-  const events = new EventBus();
+  // With Redis (REDIS_URL, or QUEUE_URL on Redis): live events and sign-in limits span every process.
+  const redis = config.redis ? openRedis(config.redis, 'commands', log) : null;
+  const events = redis && config.redis ? new RedisEventBus(redis, config.redis, log) : new EventBus();
+  const rateLimitStores =
+    redis && config.redis ? redisRateLimitStores(redis, config.redis.prefix) : inProcessCounts;
   // Sign-out, deactivation and role changes end live connections (events/live-events.ts).
   store.on('ended', (sessionId: string) => events.publishAccessChange({ kind: 'session-ended', sessionId }));
   users.onAccessChange((userId) => events.publishAccessChange({ kind: 'person-changed', userId }));
   const instruments = new InstrumentsService(dataSource, audit);
-  const queue = new SqliteJobQueue<IngestJobData>('ingest', dataSource);
+  const queues = createQueues(config.queue, dataSource);
+  const queue = queues.queue<IngestJobData>('ingest');
   const archive = createArchive(config.archive);
   const ingest = new IngestService(dataSource, archive, queue, events);
   const health = new HealthService(dataSource, archive);
@@ -108,7 +119,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     fourEyesApproval: config.fourEyesApproval,
     log,
   });
-  const mail = createMailModule({ config, dataSource, users, batches, events, log });
+  const mail = createMailModule({ config, dataSource, users, batches, events, log, rateLimitStores });
   const comments = new CommentsService(dataSource, audit, events);
   const reports = new ReportsService(batches, audit, comments);
   const watchers = new WatchersService(dataSource, instruments, audit, mail.mail, {
@@ -124,13 +135,14 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     ingest,
     events,
     batchMailer: mail.batchMailer,
+    queues,
     log,
   });
   ingest.useBatchMatcher((manager, profileId, runId) => batches.attachStoredFile(manager, profileId, runId), {
     stored: (manager, batchId) => batches.fileStored(manager, batchId),
     committed: (batchId) => batches.fileCommitted(batchId),
   });
-  const worker = new SqliteJobWorker(queue, (job) => ingest.process(job), { concurrency: 2 });
+  const worker = queues.worker(queue, (job) => ingest.process(job), { concurrency: 2 });
   worker.on('failed', (job, err) => {
     log(`Ingest job ${job.id} failed after ${job.attemptsMade} tries`, err);
     void ingest.markFailed(job, err).catch((e: unknown) => log('Could not mark a failed ingest job', e));
@@ -190,7 +202,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     res.json(openApi);
   });
   api.use(sessionParser, passport.initialize(), passport.session());
-  api.use('/auth', authRouter(passport, users, config.loginRateLimit, csrf.issue));
+  api.use('/auth', authRouter(passport, users, config.loginRateLimit, csrf.issue, rateLimitStores));
   api.use('/users', usersRouter(users, config.publicUrl));
   api.use('/instruments', instrumentsRouter(instruments, config.uploadMaxBytes));
   api.use('/ingest', ingestRouter(ingest, instruments, config.uploadMaxBytes, watchers));
@@ -225,8 +237,10 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     mail,
     webhooks,
     worker,
+    queues,
     health,
     async start() {
+      await events.start();
       for (const problem of await health.checkAtStart()) log(`Start check: ${problem}`);
       await mail.start();
       await webhooks.start();
@@ -246,6 +260,8 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
       await webhooks.close();
       store.close();
       archive.close();
+      await events.close();
+      if (redis) await closeRedis(redis);
     },
   };
 }

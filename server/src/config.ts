@@ -88,6 +88,15 @@ const envSchema = z.object({
   WEBHOOK_RETRY_BASE_SECONDS: z.coerce.number().positive().max(3600).default(30),
   INSTRUMENT_SILENT_MINUTES: z.coerce.number().positive().max(10080).default(10),
   ARCHIVE_URL: z.string().trim().optional(),
+  /** Unset: the job queue lives in the database (one process). redis://…: BullMQ on that Redis. */
+  QUEUE_URL: z.string().trim().optional(),
+  /** The first part of every Redis key and channel name Equilight uses (queues, events, sign-in limits). */
+  QUEUE_PREFIX: z
+    .string()
+    .regex(/^[A-Za-z0-9_.-]{1,40}$/, 'must be 1–40 letters, digits, ".", "_" or "-"')
+    .default('equilight'),
+  /** Redis for live events across processes and shared sign-in limits; default QUEUE_URL when that is Redis. */
+  REDIS_URL: z.string().trim().optional(),
   ARCHIVE_S3_ENDPOINT: z
     .string()
     .url()
@@ -145,6 +154,37 @@ function archiveConfigOf(e: z.infer<typeof envSchema>, dataDir: string): Archive
   };
 }
 
+const REDIS_SCHEME = /^rediss?:\/\/[^/]/;
+
+/**
+ * QUEUE_URL and REDIS_URL: the queue's home (the database, or BullMQ on Redis) and the Redis that carries
+ * live events and sign-in limits between processes. Returns both, or the sentence that says what is wrong.
+ */
+function redisConfigOf(
+  e: z.infer<typeof envSchema>,
+): { queue: QueueConfig; redis: RedisConfig | null } | string {
+  const problems: string[] = [];
+  if (e.QUEUE_URL && !REDIS_SCHEME.test(e.QUEUE_URL))
+    problems.push(
+      `QUEUE_URL: "${redactUrl(e.QUEUE_URL)}" is not a queue Equilight knows; give redis://host:port[/db] (or rediss:// for TLS), or leave it unset for the queue in the database`,
+    );
+  if (e.REDIS_URL && !REDIS_SCHEME.test(e.REDIS_URL))
+    problems.push(`REDIS_URL: must start with redis:// or rediss:// (got "${redactUrl(e.REDIS_URL)}")`);
+  if (problems.length) return problems.join('\n  ');
+  const prefix = e.QUEUE_PREFIX;
+  const queue: QueueConfig = e.QUEUE_URL ? { type: 'redis', url: e.QUEUE_URL, prefix } : { type: 'database' };
+  const redisUrl = e.REDIS_URL ?? e.QUEUE_URL;
+  return { queue, redis: redisUrl ? { url: redisUrl, prefix } : null };
+}
+
+/** A URL as it may appear in a message: without its password. */
+export function redactUrl(url: string): string {
+  return url.replace(
+    /\/\/([^@/]*)@/,
+    (_m, auth: string) => `//${auth.includes(':') ? `${auth.split(':')[0]}:***` : auth}@`,
+  );
+}
+
 export type DatabaseConfig =
   { type: 'sqlite'; file: string } | { type: 'postgres'; url: string; schema?: string };
 
@@ -178,6 +218,19 @@ export interface AppConfig {
   instrumentSilentMs: number;
   /** Where raw files are archived (ARCHIVE_URL): a local folder or S3-compatible storage. */
   archive: ArchiveConfig;
+  /** Where the ingest and webhooks queues live (QUEUE_URL): the app's database, or BullMQ on Redis. */
+  queue: QueueConfig;
+  /** Redis for live events across processes and shared sign-in limits (REDIS_URL); null: in-process only. */
+  redis: RedisConfig | null;
+}
+
+export type QueueConfig = { type: 'database' } | ({ type: 'redis' } & RedisConfig);
+
+export interface RedisConfig {
+  /** redis://[user:password@]host:port[/db] or rediss://… (TLS). Never logged with its password. */
+  url: string;
+  /** First part of every key and channel (QUEUE_PREFIX), so several installations or tests share one Redis. */
+  prefix: string;
 }
 
 export type ArchiveConfig = { type: 'local'; root: string } | ({ type: 's3' } & S3ArchiveConfig);
@@ -244,6 +297,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
   }
   const archive = archiveConfigOf(e, dataDir);
   if (typeof archive === 'string') throw new ConfigError(`Invalid configuration:\n  ${archive}`);
+  const redisSetup = redisConfigOf(e);
+  if (typeof redisSetup === 'string') throw new ConfigError(`Invalid configuration:\n  ${redisSetup}`);
   if (e.NODE_ENV === 'production' && !e.SESSION_SECRET) {
     throw new ConfigError('Invalid configuration:\n  SESSION_SECRET: required when NODE_ENV=production');
   }
@@ -280,5 +335,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
     },
     instrumentSilentMs: Math.round(e.INSTRUMENT_SILENT_MINUTES * 60_000),
     archive,
+    ...redisSetup,
   };
 }

@@ -14,6 +14,8 @@ async function main(): Promise<void> {
   const dataSource = await openDatabase(config);
   const equilight = createApp({ config, dataSource });
   console.log(`Raw-file archive: ${describeArchive(config.archive)}`);
+  console.log(`Job queue: ${equilight.queues.describe()}`);
+  console.log(`Live events and sign-in limits: ${equilight.events.describe()}`);
   if (config.seedDemo && (await seedDemoPeople(equilight.services.users, config.demoPassword))) {
     console.log('Seeded demo people (admin@, manager@, scientist@equilight.test) with the demo password.');
   }

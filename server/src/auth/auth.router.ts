@@ -8,6 +8,7 @@ import { emailKeyOf } from '../contracts/email-address';
 import { type User, toPublicUser } from '../users/user.entity';
 import type { UsersService } from '../users/users.service';
 import { loginSchema, setPasswordSchema } from '../contracts/auth';
+import { inProcessCounts, type RateLimitStores } from '../redis/rate-limit-stores';
 
 function authenticate(passport: PassportStatic, req: Request): Promise<User> {
   return new Promise((resolve, reject) => {
@@ -26,9 +27,13 @@ export function authRouter(
   limits: { max: number; windowMs: number },
   /** Issue the XSRF token for the session now in force: sign-in and sign-out change the session. */
   newXsrfToken: (res: Response, sessionId: string) => void,
+  /** Where the counts live: this process, or Redis shared by every server process. */
+  stores: RateLimitStores = inProcessCounts,
 ): Router {
   const router = Router();
+  const store = stores('login');
   const loginLimiter = rateLimit({
+    ...(store ? { store } : {}),
     windowMs: limits.windowMs,
     limit: limits.max,
     standardHeaders: 'draft-7',

@@ -52,6 +52,9 @@ export interface ReceivedFile {
 export type { IngestReceipt, IntakeFileDto } from '../contracts/intake';
 
 const FINAL: readonly IntakeStatus[] = ['stored', 'duplicate', 'quarantined', 'unassigned'];
+const OPEN: readonly IntakeStatus[] = ['queued', 'parsing'];
+/** Thrown inside the storing transaction when another job stored the file first: rolls back this one's work. */
+class StoredElsewhere extends Error {}
 
 /** A display name from whatever the sender called the file: last path segment, printable, bounded. */
 export function displayName(name: string | undefined): string {
@@ -176,8 +179,14 @@ export class IngestService {
   async process(job: Job<IngestJobData>): Promise<IntakeStatus> {
     const file = await this.files.findOneBy({ id: job.data.intakeFileId });
     if (!file) return 'quarantined';
-    if (FINAL.includes(file.status)) return file.status; // already done before a restart: do not store twice
-    await this.files.update({ id: file.id }, { status: 'parsing' });
+    if (FINAL.includes(file.status)) return this.alreadyFinal(file.id); // do not store twice
+    const started = await this.files
+      .createQueryBuilder()
+      .update(IntakeFile)
+      .set({ status: 'parsing' })
+      .where('id = :id AND status IN (:...open)', { id: file.id, open: OPEN })
+      .execute();
+    if (!started.affected) return this.alreadyFinal(file.id); // finished by another job meanwhile
 
     const profile = file.profileId
       ? await this.dataSource.getRepository(InstrumentProfile).findOneBy({ id: file.profileId })
@@ -201,51 +210,81 @@ export class IngestService {
       runIdFromFileName(profile.fileNamePattern, file.originalName) ?? parsed.metadata.runId ?? null;
 
     const readings = parsed.readings;
-    const stored = await this.dataSource.transaction(async (manager) => {
-      const batch = await this.matchBatch(manager, profile.id, runId);
-      // The final status first, and only while the file has none: a second run of the same file (a job
-      // retried after its first run committed) changes nothing and stores nothing.
-      const claimed = await manager
-        .createQueryBuilder()
-        .update(IntakeFile)
-        .set({
-          status: batch ? 'stored' : 'unassigned',
-          batchId: batch,
-          readingCount: parsed.readingCount,
-          runId: runId ? runId.slice(0, 120) : null,
-          warnings: parsed.warnings.length ? JSON.stringify(parsed.warnings) : null,
-          error: null,
-          finishedAt: new Date().toISOString(),
-        })
-        .where({ id: file.id, status: Not(In(FINAL)) })
-        .execute();
-      if (claimed.affected !== 1) return null;
-      if (readings) {
-        await manager.delete(ReadingRow, { intakeFileId: file.id });
-        const rows = Array.from({ length: readings.count }, (_, i) => [file.id, ...rowValues(readings, i)]);
-        await bulkInsert(manager, 'readings', ['intake_file_id', ...READING_COLUMNS], rows);
-      }
-      if (batch) await this.batchHooks?.stored(manager, batch);
-      return { batchId: batch };
-    });
-    if (!stored) {
-      const now = await this.files.findOneBy({ id: file.id });
-      return now?.status ?? 'quarantined';
-    }
-    const { batchId } = stored;
-    this.events.publish('file.stored', {
+    const stored = await this.dataSource
+      .transaction(async (manager) => {
+        const batch = await this.matchBatch(manager, profile.id, runId);
+        // The final status first, and only while the file has none: a second run of the same file (a job
+        // retried after its first run committed) changes nothing and stores nothing.
+        const claimed = await manager
+          .createQueryBuilder()
+          .update(IntakeFile)
+          .set({
+            status: batch ? 'stored' : 'unassigned',
+            batchId: batch,
+            readingCount: parsed.readingCount,
+            runId: runId ? runId.slice(0, 120) : null,
+            warnings: parsed.warnings.length ? JSON.stringify(parsed.warnings) : null,
+            error: null,
+            finishedAt: new Date().toISOString(),
+          })
+          .where({ id: file.id, status: Not(In(FINAL)) })
+          .execute();
+        if (claimed.affected !== 1) throw new StoredElsewhere();
+        if (readings) {
+          await manager.delete(ReadingRow, { intakeFileId: file.id });
+          const rows = Array.from({ length: readings.count }, (_, i) => [file.id, ...rowValues(readings, i)]);
+          await bulkInsert(manager, 'readings', ['intake_file_id', ...READING_COLUMNS], rows);
+        }
+        if (batch) await this.batchHooks?.stored(manager, batch);
+        return { batchId: batch };
+      })
+      .catch((err: unknown) => {
+        if (err instanceof StoredElsewhere) return null;
+        throw err;
+      });
+    // Another job stored it first: that job tells the live pages; this one only reports the outcome.
+    if (!stored) return (await this.files.findOneBy({ id: file.id }))?.status ?? 'quarantined';
+    return this.afterStore({
       id: file.id,
       profileId: profile.id,
       readingCount: parsed.readingCount,
       runId,
-      batchId,
-      status: batchId ? 'stored' : 'unassigned',
+      batchId: stored.batchId,
     });
-    if (batchId) {
-      this.events.publish('batch.updated', { id: batchId });
-      this.batchHooks?.committed(batchId);
+  }
+
+  /** After the storing commit: tell the live pages and let the batch work out its new headline. */
+  private afterStore(stored: {
+    id: number;
+    profileId: number | null;
+    readingCount: number;
+    runId: string | null;
+    batchId: number | null;
+  }): IntakeStatus {
+    const status = stored.batchId ? 'stored' : 'unassigned';
+    this.events.publish('file.stored', { ...stored, status });
+    if (stored.batchId) {
+      this.events.publish('batch.updated', { id: stored.batchId });
+      this.batchHooks?.committed(stored.batchId);
     }
-    return batchId ? 'stored' : 'unassigned';
+    return status;
+  }
+
+  /**
+   * A job for a file that is already final stores nothing. A stored file's after-commit work is done
+   * again: the process that stored it may have died between its commit and its events.
+   */
+  private async alreadyFinal(id: number): Promise<IntakeStatus> {
+    const now = await this.files.findOneBy({ id });
+    if (!now) return 'quarantined';
+    if (now.status !== 'stored' && now.status !== 'unassigned') return now.status;
+    return this.afterStore({
+      id: now.id,
+      profileId: now.profileId,
+      readingCount: now.readingCount,
+      runId: now.runId,
+      batchId: now.batchId,
+    });
   }
 
   /** A job that kept failing (an I/O or database fault, not a bad file): keep the file, say so, allow a re-queue. */

@@ -38,7 +38,8 @@ export class BatchMailer {
   ) {}
 
   start(events: EventBus): void {
-    this.unsubscribe ??= events.subscribe((event) => this.onEvent(event));
+    // This process's events only: with several processes, each event is then handled once in all.
+    this.unsubscribe ??= events.subscribeLocal((event) => this.onEvent(event));
   }
 
   /** Also tell `listener` once per batch when its QC-failure notice is claimed (the same trigger as the mail). */

@@ -12,6 +12,7 @@ import { MailService, type MailServiceOptions } from './mail.service';
 import { NotificationsService } from './notifications.service';
 import { OutboxService } from './outbox.service';
 import { SmtpStandIn } from './smtp-stand-in';
+import type { RateLimitStores } from '../redis/rate-limit-stores';
 
 export interface MailModule {
   mail: MailService;
@@ -37,6 +38,8 @@ export function createMailModule(deps: {
   events: EventBus;
   log: (message: string, err?: unknown) => void;
   options?: MailServiceOptions;
+  /** Where the reset-request limits count (shared through Redis by several processes). */
+  rateLimitStores?: RateLimitStores;
 }): MailModule {
   const { config, dataSource, users, batches, events, log } = deps;
   const mail = new MailService(
@@ -68,7 +71,7 @@ export function createMailModule(deps: {
       );
       api.use(
         '/auth/forgot-password',
-        forgotPasswordRouter(users, mail, config.publicUrl, config.loginRateLimit, log),
+        forgotPasswordRouter(users, mail, config.publicUrl, config.loginRateLimit, log, deps.rateLimitStores),
       );
     },
     async start() {

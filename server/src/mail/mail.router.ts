@@ -11,6 +11,7 @@ import type { MailService } from './mail.service';
 import { forgotPasswordSchema, notificationSettingsSchema, outboxQuerySchema } from '../contracts/mail';
 import type { NotificationsService } from './notifications.service';
 import type { OutboxService } from './outbox.service';
+import { inProcessCounts, type RateLimitStores } from '../redis/rate-limit-stores';
 
 /** `/api/me/notifications`: every signed-in person reads and changes their own mail settings. */
 export function notificationsRouter(notifications: NotificationsService): Router {
@@ -62,12 +63,16 @@ export function forgotPasswordRouter(
   publicUrl: string,
   limits: { max: number; windowMs: number },
   log: (message: string, err?: unknown) => void,
+  stores: RateLimitStores = inProcessCounts,
 ): Router {
   const router = Router();
+  const accountStore = stores('reset-account');
+  const addressStore = stores('reset-address');
   const tooMany = (): AppError =>
     new AppError('too_many_attempts', 429, 'Too many reset requests; wait a few minutes and try again.');
   // Per address and e-mail: a few tries for one account; per address: a bound on sweeping many accounts.
   const perAccount = rateLimit({
+    ...(accountStore ? { store: accountStore } : {}),
     windowMs: limits.windowMs,
     limit: Math.max(1, Math.min(5, limits.max)),
     standardHeaders: 'draft-7',
@@ -76,6 +81,7 @@ export function forgotPasswordRouter(
     handler: (_req, _res, next) => next(tooMany()),
   });
   const perAddress = rateLimit({
+    ...(addressStore ? { store: addressStore } : {}),
     windowMs: limits.windowMs,
     limit: limits.max,
     standardHeaders: 'draft-7',

@@ -1,10 +1,19 @@
 import { EventEmitter } from 'node:events';
 import PQueue from 'p-queue';
 import { type DataSource, In, type Repository } from 'typeorm';
-import type { Job, JobQueue, JobWorker, JobsOptions, Processor, WorkerEvents } from './job-queue';
+import {
+  type Job,
+  type JobQueue,
+  type JobWorker,
+  type JobsOptions,
+  type Processor,
+  RETRY_BASE_MS,
+  type WorkerEvents,
+  type WorkerOptions,
+} from './job-queue';
 import { JobRow } from './job.entity';
 
-const RETRY_BASE_MS = 500;
+export type { WorkerOptions } from './job-queue';
 
 function toJob<T>(row: JobRow): Job<T> {
   return {
@@ -66,12 +75,6 @@ export class SqliteJobQueue<T> implements JobQueue<T> {
   async close(): Promise<void> {
     this.added.removeAllListeners();
   }
-}
-
-export interface WorkerOptions {
-  concurrency?: number;
-  /** The wait before the second try, doubled before each further one (default 500 ms). */
-  retryBaseMs?: number;
 }
 
 /** Runs a queue's jobs with bounded concurrency; emits `completed`, `failed`, `error`, `drained`. */

@@ -25,7 +25,8 @@ export class WebhookEvents {
 
   start(events: EventBus, batchMailer: BatchMailer): void {
     if (this.unsubscribe) return;
-    this.unsubscribe = events.subscribe((event) => this.onEvent(event));
+    // This process's events only: with several processes, each event is then recorded once in all.
+    this.unsubscribe = events.subscribeLocal((event) => this.onEvent(event));
     if (!this.qcHooked) batchMailer.onQcFailure((notice) => this.qcFailed(notice));
     this.qcHooked = true;
   }

@@ -5,7 +5,8 @@ import type { AppConfig } from '../config';
 import type { EventBus } from '../events/event-bus';
 import type { IngestService } from '../ingest/ingest.service';
 import type { BatchMailer } from '../mail/batch-mailer';
-import { SqliteJobQueue, SqliteJobWorker } from '../queue/sqlite-queue';
+import type { JobWorker } from '../queue/job-queue';
+import type { Queues } from '../queue/queues';
 import { WebhookEvents } from './webhook-events';
 import { webhooksRouter } from './webhooks.router';
 import { type WebhookJobData, WebhooksService } from './webhooks.service';
@@ -13,7 +14,7 @@ import { type WebhookJobData, WebhooksService } from './webhooks.service';
 export interface WebhooksModule {
   service: WebhooksService;
   events: WebhookEvents;
-  worker: SqliteJobWorker<WebhookJobData>;
+  worker: JobWorker<WebhookJobData>;
   router: ReturnType<typeof webhooksRouter>;
   /** Listen to the app's events and resume deliveries left queued by a previous run. */
   start(): Promise<void>;
@@ -31,13 +32,15 @@ export function createWebhooksModule(deps: {
   ingest: IngestService;
   events: EventBus;
   batchMailer: BatchMailer;
+  /** Where the `webhooks` queue lives: the database, or Redis (QUEUE_URL). */
+  queues: Queues;
   log: (message: string, err?: unknown) => void;
 }): WebhooksModule {
   const { config, dataSource, log } = deps;
-  const queue = new SqliteJobQueue<WebhookJobData>('webhooks', dataSource);
+  const queue = deps.queues.queue<WebhookJobData>('webhooks');
   const service = new WebhooksService(dataSource, deps.audit, queue, config.webhooks, config.sessionSecret);
   const events = new WebhookEvents(service, deps.batches, deps.ingest, config.publicUrl, log);
-  const worker = new SqliteJobWorker(queue, (job) => service.process(job), {
+  const worker = deps.queues.worker(queue, (job) => service.process(job), {
     concurrency: 2,
     retryBaseMs: config.webhooks.retryBaseMs,
   });

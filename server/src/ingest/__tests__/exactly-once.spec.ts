@@ -37,6 +37,8 @@ describe('storing is all-or-nothing and happens once', () => {
         await testQuery(t.dataSource, 'DROP TRIGGER refuse_h12');
       }
     },
+    // Three tries with their waits (0.5 s, 1 s): a loaded machine needs more than jest's 5 s.
+    30_000,
   );
 
   it('when a finished job runs again (as after a restart) then nothing is stored twice', async () => {
@@ -95,5 +97,57 @@ describe('storing is all-or-nothing and happens once', () => {
     }
     expect(announced).toHaveLength(1);
     expect(await readingCount(t, res.body.id)).toBe(96);
+  });
+
+  it('when two workers take the same file at once then its readings are stored once', async () => {
+    const res = await send(longTableCsv(103), 'RUN-0103.csv');
+    const id: number = res.body.id;
+    await settled(t, id);
+    // As before any job ran; then two jobs for it side by side (a take-over from a stuck worker, or the
+    // file queued twice), each in its own transaction (on PostgreSQL, two connections of the pool).
+    await testQuery(t.dataSource, 'DELETE FROM readings WHERE intake_file_id = ?', [id]);
+    await testQuery(
+      t.dataSource,
+      "UPDATE intake_files SET status = 'queued', finished_at = NULL WHERE id = ?",
+      [id],
+    );
+    const job = (n: number) => ({
+      id: `race-${n}`,
+      name: 'parse-and-store',
+      data: { intakeFileId: id },
+      attemptsMade: 0,
+    });
+    // PostgreSQL: hold the readings table until all three wait at their storing transactions, so that
+    // they surely meet there (SQLite has one connection: the transactions take turns anyway).
+    const onPostgres = t.dataSource.options.type === 'postgres';
+    const holder = t.dataSource.createQueryRunner();
+    if (onPostgres) {
+      await holder.startTransaction();
+      await holder.query('LOCK TABLE readings IN SHARE MODE');
+    }
+    const racing = Promise.allSettled([1, 2, 3].map((n) => t.services.ingest.process(job(n))));
+    if (onPostgres) {
+      const waiting = async () =>
+        Number(
+          (
+            await testQuery(
+              t.dataSource,
+              "SELECT COUNT(*) AS n FROM pg_locks WHERE NOT granted AND (relation = 'readings'::regclass OR locktype IN ('transactionid', 'tuple'))",
+            )
+          )[0].n,
+        );
+      const deadline = Date.now() + 20_000;
+      while ((await waiting()) < 3 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 20));
+      await holder.commitTransaction();
+    }
+    await holder.release();
+    const runs = await racing;
+    // A try may fail outright (SQLite: one connection, one transaction at a time); the queue runs it again.
+    const outcomes = await Promise.all(
+      runs.map((run, i) => (run.status === 'fulfilled' ? run.value : t.services.ingest.process(job(i + 1)))),
+    );
+    expect(outcomes).toEqual(['unassigned', 'unassigned', 'unassigned']);
+    expect(await readingCount(t, id)).toBe(96);
+    expect((await t.services.ingest.getDto(id)).status).toBe('unassigned');
   });
 });

@@ -1,0 +1,45 @@
+import { Redis } from 'ioredis';
+import { type RedisConfig, redactUrl } from '../config';
+
+/**
+ * One connection to the Redis of REDIS_URL. It reconnects by itself; an outage is logged once when it
+ * starts and once when it ends, not on every reconnection attempt. A command waits through a few
+ * reconnection attempts and then fails, so a request that needs Redis answers with an error rather than
+ * hanging while Redis is away.
+ */
+export function openRedis(
+  redis: RedisConfig,
+  role: string,
+  log: (message: string, err?: unknown) => void,
+): Redis {
+  const connection = new Redis(redis.url, {
+    connectionName: `${redis.prefix}:${role}`,
+    maxRetriesPerRequest: 3,
+  });
+  let down = false;
+  connection.on('error', (err: unknown) => {
+    if (down) return;
+    down = true;
+    log(`Redis (${role}) at ${redactUrl(redis.url)} does not answer; retrying`, err);
+  });
+  connection.on('ready', () => {
+    if (!down) return;
+    down = false;
+    log(`Redis (${role}) at ${redactUrl(redis.url)} answers again`);
+  });
+  return connection;
+}
+
+/** Close a connection: politely when Redis answers, at once when it does not. */
+export async function closeRedis(connection: Redis): Promise<void> {
+  if (connection.status === 'end') return;
+  if (connection.status !== 'ready') {
+    connection.disconnect();
+    return;
+  }
+  try {
+    await connection.quit();
+  } catch {
+    connection.disconnect();
+  }
+}
