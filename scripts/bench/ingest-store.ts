@@ -14,7 +14,6 @@ import os from 'node:os';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { parse } from 'csv-parse/sync';
-import { Client } from 'pg';
 import type { DataSource } from 'typeorm';
 import type { DatabaseConfig } from '../../server/src/config';
 import { openDatabase } from '../../server/src/database/data-source';
@@ -112,8 +111,18 @@ function sqliteFloor(file: string): Floor {
   };
 }
 
+/** The part of `pg`'s client used here (`pg` ships no types, and @types/pg is not a dependency). */
+interface PgClient {
+  connect(): Promise<void>;
+  query(sql: string, values?: unknown[]): Promise<unknown>;
+  end(): Promise<void>;
+}
+type PgClientClass = new (config: { connectionString: string; options: string }) => PgClient;
+
 /** PostgreSQL floor: one raw `pg` transaction with one multi-row INSERT, in the bench's schema. */
 async function postgresFloor(schema: string): Promise<Floor> {
+  const pgModule: string = 'pg'; // a plain string: the untyped module is not looked up for types
+  const { Client } = (await import(pgModule)) as { Client: PgClientClass };
   const client = new Client({ connectionString: POSTGRES_URL, options: `-c search_path=${schema}` });
   await client.connect();
   await client.query(FLOOR_TABLE.replace('id INTEGER PRIMARY KEY AUTOINCREMENT', 'id SERIAL PRIMARY KEY'));

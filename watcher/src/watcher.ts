@@ -70,6 +70,8 @@ interface Task {
 const LOCAL_RETRY_MS = 30_000;
 /** Files being finished at once (a status request and a local move each), beside the uploads. */
 const MAX_CONCURRENT_FINISHING = 4;
+/** A queued file is usually parsed and stored within this time (see `firstStatusDelayMs`). */
+const FIRST_STATUS_DELAY_MS = 500;
 const RETRY_AFTER_CAP_MS = 10 * 60_000;
 const RESERVED: readonly string[] = RESERVED_FOLDERS;
 
@@ -539,6 +541,13 @@ at: ${new Date().toISOString()}
           // The next upload starts while this file is finished.
           freeUploadSlot();
           this.pump();
+          const outcome = entry.outcome as SpoolEntry['outcome'];
+          if (outcome?.kind === 'acknowledged' && !FINAL_STATES.has(outcome.status)) {
+            // Just queued: the server is parsing it now. Asking at once would only hear "queued" and
+            // cost the busy server a request; ask once it has had a moment (its outcome is in the spool).
+            this.entryRetry.set(entry.id, { attempts: 0, notBefore: Date.now() + this.firstStatusDelayMs() });
+            return;
+          }
         }
         // Finishing is local and quick: done even while stopping, so an acknowledged file is not sent twice.
         let later = false;
@@ -567,6 +576,11 @@ at: ${new Date().toISOString()}
       }
     })();
     this.inFlight.set(entry.id, { promise, controller });
+  }
+
+  /** The wait before the first question about a file the server has just queued. */
+  private firstStatusDelayMs(): number {
+    return Math.min(this.config.statusPollMs, FIRST_STATUS_DELAY_MS);
   }
 
   private async send(entry: SpoolEntry, signal: AbortSignal): Promise<void> {
