@@ -193,10 +193,7 @@ export function watcherSilentMail(name: string, s: WatcherSilence): MailContent 
     },
     {
       kind: 'list',
-      items: [
-        `Drop folder: ${s.folder}`,
-        `Last report: ${minute(s.lastSeenAt)} by ${s.watcherName}`,
-      ],
+      items: [`Drop folder: ${s.folder}`, `Last report: ${minute(s.lastSeenAt)} by ${s.watcherName}`],
     },
     {
       kind: 'p',
