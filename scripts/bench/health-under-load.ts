@@ -14,9 +14,9 @@
  */
 import { type ChildProcess, spawn } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
+import { freePort } from '../../server/src/testing/free-port';
 
 const ROOT = path.resolve(__dirname, '../..');
 const SERVER_MAIN = process.env['EQUILIGHT_BENCH_SERVER_MAIN'] ?? path.join(ROOT, 'server/dist/main.js');
@@ -57,17 +57,6 @@ function largeExport(readings: number): string {
     lines.push(`${rows[Math.floor(well / 24)]}${(well % 24) + 1},${wavelength},${absorbance.toFixed(4)}`);
   }
   return `${lines.join('\n')}\n`;
-}
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as net.AddressInfo).port;
-      srv.close(() => resolve(port));
-    });
-    srv.on('error', reject);
-  });
 }
 
 async function startServer(

@@ -14,10 +14,10 @@
  */
 import { type ChildProcess, spawn } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import WebSocket from 'ws';
+import { freePort } from '../../server/src/testing/free-port';
 
 const ROOT = path.resolve(__dirname, '../..');
 const SERVER_MAIN = process.env['EQUILIGHT_BENCH_SERVER_MAIN'] ?? path.join(ROOT, 'server/dist/main.js');
@@ -67,17 +67,6 @@ function percentile(values: number[], p: number): number {
 }
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as net.AddressInfo).port;
-      srv.close(() => resolve(port));
-    });
-    srv.on('error', reject);
-  });
-}
 
 /** A child process whose output is kept, for failure messages and for "ready" lines. */
 function startChild(script: string, env: Record<string, string>): { child: ChildProcess; log: () => string } {

@@ -1,8 +1,10 @@
 import { type ChildProcess, spawn } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import path from 'node:path';
 import { sleep } from './support';
+import { freePort } from '../../../server/src/testing/free-port';
+
+export { freePort };
 
 export const REPO_ROOT = path.resolve(__dirname, '../../..');
 /** The built server; another build can be named in EQUILIGHT_E2E_SERVER_MAIN (e.g. one made from a clean checkout). */
@@ -16,17 +18,6 @@ export function requireBuilt(): void {
     if (!fs.existsSync(file))
       throw new Error(`Build first: npm run build (${path.relative(REPO_ROOT, file)} is missing).`);
   }
-}
-
-export async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as net.AddressInfo).port;
-      srv.close(() => resolve(port));
-    });
-    srv.on('error', reject);
-  });
 }
 
 /** A child process whose output is kept for failure messages. */

@@ -1,8 +1,8 @@
 import { type ChildProcess, spawn } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
+import { freePort } from '../../../server/src/testing/free-port';
 
 export const REPO_ROOT = path.resolve(__dirname, '../../..');
 export const SCREENSHOT_DIR = path.join(REPO_ROOT, 'test-output', 'screenshots');
@@ -14,17 +14,6 @@ export interface RunningServer {
   process: ChildProcess;
   output(): string;
   stop(): Promise<void>;
-}
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as net.AddressInfo).port;
-      srv.close(() => resolve(port));
-    });
-    srv.on('error', reject);
-  });
 }
 
 /**

@@ -1,7 +1,6 @@
 import { type ChildProcess, spawn } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { type Job as BullJob, Queue } from 'bullmq';
@@ -14,6 +13,7 @@ import { longTableCsv } from '../../ingest/__tests__/ingest-helpers';
 import { seedDemoPeople } from '../../seed/demo-people';
 import { describeWithRedis, removeRedisKeys, TEST_REDIS_URL, testRedisConfig } from '../../testing/redis';
 import { UsersService } from '../../users/users.service';
+import { freePort } from '../../testing/free-port';
 
 /**
  * Two real server processes (the built server) on one PostgreSQL schema and one Redis prefix: 200 files
@@ -31,17 +31,6 @@ const WELLS = 96;
 
 /** PostgreSQL is needed too: skipped when the jest run found none (it said so), or was told to go without. */
 const describeOnBoth = process.env['EQUILIGHT_TEST_POSTGRES'] === 'off' ? describe.skip : describeWithRedis;
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = net.createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const port = (srv.address() as net.AddressInfo).port;
-      srv.close(() => resolve(port));
-    });
-    srv.on('error', reject);
-  });
-}
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
