@@ -6,7 +6,9 @@
  * 2. Page load of the demo 25 °C batch as the demo scientist, cold cache (a fresh browser context per run)
  *    and warm cache (the same context, after one visit), 3 runs each: navigation → K and the plate map on
  *    screen, bytes transferred (compressed, as on the wire), and long tasks (> 50 ms) from navigation
- *    until one second after K shows. Floor in the same run: the analysis request alone, fetched from the
+ *    until one second after K shows (each run loads the page twice in the same cache state: untraced for
+ *    these figures, traced for the tasks' CPU time, as tracing slows the page). Floor in the same run: the
+ *    analysis request alone, fetched from the
  *    signed-in page. Aims: K ≤ 800 ms warm and ≤ 1.2 s cold, ≤ 600 kB cold, no long task.
  *    The figures before the page-speed work are in web-p4-before.json and printed beside.
  * 3. A 384-well batch page in Debian's Chromium receiving 10 live events per second for 30 s (each a

@@ -132,6 +132,22 @@ describe('the batch page arrives compressed, with its icons, and analyses what-i
     expect(drawnAsLetters(await iconWidths(page))).toEqual([]);
   });
 
+  it('when the app starts, then its first script carries no schema library (zod loads beside the first request)', () => {
+    const dir = path.join(REPO_ROOT, 'dist/web/browser');
+    const html = fs.readFileSync(path.join(dir, 'index.html'), 'utf8');
+    const first = [...html.matchAll(/<script[^>]+src="([^"]+\.js)"/g)].map((m) => m[1]);
+    expect(first.length).toBeGreaterThan(0);
+    // Every zod schema object carries a `_zod` property; the library's code names it throughout.
+    const zodIn = (file: string) => fs.readFileSync(path.join(dir, file), 'utf8').includes('_zod');
+    expect(first.filter(zodIn)).toEqual([]);
+    expect(
+      fs
+        .readdirSync(dir)
+        .filter((f) => f.endsWith('.js'))
+        .some(zodIn),
+    ).toBe(true);
+  });
+
   it('when a what-if is made, then a worker computes it and K changes', async () => {
     const workers: string[] = [];
     page.on('worker', (w) => workers.push(w.url()));

@@ -1,6 +1,6 @@
 import type { RequestHandler } from 'express';
 import { AppError } from '../common/app-error';
-import { ROLES } from '../contracts/enums';
+import { ROLES } from '../contracts/roles';
 import type { Role, User } from '../users/user.entity';
 
 declare global {

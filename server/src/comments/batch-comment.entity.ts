@@ -1,6 +1,6 @@
 import { Column, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
 
-import type { Role } from '../contracts/enums';
+import type { Role } from '../contracts/roles';
 
 /**
  * A comment on a batch. Comments never change the analysis, so an approved batch takes them too.

@@ -3,7 +3,7 @@ import type { AuditService } from '../audit/audit.service';
 import { Batch } from '../batches/batch.entity';
 import { AppError } from '../common/app-error';
 import type { BatchComment } from '../contracts/comments';
-import type { Role } from '../contracts/enums';
+import type { Role } from '../contracts/roles';
 import type { EventBus } from '../events/event-bus';
 import { BatchCommentRow } from './batch-comment.entity';
 

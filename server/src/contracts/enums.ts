@@ -1,23 +1,13 @@
 import * as z from 'zod';
+import { ROLES } from './roles';
 
 /**
  * The closed word lists the API speaks, each with the words people see. Server (validation, entities),
  * web (forms, lists) and watcher take them from here.
  */
 
-/** Who a signed-in person is. */
-export const ROLES = ['admin', 'lab_manager', 'scientist'] as const;
+/** Who a signed-in person is (the words themselves are in roles.ts). */
 export const roleSchema = z.enum(ROLES);
-export type Role = z.infer<typeof roleSchema>;
-export const ROLE_LABELS: Record<Role, string> = {
-  admin: 'Administrator',
-  lab_manager: 'Lab manager',
-  scientist: 'Scientist',
-};
-/** Role lists that recur in the route table and the pages. */
-export const EVERYONE: readonly Role[] = ROLES;
-export const MANAGERS: readonly Role[] = ['admin', 'lab_manager'];
-export const ADMIN_ONLY: readonly Role[] = ['admin'];
 
 /** How positions are laid out: a plate of 96 or 384 wells, or a numbered sequence of cuvettes. */
 export const PLATE_FORMATS = ['96', '384', 'cuvette'] as const;

@@ -3,6 +3,7 @@
  * request and response schemas of every route and the route table, the settings with their
  * defaults, the enums with their labels, and the live events. Pure: zod and the analysis module only.
  */
+export * from './roles';
 export * from './enums';
 export * from './role-code';
 export * from './common';

@@ -1,4 +1,4 @@
-import { ADMIN_ONLY, EVERYONE, MANAGERS, type Role } from './enums';
+import { ADMIN_ONLY, EVERYONE, MANAGERS, type Role } from './roles';
 
 /**
  * Who may call each API operation: the one list the server's role checks (routes.ts, checked against the

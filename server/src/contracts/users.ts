@@ -1,6 +1,7 @@
 import * as z from 'zod';
 import { normaliseEmail } from './email-address';
-import { ROLES, roleSchema } from './enums';
+import { roleSchema } from './enums';
+import { ROLES } from './roles';
 
 export const emailSchema = z
   .string()

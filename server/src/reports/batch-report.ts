@@ -2,7 +2,7 @@ import { DASH, EPSILON_UNIT, formatQuantity, reportingUnitOf, roundSignificant }
 import type { AuditDto } from '../audit/audit.service';
 import type { BatchAnalysisDto } from '../batches/batches.service';
 import type { BatchComment } from '../contracts/comments';
-import { ROLE_LABELS } from '../contracts/enums';
+import { ROLE_LABELS } from '../contracts/roles';
 import { PDF, SHEETS, col, count, detail, minute, missing, right, text } from './report-cells';
 import type { BatchReport, ReportCell, ReportSection, ReportTable } from './report-model';
 import {

@@ -1,9 +1,9 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
 
-import type { Role } from '../contracts/enums';
+import type { Role } from '../contracts/roles';
 import type { PublicUser } from '../contracts/users';
 
-export { ROLES, type Role } from '../contracts/enums';
+export { ROLES, type Role } from '../contracts/roles';
 
 @Entity('users')
 export class User {

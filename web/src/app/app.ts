@@ -10,11 +10,13 @@ import { RouterOutlet } from '@angular/router';
 })
 export class App {
   constructor() {
-    // The first text field of a page asks the browser which input types it supports (an input element
-    // probed ~20 times); done here in an idle moment, it no longer lengthens that page's first render.
+    // Work that every page's first render would otherwise do, done here in idle moments: the first text
+    // field asks the browser which input types it supports (an input element probed ~20 times), and the
+    // first date shown makes the locale's date formatters.
     afterNextRender(() => {
       const idle = globalThis.requestIdleCallback ?? ((run: () => void) => setTimeout(run, 1));
       idle(() => getSupportedInputTypes());
+      idle(() => void import('./shared/format/date-format').then((m) => idle(() => m.warmDateFormats())));
     });
   }
 }

@@ -1,7 +1,13 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import { type Role, type User, isUser } from './user';
+import type { Role, User } from './user';
+
+/**
+ * The user's shape check, loaded beside the first request: it brings the schema library, which the first
+ * script would otherwise have to carry and evaluate before the app can start.
+ */
+const userCheck = () => import('./user-check').then((m) => m.isUser);
 
 /** Who is signed in. The one source of that truth in the browser. */
 @Injectable({ providedIn: 'root' })
@@ -20,7 +26,10 @@ export class AuthService {
   /** Ask the server who we are; a 401 simply means nobody. */
   async refresh(): Promise<User | null> {
     try {
-      const me = await firstValueFrom(this.http.get<unknown>('/api/auth/me'));
+      const [me, isUser] = await Promise.all([
+        firstValueFrom(this.http.get<unknown>('/api/auth/me')),
+        userCheck(),
+      ]);
       this.user.set(isUser(me) ? me : null);
     } catch {
       this.user.set(null);
@@ -29,7 +38,10 @@ export class AuthService {
   }
 
   async signIn(email: string, password: string): Promise<User> {
-    const me = await firstValueFrom(this.http.post<unknown>('/api/auth/login', { email, password }));
+    const [me, isUser] = await Promise.all([
+      firstValueFrom(this.http.post<unknown>('/api/auth/login', { email, password })),
+      userCheck(),
+    ]);
     if (!isUser(me)) throw new Error('The server answered sign-in with an unexpected shape.');
     this.user.set(me);
     return me;

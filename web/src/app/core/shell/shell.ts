@@ -14,9 +14,8 @@ import { map } from 'rxjs';
 import { AuthService } from '../auth/auth.service';
 import { LiveEventsService } from '../live/live-events.service';
 import { ROLE_LABELS } from '../auth/user';
+import { isDark, setDark } from './theme';
 import { navItemsFor } from './navigation';
-
-const DARK_KEY = 'equilight.dark';
 
 @Component({
   selector: 'eq-shell',
@@ -55,16 +54,11 @@ export class Shell {
       .pipe(map((state) => state.matches)),
     { initialValue: typeof matchMedia === 'function' && matchMedia('(max-width: 840px)').matches },
   );
-  protected readonly dark = signal(localStorage.getItem(DARK_KEY) === '1');
-
-  constructor() {
-    document.documentElement.classList.toggle('eq-dark', this.dark());
-  }
+  protected readonly dark = signal(isDark());
 
   protected toggleDark(): void {
     this.dark.update((dark) => !dark);
-    localStorage.setItem(DARK_KEY, this.dark() ? '1' : '0');
-    document.documentElement.classList.toggle('eq-dark', this.dark());
+    setDark(this.dark());
   }
 
   protected async openNotificationSettings(): Promise<void> {

@@ -59,8 +59,12 @@ export class TableScroll {
     const destroyRef = inject(DestroyRef);
     afterNextRender(() => {
       const el = this.scroller().nativeElement;
-      this.measure();
-      if (typeof ResizeObserver === 'undefined') return;
+      // Measuring here would force a layout in the middle of rendering the page; the observer's first
+      // call comes once the browser has laid the page out anyway.
+      if (typeof ResizeObserver === 'undefined') {
+        this.measure();
+        return;
+      }
       const observer = new ResizeObserver(() => this.measure());
       observer.observe(el);
       // The table itself grows and shrinks as rows and columns come and go.
