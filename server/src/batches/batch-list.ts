@@ -76,6 +76,11 @@ export class BatchListQueryBuilder {
     const qb = this.dataSource.createQueryBuilder(Batch, 'b');
     if (!countOnly || filter.q) qb.leftJoin(BatchSummaryRow, 's', 's.batch_id = b.id');
     if (!countOnly) qb.leftJoin(InstrumentProfile, 'p', 'p.id = b.profile_id');
+    return this.where(qb, filter);
+  }
+
+  /** The filter's conditions on `b` (a batch) and `s` (its summary) of any query that joins both. */
+  private where<T extends object>(qb: SelectQueryBuilder<T>, filter: BatchListFilter): SelectQueryBuilder<T> {
     if (filter.id !== undefined) qb.andWhere('b.id = :id', { id: filter.id });
     if (filter.state) qb.andWhere('b.state = :state', { state: filter.state });
     if (filter.profileId !== undefined)
@@ -110,7 +115,11 @@ export class BatchListQueryBuilder {
       .getRawOne<{ n: number | string }>();
     const total = Number(count?.n ?? 0);
     const pageSize = order.pageSize ?? 25;
-    const items = await this.rows(filter, order, { offset: (order.page ?? 0) * pageSize, limit: pageSize });
+    const items = await this.rows(filter, order, {
+      offset: (order.page ?? 0) * pageSize,
+      limit: pageSize,
+      total,
+    });
     return { items, total };
   }
 
@@ -153,12 +162,55 @@ export class BatchListQueryBuilder {
   private async rows(
     filter: BatchListFilter,
     order: { sort?: BatchListParams['sort']; dir?: 'asc' | 'desc' },
-    window?: { offset: number; limit: number },
+    window?: { offset: number; limit: number; total: number },
   ): Promise<BatchListItemDto[]> {
     const dir = order.dir === 'asc' ? 'ASC' : 'DESC';
-    const sort = SORTS[order.sort ?? 'lastActivityAt'];
+    const sortKey = order.sort ?? 'lastActivityAt';
+    const sort = SORTS[sortKey];
     const nulls = sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0';
-    const qb = this.base(filter)
+    const qb = this.rowsQuery(filter, sortKey, dir);
+    if (window && sortKey === 'lastActivityAt') {
+      // The default order reads the page's ids along the summaries' activity index (their batch_id is
+      // the tie-break the index already holds): a page costs its own rows, not a sort of every batch.
+      const ids = this.withSummary(filter)
+        .select('s.batch_id', 'id')
+        .orderBy('s.last_activity_at', dir)
+        .addOrderBy('s.batch_id', dir)
+        .offset(window.offset)
+        .limit(window.limit);
+      qb.andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`);
+      qb.setParameters({ ...qb.getParameters(), ...ids.getParameters() });
+      const items = await this.fetch(qb);
+      // Short only at the end of the list, or where it runs past the batches with a summary.
+      if (items.length === window.limit || window.offset + items.length >= window.total) return items;
+      return [...items, ...(await this.unsummarised(filter, dir, window, items.length))];
+    } else if (window) {
+      // The page's ids first, sorted on the sort key alone, so no wide column (settings, headline) of
+      // every batch goes through the sort; then those few rows in full.
+      const ids = this.filtered(filter)
+        .select('b.id', 'id')
+        .addSelect(nulls, 'sort_nulls')
+        .addSelect(sort.key, 'sort_key')
+        .orderBy('sort_nulls', 'ASC')
+        .addOrderBy('sort_key', dir)
+        .addOrderBy('b.id', dir)
+        .offset(window.offset)
+        .limit(window.limit);
+      qb.andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`);
+      qb.setParameters({ ...qb.getParameters(), ...ids.getParameters() });
+    }
+    return this.fetch(qb);
+  }
+
+  /** Every column a list item shows, in the given order (the caller narrows it to a page). */
+  private rowsQuery(
+    filter: BatchListFilter,
+    sortKey: NonNullable<BatchListParams['sort']>,
+    dir: 'ASC' | 'DESC',
+  ): SelectQueryBuilder<Batch> {
+    const sort = SORTS[sortKey];
+    const nulls = sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0';
+    return this.base(filter)
       .select('b')
       .addSelect('p.name', 'profile_name')
       .addSelect('l.name', 'layout_name')
@@ -176,23 +228,44 @@ export class BatchListQueryBuilder {
       .orderBy('sort_nulls', 'ASC')
       .addOrderBy('sort_key', dir)
       .addOrderBy('b.id', dir);
-    if (window) {
-      // The page's ids first, sorted on the sort key alone, so no wide column (settings, headline) of
-      // every batch goes through the sort; then those few rows in full.
-      const ids = this.filtered(filter)
-        .select('b.id', 'id')
-        .addSelect(nulls, 'sort_nulls')
-        .addSelect(sort.key, 'sort_key')
-        .orderBy('sort_nulls', 'ASC')
-        .addOrderBy('sort_key', dir)
-        .addOrderBy('b.id', dir)
-        .offset(window.offset)
-        .limit(window.limit);
-      qb.andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`);
-      qb.setParameters({ ...qb.getParameters(), ...ids.getParameters() });
-    }
+  }
+
+  private async fetch(qb: SelectQueryBuilder<Batch>): Promise<BatchListItemDto[]> {
     const { entities, raw } = await qb.getRawAndEntities<Record<string, unknown>>();
     return entities.map((b, i) => toListItem(b, raw[i] ?? {}));
+  }
+
+  /** The batches the filter lets through that have a stored summary. */
+  private withSummary(filter: BatchListFilter): SelectQueryBuilder<BatchSummaryRow> {
+    return this.where(
+      this.dataSource.createQueryBuilder(BatchSummaryRow, 's').innerJoin(Batch, 'b', 'b.id = s.batch_id'),
+      filter,
+    );
+  }
+
+  /**
+   * The rest of a page in the default order that runs past the batches with a stored summary: those
+   * without one (made before summaries were stored, until the start-up backfill reaches them), by id.
+   */
+  private async unsummarised(
+    filter: BatchListFilter,
+    dir: 'ASC' | 'DESC',
+    window: { offset: number; limit: number },
+    found: number,
+  ): Promise<BatchListItemDto[]> {
+    const counted = await this.withSummary(filter)
+      .select('COUNT(*)', 'n')
+      .getRawOne<{ n: number | string }>();
+    const ids = this.filtered(filter)
+      .select('b.id', 'id')
+      .andWhere('s.batch_id IS NULL')
+      .orderBy('b.id', dir)
+      .offset(Math.max(0, window.offset + found - Number(counted?.n ?? 0)))
+      .limit(window.limit - found);
+    const qb = this.rowsQuery(filter, 'lastActivityAt', dir);
+    qb.andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`);
+    qb.setParameters({ ...qb.getParameters(), ...ids.getParameters() });
+    return this.fetch(qb);
   }
 }
 

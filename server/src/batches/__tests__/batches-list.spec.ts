@@ -235,4 +235,25 @@ describe('GET /api/batches (paged, stored summaries)', () => {
     // Only the two batches with files were analysed, once each.
     expect(again.calls).toBe(2);
   });
+
+  it('when some batches have no stored summary yet then the newest-first pages hold every batch once, those last by id', async () => {
+    const full = (await page('?pageSize=100')).items.map((b) => b.id);
+    expect(full).toHaveLength(15);
+    const missing = [emptyIds[3], emptyIds[7], emptyIds[10]];
+    await t.dataSource.query(`DELETE FROM batch_summaries WHERE batch_id IN (${missing.join(', ')})`);
+    const expected = [...full.filter((id) => !missing.includes(id)), ...[...missing].sort((a, b) => b - a)];
+    for (const size of [2, 4, 5, 11, 13]) {
+      const seen: number[] = [];
+      for (let p = 0; p * size < 15; p++) {
+        const body = await page(`?pageSize=${size}&page=${p}`);
+        expect(body.total).toBe(15);
+        seen.push(...body.items.map((b) => b.id));
+      }
+      expect([size, seen]).toEqual([size, expected]);
+    }
+    const oldestFirst = (await page('?pageSize=4&page=3&dir=asc')).items.map((b) => b.id);
+    expect(oldestFirst).toEqual([...missing].sort((a, b) => a - b));
+    const pending = (await page('?pageSize=3&page=4')).items;
+    expect(pending.map((b) => b.summaryState)).toEqual(['pending', 'pending', 'pending']);
+  });
 });
