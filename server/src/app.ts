@@ -111,7 +111,11 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   const queue = queues.queue<IngestJobData>('ingest');
   const archive = createArchive(config.archive);
   const ingest = new IngestService(dataSource, archive, queue, events);
-  const health = new HealthService(dataSource, archive);
+  const health = new HealthService(
+    dataSource,
+    archive,
+    redis && config.redis ? { url: config.redis.url, ping: () => redis.ping() } : null,
+  );
   const layouts = new LayoutsService(dataSource, audit);
   const manifests = new ManifestsService(dataSource, layouts, audit);
   const batches = new BatchesService(dataSource, layouts, manifests, audit, events, {
