@@ -3,6 +3,7 @@ import { createApp } from './app';
 import { ConfigError, loadConfig } from './config';
 import { describeArchive } from './ingest/create-archive';
 import { openDatabase } from './database/data-source';
+import { exclusively } from './database/exclusive';
 import { DatabaseProblemError } from './database/integrity';
 import { attachLiveEvents } from './events/live-events';
 import { seedDemoInstruments } from './seed/demo-instruments';
@@ -16,19 +17,22 @@ async function main(): Promise<void> {
   console.log(`Raw-file archive: ${describeArchive(config.archive)}`);
   console.log(`Job queue: ${equilight.queues.describe()}`);
   console.log(`Live events and sign-in limits: ${equilight.events.describe()}`);
-  if (config.seedDemo && (await seedDemoPeople(equilight.services.users, config.demoPassword))) {
-    console.log('Seeded demo people (admin@, manager@, scientist@equilight.test) with the demo password.');
-  }
-  if (config.seedDemo) {
-    const host = config.host === '0.0.0.0' || config.host === '::' ? '127.0.0.1' : config.host;
-    const watcher = await seedDemoInstruments(equilight.services.instruments, {
-      dataDir: config.dataDir,
-      serverUrl: `http://${host}:${config.port}`,
+  // Several processes on one database seed one after another: the second finds the demo there.
+  if (config.seedDemo)
+    await exclusively(dataSource, 'demo-seed', async () => {
+      if (await seedDemoPeople(equilight.services.users, config.demoPassword))
+        console.log(
+          'Seeded demo people (admin@, manager@, scientist@equilight.test) with the demo password.',
+        );
+      const host = config.host === '0.0.0.0' || config.host === '::' ? '127.0.0.1' : config.host;
+      const watcher = await seedDemoInstruments(equilight.services.instruments, {
+        dataDir: config.dataDir,
+        serverUrl: `http://${host}:${config.port}`,
+      });
+      if (watcher) console.log(`Seeded demo instrument profiles; drop folder ${watcher.dropDir}`);
+      if (await seedDemoScenario(equilight))
+        console.log('Seeded the demo scenario (invented data): layouts, manifests, batches.');
     });
-    if (watcher) console.log(`Seeded demo instrument profiles; drop folder ${watcher.dropDir}`);
-    if (await seedDemoScenario(equilight))
-      console.log('Seeded the demo scenario (invented data): layouts, manifests, batches.');
-  }
   const server = http.createServer(equilight.app);
   const live = attachLiveEvents(server, {
     sessionParser: equilight.sessionParser,

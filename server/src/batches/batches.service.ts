@@ -16,6 +16,7 @@ import {
 } from '../analysis-engine/analysis-engine';
 import type { Actor, AuditService } from '../audit/audit.service';
 import { AppError } from '../common/app-error';
+import { exclusively } from '../database/exclusive';
 import type { EventBus } from '../events/event-bus';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { ReadingRow } from '../ingest/reading.entity';
@@ -647,7 +648,8 @@ export class BatchesService {
    * Once written, a restart finds them and analyses nothing.
    */
   startSummaryBackfill(): Promise<void> {
-    this.backfill ??= (async () => {
+    // One process at a time on a shared database: a second one then finds the summaries written.
+    this.backfill ??= exclusively(this.dataSource, 'summary-backfill', async () => {
       try {
         for (const id of await this.store.missing()) {
           if (this.closing) return;
@@ -670,9 +672,13 @@ export class BatchesService {
       } catch (err) {
         if (!this.closing) this.log('Could not fill in the stored batch summaries', err);
       }
-    })().finally(() => {
-      this.backfill = null;
-    });
+    })
+      .catch((err: unknown) => {
+        if (!this.closing) this.log('Could not fill in the stored batch summaries', err);
+      })
+      .finally(() => {
+        this.backfill = null;
+      });
     return this.backfill;
   }
 
