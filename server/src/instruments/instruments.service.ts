@@ -37,15 +37,30 @@ export function toProfileDto(profile: InstrumentProfile): ProfileDto {
 }
 
 /** The parser's rules for a profile's files. */
+/**
+ * The parsing rules a profile gives, worked out once per distinct profile settings: every stored file asks
+ * for them, and checking the stored rules against their schema cost a tenth of storing a plate. The
+ * answer is shared: callers read it and do not change it.
+ */
 export function parseRulesOf(profile: InstrumentProfile): ParseRules {
-  const rules = profileRules(profile);
-  return resolveParseRules({
-    ...rules,
-    format: profile.fileFormat,
-    plateFormat: profile.plateFormat,
-    defaultWavelengthNm: profile.defaultWavelengthNm ?? undefined,
-  });
+  const key = [profile.fileFormat, profile.plateFormat, profile.defaultWavelengthNm, profile.rulesJson].join(
+    '|',
+  );
+  let resolved = resolvedRules.get(key);
+  if (!resolved) {
+    resolved = resolveParseRules({
+      ...profileRules(profile),
+      format: profile.fileFormat,
+      plateFormat: profile.plateFormat,
+      defaultWavelengthNm: profile.defaultWavelengthNm ?? undefined,
+    });
+    // A lab has a handful of profiles; a long-running process that saw many edits starts afresh.
+    if (resolvedRules.size >= 200) resolvedRules.clear();
+    resolvedRules.set(key, resolved);
+  }
+  return resolved;
 }
+const resolvedRules = new Map<string, ParseRules>();
 
 /** The run id a profile's file-name pattern gives for a file name, if any. */
 export function runIdFromFileName(pattern: string | null, fileName: string): string | undefined {
