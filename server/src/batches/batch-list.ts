@@ -103,23 +103,37 @@ export class BatchListQueryBuilder {
   }
 
   /**
-   * One page and the total: two queries whatever the page size. The count joins nothing it does not
-   * filter on (each join is one row per batch at most, so COUNT(*) counts batches).
+   * One page and the total in two queries whatever the page size: the page's ids sorted on the sort key
+   * alone, with the count beside them (a subquery that joins nothing it does not filter on: each join is
+   * one row per batch at most, so COUNT(*) counts batches), then those few rows in full, by id. No wide
+   * column (settings, headline) of every batch goes through the sort, and the full rows are read through
+   * the primary key (PostgreSQL would otherwise join every batch before keeping the page's).
    */
   async page(
     filter: BatchListFilter,
     order: { sort?: BatchListParams['sort']; dir?: 'asc' | 'desc'; page?: number; pageSize?: number },
   ): Promise<{ items: BatchListItemDto[]; total: number }> {
-    const count = await this.filtered(filter, true)
-      .select('COUNT(*)', 'n')
-      .getRawOne<{ n: number | string }>();
-    const total = Number(count?.n ?? 0);
+    const dir = order.dir === 'asc' ? 'ASC' : 'DESC';
+    const sortKey = order.sort ?? 'lastActivityAt';
     const pageSize = order.pageSize ?? 25;
-    const items = await this.rows(filter, order, {
-      offset: (order.page ?? 0) * pageSize,
-      limit: pageSize,
-      total,
-    });
+    const window = { offset: (order.page ?? 0) * pageSize, limit: pageSize };
+    const counter = this.filtered(filter, true).select('COUNT(*)');
+    const idsQuery = this.idsQuery(filter, sortKey, dir).offset(window.offset).limit(window.limit);
+    idsQuery.addSelect(`(${counter.getQuery()})`, 'total');
+    idsQuery.setParameters({ ...idsQuery.getParameters(), ...counter.getParameters() });
+    const found = await idsQuery.getRawMany<{ id: number | string; total: number | string }>();
+    const ids = found.map((r) => Number(r.id));
+    // Past the last page (or nothing matches) there is no row to carry the count.
+    const total = found.length
+      ? Number(found[0].total)
+      : Number((await counter.select('COUNT(*)', 'n').getRawOne<{ n: number | string }>())?.n ?? 0);
+    // The default order reads only batches with a stored summary; those without one come last.
+    if (sortKey === 'lastActivityAt' && ids.length < window.limit && window.offset + ids.length < total)
+      ids.push(...(await this.unsummarisedIds(filter, dir, window, ids.length)));
+    if (!ids.length) return { items: [], total };
+    const items = await this.fetch(
+      this.rowsQuery(filter, sortKey, dir).andWhere('b.id IN (:...pageIds)', { pageIds: ids }),
+    );
     return { items, total };
   }
 
@@ -156,50 +170,34 @@ export class BatchListQueryBuilder {
 
   /** Every batch the filter lets through (one query), in the given order. */
   all(filter: BatchListFilter, order: { sort?: BatchListParams['sort']; dir?: 'asc' | 'desc' } = {}) {
-    return this.rows(filter, order);
+    const dir = order.dir === 'asc' ? 'ASC' : 'DESC';
+    return this.fetch(this.rowsQuery(filter, order.sort ?? 'lastActivityAt', dir));
   }
 
-  private async rows(
+  /**
+   * The ids in the list's order, sorted on the sort key alone. The default order (last activity) reads
+   * along the summaries' activity index (their batch_id is the tie-break the index already holds), so a
+   * page costs its own rows, not a sort of every batch; it holds only batches with a stored summary.
+   */
+  private idsQuery(
     filter: BatchListFilter,
-    order: { sort?: BatchListParams['sort']; dir?: 'asc' | 'desc' },
-    window?: { offset: number; limit: number; total: number },
-  ): Promise<BatchListItemDto[]> {
-    const dir = order.dir === 'asc' ? 'ASC' : 'DESC';
-    const sortKey = order.sort ?? 'lastActivityAt';
-    const sort = SORTS[sortKey];
-    const nulls = sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0';
-    const qb = this.rowsQuery(filter, sortKey, dir);
-    if (window && sortKey === 'lastActivityAt') {
-      // The default order reads the page's ids along the summaries' activity index (their batch_id is
-      // the tie-break the index already holds): a page costs its own rows, not a sort of every batch.
-      const ids = this.withSummary(filter)
+    sortKey: NonNullable<BatchListParams['sort']>,
+    dir: 'ASC' | 'DESC',
+  ): SelectQueryBuilder<Batch> | SelectQueryBuilder<BatchSummaryRow> {
+    if (sortKey === 'lastActivityAt')
+      return this.withSummary(filter)
         .select('s.batch_id', 'id')
         .orderBy('s.last_activity_at', dir)
-        .addOrderBy('s.batch_id', dir)
-        .offset(window.offset)
-        .limit(window.limit);
-      qb.andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`);
-      qb.setParameters({ ...qb.getParameters(), ...ids.getParameters() });
-      const items = await this.fetch(qb);
-      // Short only at the end of the list, or where it runs past the batches with a summary.
-      if (items.length === window.limit || window.offset + items.length >= window.total) return items;
-      return [...items, ...(await this.unsummarised(filter, dir, window, items.length))];
-    } else if (window) {
-      // The page's ids first, sorted on the sort key alone, so no wide column (settings, headline) of
-      // every batch goes through the sort; then those few rows in full.
-      const ids = this.filtered(filter)
-        .select('b.id', 'id')
-        .addSelect(nulls, 'sort_nulls')
-        .addSelect(sort.key, 'sort_key')
-        .orderBy('sort_nulls', 'ASC')
-        .addOrderBy('sort_key', dir)
-        .addOrderBy('b.id', dir)
-        .offset(window.offset)
-        .limit(window.limit);
-      qb.andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`);
-      qb.setParameters({ ...qb.getParameters(), ...ids.getParameters() });
-    }
-    return this.fetch(qb);
+        .addOrderBy('s.batch_id', dir);
+    const sort = SORTS[sortKey];
+    const nulls = sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0';
+    return this.filtered(filter)
+      .select('b.id', 'id')
+      .addSelect(nulls, 'sort_nulls')
+      .addSelect(sort.key, 'sort_key')
+      .orderBy('sort_nulls', 'ASC')
+      .addOrderBy('sort_key', dir)
+      .addOrderBy('b.id', dir);
   }
 
   /** Every column a list item shows, in the given order (the caller narrows it to a page). */
@@ -247,25 +245,23 @@ export class BatchListQueryBuilder {
    * The rest of a page in the default order that runs past the batches with a stored summary: those
    * without one (made before summaries were stored, until the start-up backfill reaches them), by id.
    */
-  private async unsummarised(
+  private async unsummarisedIds(
     filter: BatchListFilter,
     dir: 'ASC' | 'DESC',
     window: { offset: number; limit: number },
     found: number,
-  ): Promise<BatchListItemDto[]> {
+  ): Promise<number[]> {
     const counted = await this.withSummary(filter)
       .select('COUNT(*)', 'n')
       .getRawOne<{ n: number | string }>();
-    const ids = this.filtered(filter)
+    const rows = await this.filtered(filter)
       .select('b.id', 'id')
       .andWhere('s.batch_id IS NULL')
       .orderBy('b.id', dir)
       .offset(Math.max(0, window.offset + found - Number(counted?.n ?? 0)))
-      .limit(window.limit - found);
-    const qb = this.rowsQuery(filter, 'lastActivityAt', dir);
-    qb.andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`);
-    qb.setParameters({ ...qb.getParameters(), ...ids.getParameters() });
-    return this.fetch(qb);
+      .limit(window.limit - found)
+      .getRawMany<{ id: number | string }>();
+    return rows.map((r) => Number(r.id));
   }
 }
 
