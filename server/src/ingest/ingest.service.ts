@@ -361,17 +361,16 @@ export class IngestService {
       }
       return qb;
     };
-    // The count joins nothing: it reads the files alone (an index of them, where one covers the filter).
-    const count = await filtered(this.files.createQueryBuilder('f'))
-      .select('COUNT(*)', 'n')
-      .getRawOne<{ n: number | string }>();
-    const total = Number(count?.n ?? 0);
+    // One query: the page, with the count beside it in a subquery that joins nothing (it reads the files
+    // alone, from an index of them where one covers the filter).
+    const counter = filtered(this.files.createQueryBuilder('f')).select('COUNT(*)', 'n');
     const qb = filtered(
       this.files
         .createQueryBuilder('f')
         .leftJoin(InstrumentProfile, 'p', 'p.id = f.profile_id')
         .select('f')
-        .addSelect('p.name', 'profile_name'),
+        .addSelect('p.name', 'profile_name')
+        .addSelect(`(${counter.getQuery()})`, 'total'),
     );
     const sortColumn = SORT_COLUMNS[query.sort ?? 'receivedAt'];
     qb.orderBy(sortColumn, query.dir === 'asc' ? 'ASC' : 'DESC').addOrderBy(
@@ -380,10 +379,15 @@ export class IngestService {
     );
     const pageSize = query.pageSize ?? 25;
     qb.offset((query.page ?? 0) * pageSize).limit(pageSize);
-    const { entities, raw } = await qb.getRawAndEntities();
-    const items = entities.map((f, i) =>
-      toIntakeDto(f, (raw[i] as { profile_name?: string | null }).profile_name ?? null),
-    );
+    const { entities, raw } = await qb.getRawAndEntities<{
+      profile_name?: string | null;
+      total: number | string;
+    }>();
+    const items = entities.map((f, i) => toIntakeDto(f, raw[i]?.profile_name ?? null));
+    // Past the last page (or nothing matches) there is no row to carry the count.
+    const total = raw.length
+      ? Number(raw[0].total)
+      : Number((await counter.getRawOne<{ n: number | string }>())?.n ?? 0);
     return { items, total };
   }
 }
