@@ -63,7 +63,7 @@ describeWithRedis('webhooks on the BullMQ queue, two apps', () => {
     for (const id of fileIds) expect((await settled(one, id)).status).toBe('quarantined');
 
     const deadline = Date.now() + 60_000;
-    let deliveries: DeliveryDto[] = [];
+    let deliveries: DeliveryDto[];
     for (;;) {
       deliveries = (await one.webhooks.service.deliveries({ webhookId: hook.body.id, page: 0, pageSize: 50 }))
         .items;
