@@ -874,8 +874,7 @@ export class BatchesService {
         settings: full.analysisSettings,
         result: full.result,
         record: this.withoutResult(full),
-        spectral: null,
-        spectralError: null,
+        ...(await this.approvedSpectral(entity, inputs, full.analysisSettings)),
         ...(options.engineCheck ? { engineCheck: await this.engineCheck(full, inputs) } : {}),
         approvals: await this.recordsOf(id),
       };
@@ -944,6 +943,23 @@ export class BatchesService {
         this.events.publish('batch.updated', { id: batch.id });
     }
     return { result, spectral };
+  }
+
+  /**
+   * The whole-spectrum part beside an approved batch's record (the record holds the result at the analysed
+   * wavelength): the stored one of these inputs and engine, else worked out now and stored with them.
+   */
+  private async approvedSpectral(
+    batch: Batch,
+    inputs: BatchInputs,
+    settings: AnalysisSettings,
+  ): Promise<StoredSpectral> {
+    const version = { inputsHash: inputsHash(batch, inputs.files), engineVersion: this.engine.version.label };
+    const stored = await this.store.analysisOf(batch.id, version);
+    if (stored?.spectralJson) return JSON.parse(stored.spectralJson) as StoredSpectral;
+    const spectral = await this.spectral(inputs, settings);
+    if (stored) await this.store.writeSpectral(batch.id, version, spectral);
+    return spectral;
   }
 
   /**

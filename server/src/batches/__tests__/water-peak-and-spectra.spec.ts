@@ -182,5 +182,21 @@ describe('batch analysis: water-peak path lengths and the whole-spectrum analysi
     // The K the invented sample was generated with (scripts/make-spectral-samples.ts).
     expect(fit.kCi95[0]).toBeLessThan(2000);
     expect(fit.kCi95[1]).toBeGreaterThan(2000);
+
+    // Approved, the batch answers with its record and still shows its whole spectra.
+    const scientist = await t.agent('scientist');
+    expect((await scientist.post(`/api/batches/${batch.id}/review`)).status).toBe(200);
+    const approved = await (
+      await t.agent('lab_manager')
+    )
+      .post(`/api/batches/${batch.id}/approve`)
+      .send({ comment: 'Spectra checked.' });
+    expect(approved.status).toBe(200);
+    const after = (await scientist.get(`/api/batches/${batch.id}/analysis`)).body as Analysis & {
+      record: unknown;
+    };
+    expect(after.record).not.toBeNull();
+    expect(after.spectralError).toBeNull();
+    expect(after.spectral).toEqual(out.spectral);
   }, 120_000);
 });
