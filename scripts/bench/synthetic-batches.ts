@@ -279,6 +279,10 @@ export async function writeSyntheticBatches(
         'qc_error_count',
         'best_model',
         'k',
+        'k_se',
+        'k_ci95_low',
+        'k_ci95_high',
+        'k_text',
       ],
       plans.map((p, i) => {
         const fromRecord = p.state === 'approved' && template.record !== undefined;
@@ -302,6 +306,10 @@ export async function writeSyntheticBatches(
           s.qcErrorCount,
           s.bestModel,
           k,
+          s.kSe,
+          s.kCi95Low,
+          s.kCi95High,
+          s.kText,
         ];
       }),
     );

@@ -31,14 +31,27 @@ export function likePattern(text: string): string {
   return `%${text.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 }
 
-/** A batch of a chemical system at a temperature, with its stored headline (Temperatures). */
-export interface SystemBatch {
+/** What the van 't Hoff fit and the per-temperature groups read of a batch of a chemical system. */
+export interface SystemFitRow {
+  systemName: string;
+  temperatureC: number;
+  state: Batch['state'];
+  /** The best stoichiometry of its stored headline. */
+  model: string | null;
+  k: number | null;
+}
+
+/** A batch of a chemical system as a page of Temperatures lists it: its K headline from the stored summary. */
+export interface SystemPointRow {
   id: number;
   name: string;
   state: Batch['state'];
-  systemName: string;
   temperatureC: number;
-  summary: BatchResultSummary | null;
+  model: string | null;
+  k: number | null;
+  kSe: number | null;
+  kCi95: [number | null, number | null] | null;
+  kText: string | null;
 }
 
 /** Filters of a batches query beyond paging. */
@@ -137,33 +150,83 @@ export class BatchListQueryBuilder {
     return { items, total };
   }
 
+  /** The batches of a chemical system (or of any) with a temperature; `withSummary`: joined to their summary. */
+  private systemBatches(systemName?: string, withSummary = true): SelectQueryBuilder<Batch> {
+    const qb = this.dataSource.createQueryBuilder(Batch, 'b');
+    if (withSummary) qb.leftJoin(BatchSummaryRow, 's', 's.batch_id = b.id');
+    qb.where('b.system_name IS NOT NULL AND b.temperature_c IS NOT NULL');
+    if (systemName !== undefined) qb.andWhere('b.system_name = :systemName', { systemName });
+    return qb;
+  }
+
   /**
-   * Every batch with a chemical system and a temperature, newest first, with its stored headline: one
-   * query of the few columns Temperatures shows (no names of people or set-ups, no settings).
+   * Every batch of a chemical system (or of every system) with a temperature, newest first: one query of
+   * the five narrow columns the van 't Hoff fit and the per-temperature groups need (no names, no JSON).
+   * The batches' side comes from the index on (system, temperature, state, created) alone.
    */
-  async withSystemAndTemperature(): Promise<SystemBatch[]> {
-    const rows = await this.dataSource
-      .createQueryBuilder(Batch, 'b')
-      .leftJoin(BatchSummaryRow, 's', 's.batch_id = b.id')
-      .select('b.id', 'id')
-      .addSelect('b.name', 'name')
-      .addSelect('b.state', 'state')
-      .addSelect('b.system_name', 'system_name')
+  async systemFitRows(systemName?: string): Promise<SystemFitRow[]> {
+    const rows = await this.systemBatches(systemName)
+      .select('b.system_name', 'system_name')
       .addSelect('b.temperature_c', 'temperature_c')
-      .addSelect('s.summary_json', 'summary_json')
-      .where('b.system_name IS NOT NULL AND b.temperature_c IS NOT NULL')
+      .addSelect('b.state', 'state')
+      .addSelect('s.best_model', 'best_model')
+      .addSelect('s.k', 'k')
       .orderBy('b.created_at', 'DESC')
       .addOrderBy('b.id', 'DESC')
       .getRawMany<Record<string, unknown>>();
+    return rows.map((r) => ({
+      systemName: String(r['system_name']),
+      temperatureC: Number(r['temperature_c']),
+      state: r['state'] as Batch['state'],
+      model: text(r['best_model']),
+      k: numberOrNull(r['k']),
+    }));
+  }
+
+  /**
+   * A page of one system's batches by temperature, then id (oldest first), with their K headline. As in
+   * the batches list, the page's ids come first from the index alone, then only those rows in full.
+   */
+  async systemPoints(
+    systemName: string,
+    window: { offset: number; limit: number },
+  ): Promise<SystemPointRow[]> {
+    const ids = this.systemBatches(systemName, false)
+      .select('b.id', 'id')
+      .orderBy('b.temperature_c', 'ASC')
+      .addOrderBy('b.id', 'ASC')
+      .offset(window.offset)
+      .limit(window.limit);
+    const rows = await this.systemBatches()
+      .select('b.id', 'id')
+      .addSelect('b.name', 'name')
+      .addSelect('b.state', 'state')
+      .addSelect('b.temperature_c', 'temperature_c')
+      .addSelect('s.best_model', 'best_model')
+      .addSelect('s.k', 'k')
+      .addSelect('s.k_se', 'k_se')
+      .addSelect('s.k_ci95_low', 'k_ci95_low')
+      .addSelect('s.k_ci95_high', 'k_ci95_high')
+      .addSelect('s.k_text', 'k_text')
+      .andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`)
+      .setParameters(ids.getParameters())
+      .orderBy('b.temperature_c', 'ASC')
+      .addOrderBy('b.id', 'ASC')
+      .getRawMany<Record<string, unknown>>();
     return rows.map((r) => {
-      const summaryJson = text(r['summary_json']);
+      const low = numberOrNull(r['k_ci95_low']);
+      const high = numberOrNull(r['k_ci95_high']);
       return {
         id: Number(r['id']),
         name: String(r['name']),
         state: r['state'] as Batch['state'],
-        systemName: String(r['system_name']),
         temperatureC: Number(r['temperature_c']),
-        summary: summaryJson ? (JSON.parse(summaryJson) as BatchResultSummary) : null,
+        model: text(r['best_model']),
+        k: numberOrNull(r['k']),
+        kSe: numberOrNull(r['k_se']),
+        // The analysis never gives an interval open at both ends: two nulls are no interval.
+        kCi95: low === null && high === null ? null : [low, high],
+        kText: text(r['k_text']),
       };
     });
   }
@@ -266,6 +329,7 @@ export class BatchListQueryBuilder {
 }
 
 const text = (v: unknown): string | null => (v === null || v === undefined ? null : String(v));
+const numberOrNull = (v: unknown): number | null => (v === null || v === undefined ? null : Number(v));
 
 function toListItem(b: Batch, raw: Record<string, unknown>): BatchListItemDto {
   const updatedAt = new Date(b.updatedAt).toISOString();

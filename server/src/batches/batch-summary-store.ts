@@ -48,7 +48,7 @@ export interface SummaryWrite {
 /** The whole-spectrum part of a batch's analysis as stored beside its result. */
 export type StoredSpectral = Required<Pick<BatchAnalysisDto, 'spectral' | 'spectralError'>>;
 
-/** The row's columns for a write: the headline as JSON and the sortable parts beside it. */
+/** The row's columns for a write: the headline as JSON, and beside it what lists sort by and Temperatures shows. */
 export function summaryColumns(write: SummaryWrite, now: string): Partial<BatchSummaryRow> {
   return {
     status: write.status,
@@ -62,6 +62,10 @@ export function summaryColumns(write: SummaryWrite, now: string): Partial<BatchS
     qcErrorCount: write.summary?.qcErrorCount ?? null,
     bestModel: write.summary?.best ?? null,
     k: write.summary?.k ?? null,
+    kSe: write.summary?.kSe ?? null,
+    kCi95Low: write.summary?.kCi95?.[0] ?? null,
+    kCi95High: write.summary?.kCi95?.[1] ?? null,
+    kText: write.summary?.kText ?? null,
     ...(write.sampleIds ? { sampleIds: write.sampleIds.join('\n') } : {}),
   };
 }
@@ -135,6 +139,10 @@ export class BatchSummaryStore {
         qcErrorCount: null,
         bestModel: null,
         k: null,
+        kSe: null,
+        kCi95Low: null,
+        kCi95High: null,
+        kText: null,
       });
       return;
     }

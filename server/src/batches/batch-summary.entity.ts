@@ -70,4 +70,17 @@ export class BatchSummaryRow {
 
   @Column('double precision', { nullable: true })
   k!: number | null;
+
+  /** The rest of K's headline, beside it for Temperatures (which reads it for a page of batches). */
+  @Column('double precision', { name: 'k_se', nullable: true })
+  kSe!: number | null;
+
+  @Column('double precision', { name: 'k_ci95_low', nullable: true })
+  kCi95Low!: number | null;
+
+  @Column('double precision', { name: 'k_ci95_high', nullable: true })
+  kCi95High!: number | null;
+
+  @Column('text', { name: 'k_text', nullable: true })
+  kText!: string | null;
 }

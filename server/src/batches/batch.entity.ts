@@ -1,4 +1,4 @@
-import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
+import { Column, CreateDateColumn, Entity, Index, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
 
 import type { BatchState } from '../contracts/enums';
 
@@ -6,6 +6,7 @@ export type { BatchState } from '../contracts/enums';
 
 /** One run: its instrument, layout and manifest versions, analysis settings, files and review state. */
 @Entity('batches')
+@Index('idx_batches_system', ['systemName', 'temperatureC', 'state', 'createdAt'])
 export class Batch {
   @PrimaryGeneratedColumn('increment')
   id!: number;

@@ -33,7 +33,7 @@ import {
 } from './analysis-extras';
 import { Batch, type BatchState } from './batch.entity';
 import { BATCH_RESULT_SCHEMA_VERSION, BatchResultRecord } from './batch-result.entity';
-import { BatchListQueryBuilder, type SystemBatch } from './batch-list';
+import { BatchListQueryBuilder, type SystemFitRow, type SystemPointRow } from './batch-list';
 import type { SummaryState } from './batch-summary.entity';
 import { BatchSummaryStore, type StoredSpectral, inputsHash, type SummaryWrite } from './batch-summary-store';
 import type {
@@ -577,9 +577,14 @@ export class BatchesService {
     );
   }
 
-  /** Every batch with a chemical system and a temperature, newest first, with its stored headline (one query). */
-  withSystemAndTemperature(): Promise<SystemBatch[]> {
-    return this.listQuery.withSystemAndTemperature();
+  /** Every batch of a chemical system (or of every one) with a temperature, newest first: fit columns only. */
+  systemFitRows(systemName?: string): Promise<SystemFitRow[]> {
+    return this.listQuery.systemFitRows(systemName);
+  }
+
+  /** A page of one system's batches with their K headline, by temperature, then id. */
+  systemPoints(systemName: string, window: { offset: number; limit: number }): Promise<SystemPointRow[]> {
+    return this.listQuery.systemPoints(systemName, window);
   }
 
   async get(id: number): Promise<BatchDto> {

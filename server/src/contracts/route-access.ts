@@ -83,6 +83,7 @@ export const ROUTE_ACCESS = {
   'get /api/webhooks/deliveries/{id}': ADMIN_ONLY,
   'post /api/webhooks/deliveries/{id}/resend': ADMIN_ONLY,
   'get /api/temperatures': EVERYONE,
+  'get /api/temperatures/points': EVERYONE,
   'get /api/openapi.json': 'public',
 } as const satisfies Record<string, Access>;
 

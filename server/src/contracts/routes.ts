@@ -39,7 +39,12 @@ import {
   outboxStatusSchema,
 } from './mail';
 import { manifestCheckSchema, manifestMetaSchema, manifestSchema, manifestSummarySchema } from './manifests';
-import { systemTemperaturesSchema, temperaturesQuerySchema } from './temperatures';
+import {
+  systemTemperaturesSchema,
+  temperaturePointsPageSchema,
+  temperaturePointsQuerySchema,
+  temperaturesQuerySchema,
+} from './temperatures';
 import { createUserSchema, createdUserSchema, publicUserSchema, updateUserSchema } from './users';
 import {
   createWebhookSchema,
@@ -792,11 +797,22 @@ export const API_OPERATIONS: readonly ApiOperation[] = [
     method: 'get',
     path: '/api/temperatures',
     tag: 'temperatures',
-    summary: "K per temperature and the van 't Hoff fit for each chemical system",
+    summary:
+      "For each chemical system: the van 't Hoff fit over all its usable batches, and its batches by temperature",
     access: ROUTE_ACCESS['get /api/temperatures'],
     query: temperaturesQuerySchema,
-    success: [200, 'Systems with their points and fit'],
+    success: [200, 'Systems with their fit, counts and per-temperature groups'],
     response: z.array(systemTemperaturesSchema),
+  },
+  {
+    method: 'get',
+    path: '/api/temperatures/points',
+    tag: 'temperatures',
+    summary: "One system's batches with K at their temperature, a page at a time (404: no such system)",
+    access: ROUTE_ACCESS['get /api/temperatures/points'],
+    query: temperaturePointsQuerySchema,
+    success: [200, 'A page of points, the total, the page and its size'],
+    response: temperaturePointsPageSchema,
   },
   {
     method: 'get',

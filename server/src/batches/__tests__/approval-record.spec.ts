@@ -4,6 +4,7 @@ import { analyzeBatch } from '../../analysis';
 import type { AnalysisEngine } from '../../analysis-engine/analysis-engine';
 import { readEngineVersion } from '../../analysis-engine/engine-version';
 import { type EquilightApp, createApp } from '../../app';
+import type { TemperaturePointsPage } from '../../contracts/temperatures';
 import { extractPdfText } from '../../testing/pdf-text';
 import { type AnalysedBatch, createAnalysedBatch } from '../../reports/__tests__/analysed-batch';
 import { signedInAgent, startTestApp, type TestApp } from '../../testing/test-app';
@@ -139,10 +140,13 @@ describe('approved means frozen: the approval record', () => {
     expect(pdfLater).toContain(readEngineVersion().label);
 
     const pointOf = async (agent: TestAgent) => {
-      const systems = (await agent.get('/api/temperatures')).body as {
-        points: { batchId: number; k: number | null }[];
-      }[];
-      return systems.flatMap((s) => s.points).find((p) => p.batchId === id);
+      const systems = (await agent.get('/api/temperatures')).body as { systemName: string }[];
+      for (const { systemName } of systems) {
+        const res = await agent.get('/api/temperatures/points').query({ system: systemName, pageSize: 200 });
+        const found = (res.body as TemperaturePointsPage).items.find((p) => p.batchId === id);
+        if (found) return found;
+      }
+      return undefined;
     };
     expect((await pointOf(laterAgent))?.k).toBe(signed.record.summary.k);
     expect((await pointOf(nowAgent))?.k).toBe(signed.record.summary.k);

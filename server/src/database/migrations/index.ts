@@ -9,6 +9,7 @@ import { Watchers1764900000000 } from './1764900000000-watchers';
 import { BatchSummaries1765000000000 } from './1765000000000-batch-summaries';
 import { BatchComments1765030000000 } from './1765030000000-batch-comments';
 import { YearsOfBatches1765100000000 } from './1765100000000-years-of-batches';
+import { TemperatureColumns1765200000000 } from './1765200000000-temperature-columns';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -23,4 +24,5 @@ export const migrations = [
   BatchSummaries1765000000000,
   BatchComments1765030000000,
   YearsOfBatches1765100000000,
+  TemperatureColumns1765200000000,
 ];

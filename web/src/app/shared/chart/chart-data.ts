@@ -14,7 +14,8 @@ export interface XY {
 
 export interface ChartSeries {
   label: string;
-  kind: 'points' | 'flagged' | 'line';
+  /** `range`: two points joined by a thin line with a cap at each end (a least-to-greatest whisker). */
+  kind: 'points' | 'flagged' | 'line' | 'range';
   points: XY[];
   /** A colour of its own (e.g. one per spectrum); default by kind. */
   colour?: string;

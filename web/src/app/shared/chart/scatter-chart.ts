@@ -20,6 +20,7 @@ const COLOURS: Record<ChartSeries['kind'], string> = {
   points: '#3b528b',
   flagged: '#b3245c',
   line: '#1f8a70',
+  range: '#3b528b',
 };
 
 type ScatterDataset = ChartDataset<'scatter', { x: number; y: number }[]>;
@@ -31,10 +32,10 @@ export function toDataset(s: ChartSeries): ScatterDataset {
     data: s.points,
     borderColor: colour,
     backgroundColor: colour,
-    showLine: s.kind === 'line',
-    pointRadius: s.kind === 'line' ? 0 : 5,
-    pointStyle: s.kind === 'flagged' ? 'triangle' : 'circle',
-    borderWidth: s.dashed ? 1 : 2,
+    showLine: s.kind === 'line' || s.kind === 'range',
+    pointRadius: s.kind === 'line' ? 0 : s.kind === 'range' ? 6 : 5,
+    pointStyle: s.kind === 'flagged' ? 'triangle' : s.kind === 'range' ? 'dash' : 'circle',
+    borderWidth: s.dashed || s.kind === 'range' ? 1 : 2,
     borderDash: s.label === 'Zero' || s.dashed ? [4, 4] : undefined,
   };
 }
