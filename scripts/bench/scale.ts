@@ -146,9 +146,14 @@ async function realBatch(
   if (upload.status !== 201 && upload.status !== 202) throw new Error(`ingest: ${upload.status}`);
   const file = await settled(t, upload.body.id, 60_000);
   if (file.status !== 'stored') throw new Error(`file ${file.status}: ${file.error}`);
-  await t.services.batches.summariesIdle();
   const batchId = batch.body.id as number;
-  const summary = await t.dataSource.getRepository(BatchSummaryRow).findOneByOrFail({ batchId });
+  // The file reads as stored as soon as its transaction commits; the summary's refresh starts just after.
+  let summary = await t.dataSource.getRepository(BatchSummaryRow).findOneByOrFail({ batchId });
+  for (const deadline = Date.now() + 60_000; summary.status === 'pending' && Date.now() < deadline;) {
+    await t.services.batches.summariesIdle();
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    summary = await t.dataSource.getRepository(BatchSummaryRow).findOneByOrFail({ batchId });
+  }
   const analysis = await t.dataSource.getRepository(BatchAnalysisRow).findOneByOrFail({ batchId });
   if (summary.status !== 'current' || summary.k === null)
     throw new Error(`the plate's analysis gives no K: ${summary.status} ${summary.error}`);

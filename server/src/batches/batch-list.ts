@@ -41,6 +41,13 @@ export interface SystemFitRow {
   k: number | null;
 }
 
+/** How many batches of a system found a best stoichiometry (null: none), and its newest such batch's id. */
+export interface SystemModelCount {
+  model: string | null;
+  batches: number;
+  newestId: number;
+}
+
 /** A batch of a chemical system as a page of Temperatures lists it: its K headline from the stored summary. */
 export interface SystemPointRow {
   id: number;
@@ -160,7 +167,7 @@ export class BatchListQueryBuilder {
   }
 
   /**
-   * Every batch of a chemical system (or of every system) with a temperature, newest first: one query of
+   * Every batch of a chemical system (or of every system) with a temperature, newest (highest id) first: one query of
    * the five narrow columns the van 't Hoff fit and the per-temperature groups need (no names, no JSON).
    * The batches' side comes from the index on (system, temperature, state, created) alone.
    */
@@ -171,8 +178,7 @@ export class BatchListQueryBuilder {
       .addSelect('b.state', 'state')
       .addSelect('s.best_model', 'best_model')
       .addSelect('s.k', 'k')
-      .orderBy('b.created_at', 'DESC')
-      .addOrderBy('b.id', 'DESC')
+      .orderBy('b.id', 'DESC')
       .getRawMany<Record<string, unknown>>();
     return rows.map((r) => ({
       systemName: String(r['system_name']),
@@ -183,20 +189,40 @@ export class BatchListQueryBuilder {
     }));
   }
 
+  /** The best stoichiometries one system's batches found, counted (one small grouped query). */
+  async systemModelCounts(systemName: string): Promise<SystemModelCount[]> {
+    const rows = await this.systemBatches(systemName)
+      .select('s.best_model', 'best_model')
+      .addSelect('COUNT(*)', 'batches')
+      .addSelect('MAX(b.id)', 'newest_id')
+      .groupBy('s.best_model')
+      .getRawMany<Record<string, unknown>>();
+    return rows.map((r) => ({
+      model: text(r['best_model']),
+      batches: Number(r['batches']),
+      newestId: Number(r['newest_id']),
+    }));
+  }
+
   /**
    * A page of one system's batches by temperature, then id (oldest first), with their K headline. As in
-   * the batches list, the page's ids come first from the index alone, then only those rows in full.
+   * the batches list, the page's ids come first from the index alone, then only those rows in full, read
+   * by primary key.
    */
   async systemPoints(
     systemName: string,
     window: { offset: number; limit: number },
   ): Promise<SystemPointRow[]> {
-    const ids = this.systemBatches(systemName, false)
-      .select('b.id', 'id')
-      .orderBy('b.temperature_c', 'ASC')
-      .addOrderBy('b.id', 'ASC')
-      .offset(window.offset)
-      .limit(window.limit);
+    const ids = (
+      await this.systemBatches(systemName, false)
+        .select('b.id', 'id')
+        .orderBy('b.temperature_c', 'ASC')
+        .addOrderBy('b.id', 'ASC')
+        .offset(window.offset)
+        .limit(window.limit)
+        .getRawMany<{ id: number | string }>()
+    ).map((r) => Number(r.id));
+    if (!ids.length) return [];
     const rows = await this.systemBatches()
       .select('b.id', 'id')
       .addSelect('b.name', 'name')
@@ -208,8 +234,7 @@ export class BatchListQueryBuilder {
       .addSelect('s.k_ci95_low', 'k_ci95_low')
       .addSelect('s.k_ci95_high', 'k_ci95_high')
       .addSelect('s.k_text', 'k_text')
-      .andWhere(`b.id IN (SELECT page_ids.id FROM (${ids.getQuery()}) page_ids)`)
-      .setParameters(ids.getParameters())
+      .andWhere('b.id IN (:...pageIds)', { pageIds: ids })
       .orderBy('b.temperature_c', 'ASC')
       .addOrderBy('b.id', 'ASC')
       .getRawMany<Record<string, unknown>>();

@@ -7,7 +7,7 @@ import type {
   TemperaturePointsPage,
 } from '../contracts/temperatures';
 import type { BatchesService } from '../batches/batches.service';
-import type { SystemFitRow } from '../batches/batch-list';
+import type { SystemFitRow, SystemModelCount } from '../batches/batch-list';
 
 export type { SystemTemperatures, TemperaturePoint } from '../contracts/temperatures';
 
@@ -41,10 +41,11 @@ export class TemperaturesService {
   async points(
     query: TemperaturesOptions & { system: string; page: number; pageSize: number },
   ): Promise<TemperaturePointsPage> {
-    const all = await this.batches.systemFitRows(query.system);
-    if (!all.length)
+    const counts = await this.batches.systemModelCounts(query.system);
+    const total = counts.reduce((sum, c) => sum + c.batches, 0);
+    if (!total)
       throw AppError.notFound(`No batch with a temperature names the chemical system "${query.system}".`);
-    const model = fitModel(all);
+    const model = fitModelOfCounts(counts);
     const rows = await this.batches.systemPoints(query.system, {
       offset: query.page * query.pageSize,
       limit: query.pageSize,
@@ -61,7 +62,7 @@ export class TemperaturesService {
       kText: r.kText,
       excludedBecause: excludedBecause(r, model, query),
     }));
-    return { items, total: all.length, page: query.page, pageSize: query.pageSize };
+    return { items, total, page: query.page, pageSize: query.pageSize };
   }
 }
 
@@ -89,9 +90,23 @@ function systemOf(systemName: string, rows: readonly SystemFitRow[], options: Te
   } satisfies SystemTemperatures;
 }
 
-/** The stoichiometry the fit uses: the best model most batches found (on a tie, the newest batch's). */
+/**
+ * The stoichiometry the fit uses: the best model most batches found (on a tie, that of the newest batch,
+ * by id). `rows` come newest first, so the first model met on a tie is the newest batch's.
+ */
 function fitModel(rows: readonly SystemFitRow[]): string | null {
   return mostFrequent(rows.flatMap((r) => (r.model ? [r.model] : [])));
+}
+
+/** The same choice from the models counted by the database (a page of batches needs only the model). */
+function fitModelOfCounts(counts: readonly SystemModelCount[]): string | null {
+  let best: SystemModelCount | null = null;
+  for (const c of counts) {
+    if (c.model === null) continue;
+    if (!best || c.batches > best.batches || (c.batches === best.batches && c.newestId > best.newestId))
+      best = c;
+  }
+  return best?.model ?? null;
 }
 
 /** Why a batch is left out of its system's fit; null when it is in it. */
