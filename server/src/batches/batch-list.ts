@@ -277,15 +277,7 @@ export class BatchListQueryBuilder {
         .select('s.batch_id', 'id')
         .orderBy('s.last_activity_at', dir)
         .addOrderBy('s.batch_id', dir);
-    const sort = SORTS[sortKey];
-    const nulls = sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0';
-    return this.filtered(filter)
-      .select('b.id', 'id')
-      .addSelect(nulls, 'sort_nulls')
-      .addSelect(sort.key, 'sort_key')
-      .orderBy('sort_nulls', 'ASC')
-      .addOrderBy('sort_key', dir)
-      .addOrderBy('b.id', dir);
+    return sorted(this.filtered(filter).select('b.id', 'id'), sortKey, dir);
   }
 
   /** Every column a list item shows, in the given order (the caller narrows it to a page). */
@@ -294,9 +286,7 @@ export class BatchListQueryBuilder {
     sortKey: NonNullable<BatchListParams['sort']>,
     dir: 'ASC' | 'DESC',
   ): SelectQueryBuilder<Batch> {
-    const sort = SORTS[sortKey];
-    const nulls = sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0';
-    return this.base(filter)
+    const qb = this.base(filter)
       .select('b')
       .addSelect('p.name', 'profile_name')
       .addSelect('l.name', 'layout_name')
@@ -308,12 +298,8 @@ export class BatchListQueryBuilder {
       .addSelect('s.last_activity_at', 's_last_activity_at')
       .addSelect('s.status', 's_status')
       .addSelect('s.error', 's_error')
-      .addSelect('s.summary_json', 's_summary_json')
-      .addSelect(nulls, 'sort_nulls')
-      .addSelect(sort.key, 'sort_key')
-      .orderBy('sort_nulls', 'ASC')
-      .addOrderBy('sort_key', dir)
-      .addOrderBy('b.id', dir);
+      .addSelect('s.summary_json', 's_summary_json');
+    return sorted(qb, sortKey, dir);
   }
 
   private async fetch(qb: SelectQueryBuilder<Batch>): Promise<BatchListItemDto[]> {
@@ -351,6 +337,22 @@ export class BatchListQueryBuilder {
       .getRawMany<{ id: number | string }>();
     return rows.map((r) => Number(r.id));
   }
+}
+
+/** A batches query in a list order: batches without the sort's value last either way, then by id. */
+function sorted(
+  qb: SelectQueryBuilder<Batch>,
+  sortKey: NonNullable<BatchListParams['sort']>,
+  dir: 'ASC' | 'DESC',
+): SelectQueryBuilder<Batch> {
+  const sort = SORTS[sortKey];
+  const nulls = sort.nulls ? `CASE WHEN ${sort.nulls} IS NULL THEN 1 ELSE 0 END` : '0';
+  return qb
+    .addSelect(nulls, 'sort_nulls')
+    .addSelect(sort.key, 'sort_key')
+    .orderBy('sort_nulls', 'ASC')
+    .addOrderBy('sort_key', dir)
+    .addOrderBy('b.id', dir);
 }
 
 const text = (v: unknown): string | null => (v === null || v === undefined ? null : String(v));
