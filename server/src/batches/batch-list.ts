@@ -167,26 +167,33 @@ export class BatchListQueryBuilder {
   }
 
   /**
-   * Every batch of a chemical system (or of every system) with a temperature, newest (highest id) first: one query of
-   * the five narrow columns the van 't Hoff fit and the per-temperature groups need (no names, no JSON).
-   * The batches' side comes from the index on (system, temperature, state, created) alone.
+   * Every batch of a chemical system (or of every system) with a temperature, newest (highest id) first: one
+   * query of the narrow columns the van 't Hoff fit and the per-temperature groups need (no names, no JSON).
+   * The batches' side comes from the index on (system, temperature, state, created) alone, read in its own
+   * order; the newest-first order is made here. Asked for by id, SQLite walks the whole batches table
+   * instead (settings and all: 16–19 ms instead of 7–8 ms at 10,000 batches on a fresh connection).
    */
   async systemFitRows(systemName?: string): Promise<SystemFitRow[]> {
     const rows = await this.systemBatches(systemName)
-      .select('b.system_name', 'system_name')
+      .select('b.id', 'id')
+      .addSelect('b.system_name', 'system_name')
       .addSelect('b.temperature_c', 'temperature_c')
       .addSelect('b.state', 'state')
       .addSelect('s.best_model', 'best_model')
       .addSelect('s.k', 'k')
-      .orderBy('b.id', 'DESC')
+      .orderBy('b.system_name', 'ASC')
+      .addOrderBy('b.temperature_c', 'ASC')
       .getRawMany<Record<string, unknown>>();
-    return rows.map((r) => ({
-      systemName: String(r['system_name']),
-      temperatureC: Number(r['temperature_c']),
-      state: r['state'] as Batch['state'],
-      model: text(r['best_model']),
-      k: numberOrNull(r['k']),
-    }));
+    return rows
+      .map((r) => ({ id: Number(r['id']), r }))
+      .sort((x, y) => y.id - x.id)
+      .map(({ r }) => ({
+        systemName: String(r['system_name']),
+        temperatureC: Number(r['temperature_c']),
+        state: r['state'] as Batch['state'],
+        model: text(r['best_model']),
+        k: numberOrNull(r['k']),
+      }));
   }
 
   /** The best stoichiometries one system's batches found, counted (one small grouped query). */
