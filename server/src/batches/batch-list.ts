@@ -1,4 +1,5 @@
-import type { DataSource, SelectQueryBuilder } from 'typeorm';
+import type { DataSource, ObjectLiteral, SelectQueryBuilder } from 'typeorm';
+import { totalBeside, withCountBeside } from '../database/count-beside';
 import { IntakeFile } from '../ingest/intake-file.entity';
 import { InstrumentProfile } from '../instruments/instrument-profile.entity';
 import { Layout } from '../layouts/layout.entity';
@@ -137,16 +138,13 @@ export class BatchListQueryBuilder {
     const sortKey = order.sort ?? 'lastActivityAt';
     const pageSize = order.pageSize ?? 25;
     const window = { offset: (order.page ?? 0) * pageSize, limit: pageSize };
-    const counter = this.filtered(filter, true).select('COUNT(*)');
-    const idsQuery = this.idsQuery(filter, sortKey, dir).offset(window.offset).limit(window.limit);
-    idsQuery.addSelect(`(${counter.getQuery()})`, 'total');
-    idsQuery.setParameters({ ...idsQuery.getParameters(), ...counter.getParameters() });
-    const found = await idsQuery.getRawMany<{ id: number | string; total: number | string }>();
+    const counter = this.filtered(filter, true);
+    const found = await withCountBeside(
+      this.idsQuery(filter, sortKey, dir).offset(window.offset).limit(window.limit),
+      counter,
+    ).getRawMany<{ id: number | string; total: number | string }>();
     const ids = found.map((r) => Number(r.id));
-    // Past the last page (or nothing matches) there is no row to carry the count.
-    const total = found.length
-      ? Number(found[0].total)
-      : Number((await counter.select('COUNT(*)', 'n').getRawOne<{ n: number | string }>())?.n ?? 0);
+    const total = await totalBeside(found, counter);
     // The default order reads only batches with a stored summary; those without one come last.
     if (sortKey === 'lastActivityAt' && ids.length < window.limit && window.offset + ids.length < total)
       ids.push(...(await this.unsummarisedIds(filter, dir, window, ids.length)));
@@ -278,7 +276,7 @@ export class BatchListQueryBuilder {
     filter: BatchListFilter,
     sortKey: NonNullable<BatchListParams['sort']>,
     dir: 'ASC' | 'DESC',
-  ): SelectQueryBuilder<Batch> | SelectQueryBuilder<BatchSummaryRow> {
+  ): SelectQueryBuilder<ObjectLiteral> {
     if (sortKey === 'lastActivityAt')
       return this.withSummary(filter)
         .select('s.batch_id', 'id')

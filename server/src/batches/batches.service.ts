@@ -934,10 +934,8 @@ export class BatchesService {
     const stored = row ? await this.store.analysisOf(batch.id, { inputsHash: hash, engineVersion }) : null;
     if (stored?.resultJson) {
       const result = JSON.parse(stored.resultJson) as BatchResult;
-      if (stored.spectralJson) return { result, spectral: JSON.parse(stored.spectralJson) as StoredSpectral };
-      const spectral = await this.spectral(inputs, settings);
-      await this.store.writeSpectral(batch.id, { inputsHash: hash, engineVersion }, spectral);
-      return { result, spectral };
+      const version = { inputsHash: hash, engineVersion };
+      return { result, spectral: await this.storedSpectral(batch.id, version, stored, inputs, settings) };
     }
     const result = await this.computeResult(batch.id, hash, inputs, settings);
     const spectral = await this.spectral(inputs, settings);
@@ -970,9 +968,23 @@ export class BatchesService {
   ): Promise<StoredSpectral> {
     const version = { inputsHash: inputsHash(batch, inputs.files), engineVersion: this.engine.version.label };
     const stored = await this.store.analysisOf(batch.id, version);
+    return this.storedSpectral(batch.id, version, stored, inputs, settings);
+  }
+
+  /**
+   * The whole-spectrum part stored with an analysis of these inputs and engine; when it is missing, worked
+   * out now and stored beside that analysis (when there is one to store it with).
+   */
+  private async storedSpectral(
+    batchId: number,
+    version: { inputsHash: string; engineVersion: string },
+    stored: { spectralJson: string | null } | null,
+    inputs: BatchInputs,
+    settings: AnalysisSettings,
+  ): Promise<StoredSpectral> {
     if (stored?.spectralJson) return JSON.parse(stored.spectralJson) as StoredSpectral;
     const spectral = await this.spectral(inputs, settings);
-    if (stored) await this.store.writeSpectral(batch.id, version, spectral);
+    if (stored) await this.store.writeSpectral(batchId, version, spectral);
     return spectral;
   }
 

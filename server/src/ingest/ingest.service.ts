@@ -13,6 +13,7 @@ import { AppError } from '../common/app-error';
 import { cleanFileName } from '../common/file-name';
 import { SerialRunner } from '../common/serial';
 import { bulkInsert } from '../database/bulk-insert';
+import { totalBeside, withCountBeside } from '../database/count-beside';
 import type { EventBus } from '../events/event-bus';
 import { parseRulesOf, runIdFromFileName } from '../instruments/instruments.service';
 import { ParseError } from '../parsers';
@@ -363,14 +364,16 @@ export class IngestService {
     };
     // One query: the page, with the count beside it in a subquery that joins nothing (it reads the files
     // alone, from an index of them where one covers the filter).
-    const counter = filtered(this.files.createQueryBuilder('f')).select('COUNT(*)', 'n');
-    const qb = filtered(
-      this.files
-        .createQueryBuilder('f')
-        .leftJoin(InstrumentProfile, 'p', 'p.id = f.profile_id')
-        .select('f')
-        .addSelect('p.name', 'profile_name')
-        .addSelect(`(${counter.getQuery()})`, 'total'),
+    const counter = filtered(this.files.createQueryBuilder('f'));
+    const qb = withCountBeside(
+      filtered(
+        this.files
+          .createQueryBuilder('f')
+          .leftJoin(InstrumentProfile, 'p', 'p.id = f.profile_id')
+          .select('f')
+          .addSelect('p.name', 'profile_name'),
+      ),
+      counter,
     );
     const sortColumn = SORT_COLUMNS[query.sort ?? 'receivedAt'];
     qb.orderBy(sortColumn, query.dir === 'asc' ? 'ASC' : 'DESC').addOrderBy(
@@ -384,10 +387,7 @@ export class IngestService {
       total: number | string;
     }>();
     const items = entities.map((f, i) => toIntakeDto(f, raw[i]?.profile_name ?? null));
-    // Past the last page (or nothing matches) there is no row to carry the count.
-    const total = raw.length
-      ? Number(raw[0].total)
-      : Number((await counter.getRawOne<{ n: number | string }>())?.n ?? 0);
+    const total = await totalBeside(raw, counter);
     return { items, total };
   }
 }
