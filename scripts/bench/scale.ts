@@ -3,8 +3,10 @@
  * written in bulk after one real batch the app ingested, analysed and approved; then, on a server just
  * started on that database (a new app and DataSource each time, so no in-memory cache helps), the first
  * GET of each page the web opens: the batches list, one batch's analysis, Intake, Temperatures (its systems)
- * and the first page of one system's points. Median of 20 starts each, beside the same with 100 batches
- * (the floor), and the ratio; on SQLite and PostgreSQL.
+ * and the first page of one system's points; and Temperatures again just after every system's stored
+ * answers went stale (as a change to one of its batches makes them: worked out from all its batches; held
+ * to 50 ms, its ratio reported). Median of 20 starts each, beside the same with 100 batches (the floor),
+ * and the ratio; on SQLite and PostgreSQL.
  * Aim: every median ≤ 50 ms and ≤ 1.5× the floor. Not a timed test.
  * Run: npm run bench:scale [-- --db sqlite|postgres|both --batches 10000 --floor 100
  *      --readings-per-batch 1000 --runs 20 --warm 20 --keep]
@@ -299,6 +301,7 @@ const PAGES = [
   'Intake page',
   'Temperatures',
   'Temperature points',
+  'Temperatures, changed',
 ] as const;
 type Page = (typeof PAGES)[number];
 
@@ -310,7 +313,17 @@ function urls(d: Dataset): Record<Page, string> {
     Temperatures: '/api/temperatures?includeUnapproved=false',
     // The first page of the system the real batch belongs to (the page opens it beside the fit).
     'Temperature points': `/api/temperatures/points?system=${encodeURIComponent(SYSTEMS[0]!.name)}&page=0`,
+    // Every system's stored answers stale (as after a change to one of its batches): worked out on read.
+    'Temperatures, changed': '/api/temperatures?includeUnapproved=false',
   };
+}
+
+/** Reported beside the aims, not held to the ratio: the answers worked out again from every batch. */
+const CHANGED: Page = 'Temperatures, changed';
+
+/** Every system moved on a generation, as a change to one of its batches moves it. */
+async function staleAnswers(t: TestApp): Promise<void> {
+  await t.dataSource.query('UPDATE temperature_systems SET generation = generation + 1');
 }
 
 interface Figures {
@@ -335,13 +348,17 @@ async function measure(d: Dataset): Promise<Figures> {
       await t.services.batches.summariesIdle();
       const agent = await t.agent('lab_manager');
       for (const page of PAGES) {
+        if (page === CHANGED) await staleAnswers(t);
         const { ms, bytes } = await timedGet(agent, url[page]);
         if (run >= 0) figures.cold[page].push(ms);
         figures.bytes[page] = bytes;
       }
       if (run === RUNS - 1)
         for (let i = 0; i < WARM; i++)
-          for (const page of PAGES) figures.warm[page].push((await timedGet(agent, url[page])).ms);
+          for (const page of PAGES) {
+            if (page === CHANGED) await staleAnswers(t);
+            figures.warm[page].push((await timedGet(agent, url[page])).ms);
+          }
     } finally {
       await t.shutDown();
     }
@@ -369,21 +386,21 @@ function report(db: string, floor: Dataset, big: Dataset, f: Figures, g: Figures
   );
   const n = big.batches.toLocaleString('en');
   console.log(
-    `${'page'.padEnd(20)}${`cold @${n}`.padStart(14)}${`cold @${floor.batches}`.padStart(16)}${'ratio'.padStart(8)}${`warm @${n}`.padStart(14)}${`warm @${floor.batches}`.padStart(12)}${'kB'.padStart(8)}  aim (≤${AIM_MS} ms, ≤${AIM_RATIO}×) met`,
+    `${'page'.padEnd(24)}${`cold @${n}`.padStart(14)}${`cold @${floor.batches}`.padStart(16)}${'ratio'.padStart(8)}${`warm @${n}`.padStart(14)}${`warm @${floor.batches}`.padStart(12)}${'kB'.padStart(8)}  aim (≤${AIM_MS} ms, ≤${AIM_RATIO}×) met`,
   );
   for (const page of PAGES) {
     const cb = median(g.cold[page]);
     const cf = median(f.cold[page]);
     const ratio = cb / cf;
-    const met = cb <= AIM_MS && ratio <= AIM_RATIO;
+    const met = cb <= AIM_MS && (ratio <= AIM_RATIO || page === CHANGED);
     console.log(
-      `${page.padEnd(20)}${ms(cb)} (${Math.max(...g.cold[page])
+      `${page.padEnd(24)}${ms(cb)} (${Math.max(...g.cold[page])
         .toFixed(0)
         .padStart(3)})${ms(cf)} (${Math.max(...f.cold[page])
         .toFixed(0)
         .padStart(
           3,
-        )})${`${ratio.toFixed(2)}×`.padStart(8)}${ms(median(g.warm[page])).padStart(14)}${ms(median(f.warm[page])).padStart(12)}${(g.bytes[page] / 1000).toFixed(0).padStart(8)}  ${met ? 'yes' : `no${cb > AIM_MS ? ` (>${AIM_MS} ms)` : ''}${ratio > AIM_RATIO ? ` (>${AIM_RATIO}×)` : ''}`}`,
+        )})${`${ratio.toFixed(2)}×`.padStart(8)}${ms(median(g.warm[page])).padStart(14)}${ms(median(f.warm[page])).padStart(12)}${(g.bytes[page] / 1000).toFixed(0).padStart(8)}  ${met ? 'yes' : `no${cb > AIM_MS ? ` (>${AIM_MS} ms)` : ''}${ratio > AIM_RATIO ? ` (>${AIM_RATIO}×)` : ''}`}${page === CHANGED ? ' (≤50 ms only; ratio reported)' : ''}`,
     );
   }
 }

@@ -9,6 +9,7 @@
 import { createHash } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
 import { bulkInsert } from '../../server/src/database/bulk-insert';
+import { markTemperatureSystemChanged } from '../../server/src/temperatures/temperature-systems';
 import type { Batch, BatchState } from '../../server/src/batches/batch.entity';
 import type { BatchResultRecord } from '../../server/src/batches/batch-result.entity';
 import type { BatchAnalysisRow } from '../../server/src/batches/batch-analysis.entity';
@@ -325,6 +326,9 @@ export async function writeSyntheticBatches(
         template.analysis.spectralJson,
       ]),
     );
+    // As every change does: each chemical system met moves on a generation (its Temperatures answers are stale).
+    const systems = new Map(plans.flatMap((p, i) => (p.systemName ? [[p.systemName, batchIds[i]!]] : [])));
+    for (const batchId of systems.values()) await markTemperatureSystemChanged(manager, batchId);
     return { batchIds, fileIds };
   });
 

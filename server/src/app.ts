@@ -43,6 +43,7 @@ import { overviewRouter } from './overview/overview.router';
 import { OverviewService } from './overview/overview.service';
 import { temperaturesRouter } from './temperatures/temperatures.router';
 import { TemperaturesService } from './temperatures/temperatures.service';
+import { TemperatureSystemStore } from './temperatures/temperature-systems';
 import { usersRouter } from './users/users.router';
 import { UsersService } from './users/users.service';
 import { serveWebApp } from './web-app/serve-web-app';
@@ -74,6 +75,7 @@ export interface EquilightApp {
     manifests: ManifestsService;
     batches: BatchesService;
     watchers: WatchersService;
+    temperatures: TemperaturesService;
   };
   events: EventBus;
   /** E-mail: sender, local SMTP stand-in and outbox, notification settings. */
@@ -123,6 +125,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     fourEyesApproval: config.fourEyesApproval,
     log,
   });
+  const temperatures = new TemperaturesService(batches, new TemperatureSystemStore(dataSource), events, log);
   const mail = createMailModule({ config, dataSource, users, batches, events, log, rateLimitStores });
   const comments = new CommentsService(dataSource, audit, events);
   const reports = new ReportsService(batches, audit, comments);
@@ -225,7 +228,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
     '/overview',
     overviewRouter(new OverviewService(dataSource, batches, { fourEyesApproval: config.fourEyesApproval })),
   );
-  api.use('/temperatures', temperaturesRouter(new TemperaturesService(batches)));
+  api.use('/temperatures', temperaturesRouter(temperatures));
   api.use(apiNotFound);
   // JSON and CSV answers go out gzip'd or brotli'd when the client takes it (a batch's analysis, ~46 kB, goes out as ~9 kB).
   app.use('/api', compression(), api);
@@ -236,7 +239,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
   return {
     app,
     sessionParser,
-    services: { users, instruments, ingest, audit, layouts, manifests, batches, watchers },
+    services: { users, instruments, ingest, audit, layouts, manifests, batches, watchers, temperatures },
     events,
     mail,
     webhooks,
@@ -258,6 +261,7 @@ export function createApp({ config, dataSource, log = console.error, engine }: A
       await watchers.stop();
       await worker.close();
       await batches.close();
+      await temperatures.close();
       await closeWorkers();
       await queue.close();
       await mail.close();

@@ -42,13 +42,6 @@ export interface SystemFitRow {
   k: number | null;
 }
 
-/** How many batches of a system found a best stoichiometry (null: none), and its newest such batch's id. */
-export interface SystemModelCount {
-  model: string | null;
-  batches: number;
-  newestId: number;
-}
-
 /** A batch of a chemical system as a page of Temperatures lists it: its K headline from the stored summary. */
 export interface SystemPointRow {
   id: number;
@@ -192,21 +185,6 @@ export class BatchListQueryBuilder {
         model: text(r['best_model']),
         k: numberOrNull(r['k']),
       }));
-  }
-
-  /** The best stoichiometries one system's batches found, counted (one small grouped query). */
-  async systemModelCounts(systemName: string): Promise<SystemModelCount[]> {
-    const rows = await this.systemBatches(systemName)
-      .select('s.best_model', 'best_model')
-      .addSelect('COUNT(*)', 'batches')
-      .addSelect('MAX(b.id)', 'newest_id')
-      .groupBy('s.best_model')
-      .getRawMany<Record<string, unknown>>();
-    return rows.map((r) => ({
-      model: text(r['best_model']),
-      batches: Number(r['batches']),
-      newestId: Number(r['newest_id']),
-    }));
   }
 
   /**

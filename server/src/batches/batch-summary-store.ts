@@ -6,6 +6,7 @@ import { type BatchAnalysisDto, type BatchResultSummary, batchSettingsSchema } f
 import type { Batch } from './batch.entity';
 import { BatchAnalysisRow } from './batch-analysis.entity';
 import { BatchSummaryRow, type SummaryState } from './batch-summary.entity';
+import { markTemperatureSystemChanged } from '../temperatures/temperature-systems';
 
 /** The files a batch's analysis reads, as its inputs hash names them. */
 export interface HashedFile {
@@ -144,6 +145,7 @@ export class BatchSummaryStore {
         kCi95High: null,
         kText: null,
       });
+      await markTemperatureSystemChanged(manager, batchId);
       return;
     }
     const changes: Partial<BatchSummaryRow> = {
@@ -163,6 +165,8 @@ export class BatchSummaryStore {
     } else {
       await manager.update(BatchSummaryRow, { batchId }, changes);
     }
+    // A state change (approval, reopening) moves the batch in or out of its system's fit.
+    await markTemperatureSystemChanged(manager, batchId);
   }
 
   /** The whole stored analysis of a batch (result and whole-spectrum part) when it is of these inputs and engine. */
@@ -173,19 +177,23 @@ export class BatchSummaryStore {
 
   /**
    * Write a headline unless the row changed since `revision` was read, then its whole analysis; true when
-   * written. Two statements, no transaction (background work on SQLite's one connection must not open one
-   * beside a request's): a reader between them finds an analysis of other inputs and does not use it.
+   * written. One transaction (on SQLite it waits for its turn; plain statements would join whatever
+   * transaction a request has open and fall with its rollback), with the new generation of the batch's
+   * chemical system, so Temperatures never keeps an answer that misses this headline.
    */
   async writeIfRevision(batchId: number, revision: number, write: SummaryWrite): Promise<boolean> {
-    const res = await this.dataSource
-      .createQueryBuilder()
-      .update(BatchSummaryRow)
-      .set(summaryColumns(write, new Date().toISOString()))
-      .where('batch_id = :batchId AND revision = :revision', { batchId, revision })
-      .execute();
-    if (!res.affected) return false;
-    await this.dataSource.manager.upsert(BatchAnalysisRow, analysisRow(batchId, write), ['batchId']);
-    return true;
+    return this.dataSource.transaction(async (manager) => {
+      const res = await manager
+        .createQueryBuilder()
+        .update(BatchSummaryRow)
+        .set(summaryColumns(write, new Date().toISOString()))
+        .where('batch_id = :batchId AND revision = :revision', { batchId, revision })
+        .execute();
+      if (!res.affected) return false;
+      await manager.upsert(BatchAnalysisRow, analysisRow(batchId, write), ['batchId']);
+      await markTemperatureSystemChanged(manager, batchId);
+      return true;
+    });
   }
 
   /** Store the whole-spectrum part beside the stored result of the same inputs and engine, if that is there. */
@@ -214,6 +222,7 @@ export class BatchSummaryStore {
       .where('batch_id = :batchId', { batchId })
       .execute();
     await manager.upsert(BatchAnalysisRow, analysisRow(batchId, write), ['batchId']);
+    await markTemperatureSystemChanged(manager, batchId);
   }
 
   /** Batches with no stored summary yet (made before summaries were stored). */

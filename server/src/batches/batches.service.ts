@@ -33,12 +33,7 @@ import {
 } from './analysis-extras';
 import { Batch, type BatchState } from './batch.entity';
 import { BATCH_RESULT_SCHEMA_VERSION, BatchResultRecord } from './batch-result.entity';
-import {
-  BatchListQueryBuilder,
-  type SystemFitRow,
-  type SystemModelCount,
-  type SystemPointRow,
-} from './batch-list';
+import { BatchListQueryBuilder, type SystemFitRow, type SystemPointRow } from './batch-list';
 import type { SummaryState } from './batch-summary.entity';
 import { BatchSummaryStore, type StoredSpectral, inputsHash, type SummaryWrite } from './batch-summary-store';
 import type {
@@ -588,10 +583,6 @@ export class BatchesService {
   }
 
   /** A page of one system's batches with their K headline, by temperature, then id. */
-  systemModelCounts(systemName: string): Promise<SystemModelCount[]> {
-    return this.listQuery.systemModelCounts(systemName);
-  }
-
   systemPoints(systemName: string, window: { offset: number; limit: number }): Promise<SystemPointRow[]> {
     return this.listQuery.systemPoints(systemName, window);
   }

@@ -24,6 +24,7 @@ import { assertDatabaseFileNotEmpty, assertQuickCheckPasses, openFailure } from 
 import { migrations } from './migrations';
 import { serialiseSqliteTransactions } from './sqlite-transactions';
 import { InstrumentPresence, WatcherCredential } from '../watchers/watcher-credential.entity';
+import { TemperatureSystemRow } from '../temperatures/temperature-system.entity';
 
 export const entities = [
   User,
@@ -49,6 +50,7 @@ export const entities = [
   WatcherCredential,
   InstrumentPresence,
   BatchCommentRow,
+  TemperatureSystemRow,
 ];
 
 /** The one DataSource. SQLite (WAL) by default; PostgreSQL when DATABASE_URL says so. */

@@ -7,7 +7,10 @@ import type {
   TemperaturePointsPage,
 } from '../contracts/temperatures';
 import type { BatchesService } from '../batches/batches.service';
-import type { SystemFitRow, SystemModelCount } from '../batches/batch-list';
+import type { SystemFitRow } from '../batches/batch-list';
+import type { EventBus } from '../events/event-bus';
+import type { TemperatureSystemRow } from './temperature-system.entity';
+import { type SystemAnswers, type TemperatureSystemStore, currentAnswers } from './temperature-systems';
 
 export type { SystemTemperatures, TemperaturePoint } from '../contracts/temperatures';
 
@@ -16,36 +19,54 @@ export interface TemperaturesOptions {
   includeUnapproved?: boolean;
 }
 
+/** How long after a batch change this process waits before working out the answers it made stale. */
+const REFRESH_AFTER_MS = 500;
+
 /**
- * K of each chemical system at several temperatures and the van 't Hoff fit across them, from each
- * batch's stored headline (written when its analysis changed): no analysis here. The fit and the
- * per-temperature groups read five narrow columns of every batch of a system; the batches themselves
- * are listed a page at a time.
+ * K of each chemical system at several temperatures and the van 't Hoff fit across them. Each system's
+ * answers (fit, counts, per-temperature groups) are stored with the generation of the system they are
+ * of (`temperature_systems`); a read serves them while no batch of the system has changed, and otherwise
+ * works them out from the batches' stored headlines (five narrow columns per batch, no analysis) and
+ * stores them. After a batch change this process also works them out in the background, so the page's
+ * next read finds them. The batches themselves are listed a page at a time.
  */
 export class TemperaturesService {
-  constructor(private readonly batches: BatchesService) {}
+  private timer: NodeJS.Timeout | null = null;
+  private refreshing: Promise<void> | null = null;
+  private closing = false;
+  private readonly unsubscribe: () => void;
+
+  constructor(
+    private readonly batches: BatchesService,
+    private readonly store: TemperatureSystemStore,
+    events: EventBus,
+    private readonly log: (message: string, err?: unknown) => void = console.error,
+  ) {
+    this.unsubscribe = events.subscribeLocal((event) => {
+      if (event.type === 'batch.updated') this.refreshSoon();
+    });
+  }
 
   async systems(options: TemperaturesOptions = {}): Promise<SystemTemperatures[]> {
-    const bySystem = new Map<string, SystemFitRow[]>();
-    for (const row of await this.batches.systemFitRows()) {
-      const list = bySystem.get(row.systemName);
-      if (list) list.push(row);
-      else bySystem.set(row.systemName, [row]);
+    const answers = [];
+    for (const row of await this.store.all()) {
+      const a = await this.answersOf(row);
+      if (a.all.counts.batches) answers.push(options.includeUnapproved ? a.all : a.approved);
     }
-    return [...bySystem.keys()]
-      .sort()
-      .map((systemName) => systemOf(systemName, bySystem.get(systemName)!, options));
+    return answers.sort((a, b) => (a.systemName < b.systemName ? -1 : a.systemName > b.systemName ? 1 : 0));
   }
 
   /** A page of one system's batches, each saying why it is not in the fit when it is not. */
   async points(
     query: TemperaturesOptions & { system: string; page: number; pageSize: number },
   ): Promise<TemperaturePointsPage> {
-    const counts = await this.batches.systemModelCounts(query.system);
-    const total = counts.reduce((sum, c) => sum + c.batches, 0);
+    const row = await this.store.one(query.system);
+    const answers = row ? await this.answersOf(row) : null;
+    // The model and the number of batches do not depend on which batches count.
+    const total = answers?.all.counts.batches ?? 0;
     if (!total)
       throw AppError.notFound(`No batch with a temperature names the chemical system "${query.system}".`);
-    const model = fitModelOfCounts(counts);
+    const model = answers!.all.model;
     const rows = await this.batches.systemPoints(query.system, {
       offset: query.page * query.pageSize,
       limit: query.pageSize,
@@ -63,6 +84,53 @@ export class TemperaturesService {
       excludedBecause: excludedBecause(r, model, query),
     }));
     return { items, total, page: query.page, pageSize: query.pageSize };
+  }
+
+  /** Stop background work and wait for what runs (shutdown). */
+  async close(): Promise<void> {
+    this.closing = true;
+    this.unsubscribe();
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+    await this.refreshing;
+  }
+
+  /** Work out again, in a moment, the answers of every system a change has moved on (one timer at a time). */
+  private refreshSoon(): void {
+    if (this.timer || this.closing) return;
+    this.timer = setTimeout(() => {
+      this.timer = null;
+      if (this.refreshing) return this.refreshSoon(); // once the run under way ends
+      this.refreshing = (async () => {
+        for (const row of await this.store.all()) {
+          if (this.closing) return;
+          if (!currentAnswers(row)) await this.answersOf(row);
+        }
+      })()
+        .catch((err: unknown) => {
+          if (!this.closing) this.log('Could not store the Temperatures answers', err);
+        })
+        .finally(() => {
+          this.refreshing = null;
+        });
+    }, REFRESH_AFTER_MS);
+    this.timer.unref();
+  }
+
+  /**
+   * A system's answers: the stored ones while current, else worked out from its batches and stored. The
+   * generation is the one read before the batches: a change in between leaves the stored answers stale.
+   */
+  private async answersOf(row: TemperatureSystemRow): Promise<SystemAnswers> {
+    const stored = currentAnswers(row);
+    if (stored) return stored;
+    const rows = await this.batches.systemFitRows(row.systemName);
+    const answers = {
+      approved: systemOf(row.systemName, rows, {}),
+      all: systemOf(row.systemName, rows, { includeUnapproved: true }),
+    };
+    await this.store.save(row.systemName, row.generation, answers);
+    return answers;
   }
 }
 
@@ -96,17 +164,6 @@ function systemOf(systemName: string, rows: readonly SystemFitRow[], options: Te
  */
 function fitModel(rows: readonly SystemFitRow[]): string | null {
   return mostFrequent(rows.flatMap((r) => (r.model ? [r.model] : [])));
-}
-
-/** The same choice from the models counted by the database (a page of batches needs only the model). */
-function fitModelOfCounts(counts: readonly SystemModelCount[]): string | null {
-  let best: SystemModelCount | null = null;
-  for (const c of counts) {
-    if (c.model === null) continue;
-    if (!best || c.batches > best.batches || (c.batches === best.batches && c.newestId > best.newestId))
-      best = c;
-  }
-  return best?.model ?? null;
 }
 
 /** Why a batch is left out of its system's fit; null when it is in it. */

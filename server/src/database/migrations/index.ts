@@ -10,6 +10,7 @@ import { BatchSummaries1765000000000 } from './1765000000000-batch-summaries';
 import { BatchComments1765030000000 } from './1765030000000-batch-comments';
 import { YearsOfBatches1765100000000 } from './1765100000000-years-of-batches';
 import { TemperatureColumns1765200000000 } from './1765200000000-temperature-columns';
+import { TemperatureSystems1765300000000 } from './1765300000000-temperature-systems';
 
 /** Every migration, oldest first. Add new ones at the end. */
 export const migrations = [
@@ -25,4 +26,5 @@ export const migrations = [
   BatchComments1765030000000,
   YearsOfBatches1765100000000,
   TemperatureColumns1765200000000,
+  TemperatureSystems1765300000000,
 ];

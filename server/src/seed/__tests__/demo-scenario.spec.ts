@@ -1,6 +1,5 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { TemperaturesService } from '../../temperatures/temperatures.service';
 import { startTestApp, type TestApp } from '../../testing/test-app';
 import { seedDemoInstruments } from '../demo-instruments';
 import { DEMO_SAMPLES_DIR, seedDemoScenario } from '../demo-scenario';
@@ -24,7 +23,7 @@ describe('demo scenario', () => {
       ['FE-101', 'open', 0],
       ['SP-7', 'open', 0],
     ]);
-    const [system] = await new TemperaturesService(t.services.batches).systems();
+    const [system] = await t.services.temperatures.systems();
     expect(system.model).toBe('1:1');
     expect(system.vantHoff!.n).toBe(2);
     // invented with ΔH° = −18 kJ/mol; two noisy temperatures give it back roughly

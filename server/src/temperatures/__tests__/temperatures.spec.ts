@@ -13,6 +13,8 @@ import {
 } from '../../analysis';
 import { Batch, type BatchState } from '../../batches/batch.entity';
 import { BatchSummaryStore } from '../../batches/batch-summary-store';
+import { TemperatureSystemRow } from '../temperature-system.entity';
+import { ANSWERS_FORMAT, type SystemAnswers, TemperatureSystemStore } from '../temperature-systems';
 import type { BatchResultSummary } from '../../contracts/batches';
 import type {
   SystemTemperatures,
@@ -105,6 +107,14 @@ describe("K across temperatures (van 't Hoff)", () => {
   let setUp: { profileId: number; layoutId: number; manifestId: number };
   let runs = 0;
 
+  /** A batch's state changed as a review, approval or reopening changes it (its summary row touched). */
+  async function setState(id: number, state: BatchState): Promise<void> {
+    await t.dataSource.transaction(async (manager) => {
+      await manager.update(Batch, { id }, { state });
+      await new BatchSummaryStore(t.dataSource).touch(manager, id, { inputsChanged: false });
+    });
+  }
+
   /** Batches of a system with their stored headlines and states, written as the app writes them. */
   async function plantSystem(systemName: string, planned: readonly PlannedBatch[]): Promise<number[]> {
     const ids: number[] = [];
@@ -129,7 +139,7 @@ describe("K across temperatures (van 't Hoff)", () => {
     await t.services.batches.summariesIdle();
     const store = new BatchSummaryStore(t.dataSource);
     for (const [i, p] of planned.entries()) {
-      await t.dataSource.getRepository(Batch).update({ id: ids[i] }, { state: p.state });
+      await setState(ids[i]!, p.state);
       if (!p.model) continue;
       await store.writeNow(t.dataSource.manager, ids[i]!, {
         status: 'current',
@@ -449,9 +459,181 @@ describe("K across temperatures (van 't Hoff)", () => {
 
     it('when the migration makes the K columns again from the stored headlines, then the points read the same', async () => {
       const before = await page({ system: SYSTEM, pageSize: 200, includeUnapproved: 'true' });
-      await t.dataSource.undoLastMigration();
+      await t.dataSource.undoLastMigration(); // the systems' stored answers
+      await t.dataSource.undoLastMigration(); // the K columns
       await t.dataSource.runMigrations();
       expect(await page({ system: SYSTEM, pageSize: 200, includeUnapproved: 'true' })).toEqual(before);
+    });
+  });
+
+  describe("each system's answers stored until one of its batches changes", () => {
+    const S1 = 'Invented pair S1';
+    const S2 = 'Invented pair S2';
+    // Invented: three approved batches of a 1:1 pair each.
+    const plan = (prefix: string, k: readonly number[]): PlannedBatch[] =>
+      [15, 25, 35].map((temperatureC, i) => ({
+        name: `${prefix} ${temperatureC}`,
+        temperatureC,
+        state: 'approved',
+        model: '1:1',
+        k: k[i]!,
+      }));
+    let s1: number[];
+
+    const rowOf = async (systemName: string) =>
+      (await t.dataSource.manager.findOneByOrFail(TemperatureSystemRow, { systemName }))!;
+    const systemOf = async (systemName: string, includeUnapproved = false) =>
+      (
+        (
+          await (
+            await t.agent('scientist')
+          )
+            .get(`/api/temperatures?includeUnapproved=${includeUnapproved}`)
+            .expect(200)
+        ).body as SystemTemperatures[]
+      ).find((s) => s.systemName === systemName)!;
+    /** Put a note of our own in a system's stored answers: a read that returns it did not work them out. */
+    const markStored = async (systemName: string) => {
+      const row = await rowOf(systemName);
+      const answers = JSON.parse(row.answersJson!) as SystemAnswers;
+      answers.approved.note = 'stored';
+      answers.all.note = 'stored';
+      await t.dataSource.manager.update(
+        TemperatureSystemRow,
+        { systemName },
+        { answersJson: JSON.stringify(answers) },
+      );
+    };
+    const storeHeadline = (id: number, p: PlannedBatch) =>
+      new BatchSummaryStore(t.dataSource).writeNow(t.dataSource.manager, id, {
+        status: 'current',
+        source: 'analysis',
+        inputsHash: null,
+        engineVersion: t.services.batches.engineVersion,
+        error: null,
+        summary: headlineOf(p),
+        result: null,
+      });
+
+    beforeAll(async () => {
+      s1 = await plantSystem(S1, plan('S1', [1500, 1100, 820]));
+      await plantSystem(S2, plan('S2', [300, 250, 210]));
+    });
+
+    it('stores both answers at the generation they are of, and serves them while nothing changed', async () => {
+      const answer = await systemOf(S1);
+      expect(answer.counts).toEqual({ batches: 3, used: 3 });
+      const row = await rowOf(S1);
+      expect(row.answersGeneration).toBe(row.generation);
+      expect(row.answersFormat).toBe(ANSWERS_FORMAT);
+      const stored = JSON.parse(row.answersJson!) as SystemAnswers;
+      expect(stored.approved).toEqual(answer);
+      expect(stored.all).toEqual(await systemOf(S1, true));
+      await markStored(S1);
+      expect((await systemOf(S1)).note).toBe('stored');
+      expect((await systemOf(S1, true)).note).toBe('stored');
+    });
+
+    it('works a system out again after a headline of one of its batches is stored, and only that system', async () => {
+      await systemOf(S2);
+      await markStored(S1);
+      await markStored(S2);
+      const s2Before = await rowOf(S2);
+      await storeHeadline(s1[2]!, { ...plan('S1', [0, 0, 700])[2]!, k: 700 });
+      const s1After = await systemOf(S1);
+      expect(s1After.note).toBe("van 't Hoff fit over 3 batches at 3 temperatures (1:1).");
+      expect(s1After.groups.find((g) => g.temperatureC === 35)!.kGeometricMean).toBeCloseTo(700, 9);
+      // Source: simple-statistics linearRegression of ln K on 1/T (K), ΔH° = −R·slope.
+      const line = ss.linearRegression(
+        [
+          [15, 1500],
+          [25, 1100],
+          [35, 700],
+        ].map(([c, k]) => [1 / (c! + 273.15), Math.log(k!)]),
+      );
+      expect(s1After.vantHoff!.deltaHJPerMol).toBeCloseTo(-GAS_CONSTANT_J_PER_MOL_K * line.m, 4);
+      // The other system's batches did not change: its stored answer is still served.
+      expect(await rowOf(S2)).toEqual(s2Before);
+      expect((await systemOf(S2)).note).toBe('stored');
+    });
+
+    it('works it out again after a state change takes a batch out of the fit or puts it back', async () => {
+      await systemOf(S1);
+      await markStored(S1);
+      await setState(s1[0]!, 'open'); // reopened
+      const reopened = await systemOf(S1);
+      expect(reopened.counts).toEqual({ batches: 3, used: 2 });
+      expect((await systemOf(S1, true)).counts).toEqual({ batches: 3, used: 3 });
+      await setState(s1[0]!, 'approved');
+      expect((await systemOf(S1)).counts).toEqual({ batches: 3, used: 3 });
+    });
+
+    it('counts a new batch of the system at once, and a new system gets its row', async () => {
+      await systemOf(S1);
+      const [id] = await plantSystem(S1, [{ name: 'S1 40', temperatureC: 40, state: 'open' }]);
+      expect((await systemOf(S1)).counts).toEqual({ batches: 4, used: 3 });
+      const page = (
+        await (await t.agent('scientist')).get('/api/temperatures/points').query({ system: S1, pageSize: 10 })
+      ).body as TemperaturePointsPage;
+      expect(page.total).toBe(4);
+      expect(page.items.at(-1)).toMatchObject({ batchId: id, excludedBecause: 'not approved yet' });
+      await plantSystem('Invented pair S3', plan('S3', [10, 20, 30]).slice(0, 1));
+      expect((await rowOf('Invented pair S3')).generation).toBeGreaterThanOrEqual(1);
+      expect((await systemOf('Invented pair S3')).counts).toEqual({ batches: 1, used: 1 });
+    });
+
+    it('works the answers out again after a release that stores them in another format', async () => {
+      await systemOf(S2);
+      await markStored(S2);
+      await t.dataSource.manager.update(
+        TemperatureSystemRow,
+        { systemName: S2 },
+        { answersFormat: 'older/0' },
+      );
+      expect((await systemOf(S2)).note).toBe("van 't Hoff fit over 3 batches at 3 temperatures (1:1).");
+      expect((await rowOf(S2)).answersFormat).toBe(ANSWERS_FORMAT);
+    });
+
+    it('does not store answers worked out before a change that came in meanwhile', async () => {
+      const row = await rowOf(S2);
+      const answers = JSON.parse(row.answersJson!) as SystemAnswers;
+      await storeHeadline(
+        (await t.dataSource.manager.findOneByOrFail(Batch, { systemName: S2, temperatureC: 15 })).id,
+        { ...plan('S2', [310, 0, 0])[0]! },
+      );
+      // Answers of the generation before the change: not stored, the row stays stale.
+      await new TemperatureSystemStore(t.dataSource).save(S2, row.generation, {
+        ...answers,
+        approved: { ...answers.approved, note: 'too old' },
+      });
+      const after = await rowOf(S2);
+      expect(after.generation).toBe(row.generation + 1);
+      expect(after.answersGeneration).toBe(row.generation);
+      expect((await systemOf(S2)).groups[0]!.kGeometricMean).toBeCloseTo(310, 9);
+    });
+
+    it('after a batch change, works the stale answers out in the background before anyone reads them', async () => {
+      await systemOf(S1);
+      await storeHeadline(s1[1]!, { ...plan('S1', [0, 1050, 0])[1]! });
+      t.events.publish('batch.updated', { id: s1[1]! });
+      const deadline = Date.now() + 10_000;
+      let row = await rowOf(S1);
+      while (row.answersGeneration !== row.generation && Date.now() < deadline) {
+        await new Promise((resolve) => setTimeout(resolve, 50));
+        row = await rowOf(S1);
+      }
+      expect(row.answersGeneration).toBe(row.generation);
+      const stored = JSON.parse(row.answersJson!) as SystemAnswers;
+      expect(stored.approved.groups.find((g) => g.temperatureC === 25)!.kGeometricMean).toBeCloseTo(1050, 9);
+    });
+
+    it('when the migration makes the rows again, every system is there and answers the same', async () => {
+      const before = [await systemOf(S1), await systemOf(S2, true)];
+      await t.dataSource.undoLastMigration();
+      await t.dataSource.runMigrations();
+      const row = await rowOf(S1);
+      expect(row).toMatchObject({ generation: 1, answersGeneration: null, answersJson: null });
+      expect([await systemOf(S1), await systemOf(S2, true)]).toEqual(before);
     });
   });
 });
