@@ -2,8 +2,8 @@ import { Column, Entity, PrimaryColumn } from 'typeorm';
 
 /**
  * A batch's whole stored analysis: the result the headline comes from and the whole-spectrum part, with
- * the inputs hash and engine they are of (a reader checks these; no transaction ties the row to the
- * summary's). Kept apart from `batch_summaries` so the rows every list and count reads stay small (a
+ * the inputs hash and engine they are of (a reader checks these; the whole-spectrum part is added later,
+ * outside the headline's transaction). Kept apart from `batch_summaries` so the rows every list and count reads stay small (a
  * result is tens of kB).
  */
 @Entity('batch_analyses')

@@ -49,8 +49,7 @@ export class TemperaturesService {
 
   async systems(options: TemperaturesOptions = {}): Promise<SystemTemperatures[]> {
     const answers = [];
-    for (const row of await this.store.all()) {
-      const a = await this.answersOf(row);
+    for (const a of await this.answersOfAll(await this.store.all())) {
       if (a.all.counts.batches) answers.push(options.includeUnapproved ? a.all : a.approved);
     }
     return answers.sort((a, b) => (a.systemName < b.systemName ? -1 : a.systemName > b.systemName ? 1 : 0));
@@ -102,10 +101,7 @@ export class TemperaturesService {
       this.timer = null;
       if (this.refreshing) return this.refreshSoon(); // once the run under way ends
       this.refreshing = (async () => {
-        for (const row of await this.store.all()) {
-          if (this.closing) return;
-          if (!currentAnswers(row)) await this.answersOf(row);
-        }
+        if (!this.closing) await this.answersOfAll(await this.store.all());
       })()
         .catch((err: unknown) => {
           if (!this.closing) this.log('Could not store the Temperatures answers', err);
@@ -121,15 +117,27 @@ export class TemperaturesService {
    * A system's answers: the stored ones while current, else worked out from its batches and stored. The
    * generation is the one read before the batches: a change in between leaves the stored answers stale.
    */
-  private async answersOf(row: TemperatureSystemRow): Promise<SystemAnswers> {
+  private async answersOf(row: TemperatureSystemRow, batches?: SystemFitRow[]): Promise<SystemAnswers> {
     const stored = currentAnswers(row);
     if (stored) return stored;
-    const rows = await this.batches.systemFitRows(row.systemName);
+    const rows = batches ?? (await this.batches.systemFitRows(row.systemName));
     const answers = {
       approved: systemOf(row.systemName, rows, {}),
       all: systemOf(row.systemName, rows, { includeUnapproved: true }),
     };
     await this.store.save(row.systemName, row.generation, answers);
+    return answers;
+  }
+
+  /** The answers of these systems; when several are stale, their batches in one read of every system's. */
+  private async answersOfAll(rows: readonly TemperatureSystemRow[]): Promise<SystemAnswers[]> {
+    let bySystem: Map<string, SystemFitRow[]> | null = null;
+    if (rows.filter((row) => !currentAnswers(row)).length > 1) {
+      bySystem = new Map(rows.map((row) => [row.systemName, []]));
+      for (const batch of await this.batches.systemFitRows()) bySystem.get(batch.systemName)?.push(batch);
+    }
+    const answers: SystemAnswers[] = [];
+    for (const row of rows) answers.push(await this.answersOf(row, bySystem?.get(row.systemName)));
     return answers;
   }
 }
