@@ -140,13 +140,20 @@ const PAGE_PROBE = `(() => {
     new PerformanceObserver((list) => list.getEntries().forEach((e) => { w.__eqLong.push(e.duration); w.__eqLongAt.push(Math.round(e.startTime)); }))
       .observe({ type: 'longtask', buffered: true });
   } catch (e) {}
+  // No layout read in the mutation callback (it would force one inside the page's own task): once K and
+  // the map are in the document, the map's size is read in the next frame, where the frame lays out anyway.
+  let waiting = false;
   const check = () => {
-    if (w.__eqK !== null) return;
+    if (w.__eqK !== null || waiting) return;
     const k = document.querySelector('[data-testid="best-k-value"]');
     const map = document.querySelector('[data-testid="plate-map"]');
-    if (k && map && k.textContent && k.textContent.trim() && map.getBoundingClientRect().height > 0) {
-      w.__eqK = -1;
-      requestAnimationFrame(() => { w.__eqK = performance.now(); });
+    if (k && map && k.textContent && k.textContent.trim()) {
+      waiting = true;
+      requestAnimationFrame(() => {
+        waiting = false;
+        if (map.isConnected && map.getBoundingClientRect().height > 0) w.__eqK = performance.now();
+        else check();
+      });
     }
   };
   new MutationObserver(check).observe(document, { childList: true, subtree: true, characterData: true });
@@ -158,7 +165,7 @@ export const median = (xs: readonly number[]): number => {
   return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 };
 
-async function signedInContext(browser: Browser, url: string, email: string): Promise<BrowserContext> {
+export async function signedInContext(browser: Browser, url: string, email: string): Promise<BrowserContext> {
   const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
   await ctx.request.get(`${url}/api/auth/me`);
   const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
@@ -171,7 +178,7 @@ async function signedInContext(browser: Browser, url: string, email: string): Pr
 }
 
 /** Sends the demo instrument's three 25 °C exports in as a signed-in upload and waits until all are stored. */
-async function fillDemo25(ctx: BrowserContext, url: string): Promise<number> {
+export async function fillDemo25(ctx: BrowserContext, url: string): Promise<number> {
   const batches = (
     (await (await ctx.request.get(`${url}/api/batches?q=CX-25`)).json()) as {
       items: { id: number; name: string; runId: string; profileId: number; fileCount: number }[];

@@ -16,7 +16,13 @@ export class App {
     afterNextRender(() => {
       const idle = globalThis.requestIdleCallback ?? ((run: () => void) => setTimeout(run, 1));
       idle(() => getSupportedInputTypes());
-      idle(() => void import('./shared/format/date-format').then((m) => idle(() => m.warmDateFormats())));
+      idle(
+        () =>
+          void import('./shared/format/date-format').then((m) => {
+            const next = () => idle(() => m.warmDateFormat() && next());
+            next();
+          }),
+      );
     });
   }
 }

@@ -1,5 +1,5 @@
 import { BreakpointObserver } from '@angular/cdk/layout';
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, afterNextRender, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -55,6 +55,16 @@ export class Shell {
     { initialValue: typeof matchMedia === 'function' && matchMedia('(max-width: 840px)').matches },
   );
   protected readonly dark = signal(isDark());
+  /**
+   * The routed page comes a task after the frame's first render: each render then stays well under 50 ms
+   * on a busy 2-core machine, and the side navigation measures its width (a forced layout) while the
+   * page is not there yet. The outlet then shows the route already activated.
+   */
+  protected readonly pageShown = signal(false);
+
+  constructor() {
+    afterNextRender(() => setTimeout(() => this.pageShown.set(true)));
+  }
 
   protected toggleDark(): void {
     this.dark.update((dark) => !dark);

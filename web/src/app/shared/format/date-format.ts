@@ -43,11 +43,14 @@ export function formatDateTime(
 }
 
 /**
- * Makes the browser's date formatters once, in an idle moment at start: the first one loads the locale's
- * calendar data (about 10 ms), which would otherwise lengthen the first render that shows a date.
+ * Makes the browser's date formatters, one per call, in idle moments at start: each costs 5–10 ms (the
+ * first loads the locale's calendar data), which would otherwise lengthen the first render that shows a
+ * date. Returns how many are left to make, so the caller can ask for another idle moment.
  */
-export function warmDateFormats(): void {
-  for (const shown of Object.keys(OPTIONS) as DateShown[]) formatter(shown).format(0);
+export function warmDateFormat(): number {
+  const shown = (Object.keys(OPTIONS) as DateShown[]).filter((s) => !formatters.has(`${s}||`));
+  if (shown.length) formatter(shown[0]!).format(0);
+  return Math.max(0, shown.length - 1);
 }
 
 /** `{{ at | eqDate }}`, `{{ at | eqDate: 'date' }}`, `{{ at | eqDate: 'time' }}`: see `formatDateTime`. */
