@@ -137,21 +137,24 @@ describe("K across temperatures (van 't Hoff)", () => {
     }
     // Each new batch's own (empty) headline first, then the planted ones over them.
     await t.services.batches.summariesIdle();
-    const store = new BatchSummaryStore(t.dataSource);
     for (const [i, p] of planned.entries()) {
       await setState(ids[i]!, p.state);
-      if (!p.model) continue;
-      await store.writeNow(t.dataSource.manager, ids[i]!, {
-        status: 'current',
-        source: 'analysis',
-        inputsHash: null,
-        engineVersion: t.services.batches.engineVersion,
-        error: null,
-        summary: headlineOf(p),
-        result: null,
-      });
+      if (p.model) await storeHeadline(ids[i]!, p);
     }
     return ids;
+  }
+
+  /** A planned batch's headline stored as an approval stores one (its system moves on a generation). */
+  function storeHeadline(id: number, p: PlannedBatch): Promise<void> {
+    return new BatchSummaryStore(t.dataSource).writeNow(t.dataSource.manager, id, {
+      status: 'current',
+      source: 'analysis',
+      inputsHash: null,
+      engineVersion: t.services.batches.engineVersion,
+      error: null,
+      summary: headlineOf(p),
+      result: null,
+    });
   }
 
   beforeAll(async () => {
@@ -504,17 +507,6 @@ describe("K across temperatures (van 't Hoff)", () => {
         { answersJson: JSON.stringify(answers) },
       );
     };
-    const storeHeadline = (id: number, p: PlannedBatch) =>
-      new BatchSummaryStore(t.dataSource).writeNow(t.dataSource.manager, id, {
-        status: 'current',
-        source: 'analysis',
-        inputsHash: null,
-        engineVersion: t.services.batches.engineVersion,
-        error: null,
-        summary: headlineOf(p),
-        result: null,
-      });
-
     beforeAll(async () => {
       s1 = await plantSystem(S1, plan('S1', [1500, 1100, 820]));
       await plantSystem(S2, plan('S2', [300, 250, 210]));
