@@ -1,7 +1,8 @@
-// After ng build: preloads the fonts every page needs, then writes a brotli (.br) and a gzip (.gz) copy
-// beside each text file of dist/web/browser, which the server sends when the browser accepts it
-// (server/src/web-app/serve-web-app.ts). Compressing once at build time allows the slowest, smallest
-// settings (brotli quality 11, gzip level 9) that would cost too much per request.
+// After ng build: preloads the fonts every page needs, marks the app's scripts for eager compilation,
+// then writes a brotli (.br) and a gzip (.gz) copy beside each text file of dist/web/browser, which the
+// server sends when the browser accepts it (server/src/web-app/serve-web-app.ts). Compressing once at
+// build time allows the slowest, smallest settings (brotli quality 11, gzip level 9) that would cost too
+// much per request.
 // Usage: node scripts/compress-web.mjs [dist/web/browser]   (run by npm run build:web)
 import fs from 'node:fs';
 import path from 'node:path';
@@ -33,6 +34,29 @@ function preloadFonts() {
   html = html.replace('</head>', `${links.join('')}</head>`);
   fs.writeFileSync(indexFile, html);
   return links.length;
+}
+
+/**
+ * V8's explicit compile hint, first line of a script: compile all its functions while the script streams
+ * in, on a background thread, instead of each one on the page's main thread the first time it runs. A
+ * script loaded is one the page is about to run (the app splits by page), so little is compiled for
+ * nothing; on a cold batch page this took the tasks over 50 ms of wall time from 20–21 to 6–11 over six
+ * interleaved loads on a 2-core machine (K no later). Browsers without the hint read a comment.
+ */
+const COMPILE_HINT = '//# allFunctionsCalledOnLoad\n';
+const APP_SCRIPT = /^(main|chunk)-[A-Za-z0-9_-]+\.js$/;
+
+function addCompileHints() {
+  let count = 0;
+  for (const name of fs.readdirSync(dir)) {
+    if (!APP_SCRIPT.test(name)) continue;
+    const file = path.join(dir, name);
+    const code = fs.readFileSync(file, 'utf8');
+    if (code.startsWith(COMPILE_HINT)) continue;
+    fs.writeFileSync(file, COMPILE_HINT + code);
+    count++;
+  }
+  return count;
 }
 
 function filesUnder(d) {
@@ -71,8 +95,9 @@ function compressAll() {
 
 const started = Date.now();
 const preloads = preloadFonts();
+const hinted = addCompileHints();
 const { count, raw, br, gz } = compressAll();
 const kb = (n) => `${(n / 1024).toFixed(0)} kB`;
 console.log(
-  `compress-web: ${preloads} font preloads; ${count} files ${kb(raw)} → brotli ${kb(br)}, gzip ${kb(gz)} in ${Date.now() - started} ms`,
+  `compress-web: ${preloads} font preloads; ${hinted} scripts hinted for eager compilation; ${count} files ${kb(raw)} → brotli ${kb(br)}, gzip ${kb(gz)} in ${Date.now() - started} ms`,
 );

@@ -118,6 +118,12 @@ describe('the batch page arrives compressed, with its icons, and analyses what-i
     expect(scripts.length).toBeGreaterThan(3);
     for (const res of scripts) {
       const headers = await res.allHeaders();
+      // Each app script (not the analysis worker's) asks V8 to compile it while it streams in, off the
+      // page's main thread.
+      if (/\/(main|chunk)-[^/]+\.js$/.test(res.url())) {
+        const firstLine = (await res.text()).split('\n', 1)[0];
+        expect([res.url(), firstLine]).toEqual([res.url(), '//# allFunctionsCalledOnLoad']);
+      }
       expect(headers['cache-control']).toContain('immutable');
       // The build leaves files under 512 bytes uncompressed: compression would not pay for itself.
       if ((await res.body()).length < 512) continue;
