@@ -26,11 +26,16 @@ export async function markTemperatureSystemChanged(manager: EntityManager, batch
   );
 }
 
-/** The stored answers of a row, when they are of its current generation and of this format. */
+/** Whether a row's stored answers are of its current generation and of this format. */
+export function answersAreCurrent(row: TemperatureSystemRow): boolean {
+  return (
+    row.answersGeneration === row.generation && row.answersFormat === ANSWERS_FORMAT && !!row.answersJson
+  );
+}
+
+/** The stored answers of a row, when they are current. */
 export function currentAnswers(row: TemperatureSystemRow): SystemAnswers | null {
-  if (row.answersGeneration !== row.generation || row.answersFormat !== ANSWERS_FORMAT || !row.answersJson)
-    return null;
-  return JSON.parse(row.answersJson) as SystemAnswers;
+  return answersAreCurrent(row) ? (JSON.parse(row.answersJson!) as SystemAnswers) : null;
 }
 
 /** Reads and writes of `temperature_systems`. */

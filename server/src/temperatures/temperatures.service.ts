@@ -10,7 +10,12 @@ import type { BatchesService } from '../batches/batches.service';
 import type { SystemFitRow } from '../batches/batch-list';
 import type { EventBus } from '../events/event-bus';
 import type { TemperatureSystemRow } from './temperature-system.entity';
-import { type SystemAnswers, type TemperatureSystemStore, currentAnswers } from './temperature-systems';
+import {
+  type SystemAnswers,
+  type TemperatureSystemStore,
+  answersAreCurrent,
+  currentAnswers,
+} from './temperature-systems';
 
 export type { SystemTemperatures, TemperaturePoint } from '../contracts/temperatures';
 
@@ -132,7 +137,7 @@ export class TemperaturesService {
   /** The answers of these systems; when several are stale, their batches in one read of every system's. */
   private async answersOfAll(rows: readonly TemperatureSystemRow[]): Promise<SystemAnswers[]> {
     let bySystem: Map<string, SystemFitRow[]> | null = null;
-    if (rows.filter((row) => !currentAnswers(row)).length > 1) {
+    if (rows.filter((row) => !answersAreCurrent(row)).length > 1) {
       bySystem = new Map(rows.map((row) => [row.systemName, []]));
       for (const batch of await this.batches.systemFitRows()) bySystem.get(batch.systemName)?.push(batch);
     }
