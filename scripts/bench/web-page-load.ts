@@ -165,7 +165,7 @@ export const median = (xs: readonly number[]): number => {
   return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 };
 
-export async function signedInContext(browser: Browser, url: string, email: string): Promise<BrowserContext> {
+async function signedInContext(browser: Browser, url: string, email: string): Promise<BrowserContext> {
   const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
   await ctx.request.get(`${url}/api/auth/me`);
   const xsrf = (await ctx.cookies()).find((c) => c.name === 'XSRF-TOKEN')?.value ?? '';
@@ -178,7 +178,7 @@ export async function signedInContext(browser: Browser, url: string, email: stri
 }
 
 /** Sends the demo instrument's three 25 °C exports in as a signed-in upload and waits until all are stored. */
-export async function fillDemo25(ctx: BrowserContext, url: string): Promise<number> {
+async function fillDemo25(ctx: BrowserContext, url: string): Promise<number> {
   const batches = (
     (await (await ctx.request.get(`${url}/api/batches?q=CX-25`)).json()) as {
       items: { id: number; name: string; runId: string; profileId: number; fileCount: number }[];

@@ -117,6 +117,8 @@ export class BatchSummaryStore {
     batchId: number,
     options: { inputsChanged: boolean; sampleIds?: readonly string[]; now?: string },
   ): Promise<void> {
+    // A new batch, a state change (approval, reopening) or new files move its system's Temperatures on.
+    await markTemperatureSystemChanged(manager, batchId);
     const now = options.now ?? new Date().toISOString();
     const files = await storedFilesOf(manager, batchId);
     const lastActivityAt = files.lastFileAt && files.lastFileAt > now ? files.lastFileAt : now;
@@ -145,7 +147,6 @@ export class BatchSummaryStore {
         kCi95High: null,
         kText: null,
       });
-      await markTemperatureSystemChanged(manager, batchId);
       return;
     }
     const changes: Partial<BatchSummaryRow> = {
@@ -165,8 +166,6 @@ export class BatchSummaryStore {
     } else {
       await manager.update(BatchSummaryRow, { batchId }, changes);
     }
-    // A state change (approval, reopening) moves the batch in or out of its system's fit.
-    await markTemperatureSystemChanged(manager, batchId);
   }
 
   /** The whole stored analysis of a batch (result and whole-spectrum part) when it is of these inputs and engine. */

@@ -484,7 +484,7 @@ describe("K across temperatures (van 't Hoff)", () => {
     let s1: number[];
 
     const rowOf = async (systemName: string) =>
-      (await t.dataSource.manager.findOneByOrFail(TemperatureSystemRow, { systemName }))!;
+      t.dataSource.manager.findOneByOrFail(TemperatureSystemRow, { systemName });
     const systemOf = async (systemName: string, includeUnapproved = false) =>
       (
         (
