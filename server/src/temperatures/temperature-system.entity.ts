@@ -17,8 +17,8 @@ export class TemperatureSystemRow {
   @Column('integer', { name: 'answers_generation', nullable: true })
   answersGeneration!: number | null;
 
-  /** Which shape of answer `answers_json` holds (a release that changes it works the answers out again). */
-  @Column('varchar', { name: 'answers_format', length: 40, nullable: true })
+  /** The shape and analysis engine `answers_json` is of (`answersFormat`); another is worked out again. */
+  @Column('varchar', { name: 'answers_format', length: 160, nullable: true })
   answersFormat!: string | null;
 
   /** `{ approved, all }`: the system's answer over approved batches only, and over all of them. */

@@ -5,6 +5,14 @@ import { TemperatureSystemRow } from './temperature-system.entity';
 /** The shape of the stored answers; change it when `SystemTemperatures` or how it is worked out changes. */
 export const ANSWERS_FORMAT = 'system-temperatures/1';
 
+/**
+ * What stored answers must have been worked out with to be served: this shape and this analysis engine
+ * (the van 't Hoff fit is the analysis module's), as a stored batch result is checked against its engine.
+ */
+export function answersFormat(engineVersion: string): string {
+  return `${ANSWERS_FORMAT}@${engineVersion}`;
+}
+
 /** A system's two answers: over its approved batches only, and over all its batches. */
 export interface SystemAnswers {
   approved: SystemTemperatures;
@@ -26,16 +34,14 @@ export async function markTemperatureSystemChanged(manager: EntityManager, batch
   );
 }
 
-/** Whether a row's stored answers are of its current generation and of this format. */
-export function answersAreCurrent(row: TemperatureSystemRow): boolean {
-  return (
-    row.answersGeneration === row.generation && row.answersFormat === ANSWERS_FORMAT && !!row.answersJson
-  );
+/** Whether a row's stored answers are of its current generation and of this format (`answersFormat`). */
+export function answersAreCurrent(row: TemperatureSystemRow, format: string): boolean {
+  return row.answersGeneration === row.generation && row.answersFormat === format && !!row.answersJson;
 }
 
 /** The stored answers of a row, when they are current. */
-export function currentAnswers(row: TemperatureSystemRow): SystemAnswers | null {
-  return answersAreCurrent(row) ? (JSON.parse(row.answersJson!) as SystemAnswers) : null;
+export function currentAnswers(row: TemperatureSystemRow, format: string): SystemAnswers | null {
+  return answersAreCurrent(row, format) ? (JSON.parse(row.answersJson!) as SystemAnswers) : null;
 }
 
 /** Reads and writes of `temperature_systems`. */
@@ -55,13 +61,13 @@ export class TemperatureSystemStore {
    * Store answers worked out at `generation` (read before the batches were), unless a change has moved
    * the system on since: those answers may already miss it, and the next read works them out again.
    */
-  async save(systemName: string, generation: number, answers: SystemAnswers): Promise<void> {
+  async save(systemName: string, generation: number, format: string, answers: SystemAnswers): Promise<void> {
     await this.dataSource
       .createQueryBuilder()
       .update(TemperatureSystemRow)
       .set({
         answersGeneration: generation,
-        answersFormat: ANSWERS_FORMAT,
+        answersFormat: format,
         answersJson: JSON.stringify(answers),
       })
       .where('system_name = :systemName AND generation = :generation', { systemName, generation })

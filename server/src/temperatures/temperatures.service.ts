@@ -14,6 +14,7 @@ import {
   type SystemAnswers,
   type TemperatureSystemStore,
   answersAreCurrent,
+  answersFormat,
   currentAnswers,
 } from './temperature-systems';
 
@@ -90,6 +91,11 @@ export class TemperaturesService {
     return { items, total, page: query.page, pageSize: query.pageSize };
   }
 
+  /** The format stored answers must carry to be served: their shape and this server's analysis engine. */
+  private get format(): string {
+    return answersFormat(this.batches.engineVersion);
+  }
+
   /** Stop background work and wait for what runs (shutdown). */
   async close(): Promise<void> {
     this.closing = true;
@@ -123,21 +129,21 @@ export class TemperaturesService {
    * generation is the one read before the batches: a change in between leaves the stored answers stale.
    */
   private async answersOf(row: TemperatureSystemRow, batches?: SystemFitRow[]): Promise<SystemAnswers> {
-    const stored = currentAnswers(row);
+    const stored = currentAnswers(row, this.format);
     if (stored) return stored;
     const rows = batches ?? (await this.batches.systemFitRows(row.systemName));
     const answers = {
       approved: systemOf(row.systemName, rows, {}),
       all: systemOf(row.systemName, rows, { includeUnapproved: true }),
     };
-    await this.store.save(row.systemName, row.generation, answers);
+    await this.store.save(row.systemName, row.generation, this.format, answers);
     return answers;
   }
 
   /** The answers of these systems; when several are stale, their batches in one read of every system's. */
   private async answersOfAll(rows: readonly TemperatureSystemRow[]): Promise<SystemAnswers[]> {
     let bySystem: Map<string, SystemFitRow[]> | null = null;
-    if (rows.filter((row) => !answersAreCurrent(row)).length > 1) {
+    if (rows.filter((row) => !answersAreCurrent(row, this.format)).length > 1) {
       bySystem = new Map(rows.map((row) => [row.systemName, []]));
       for (const batch of await this.batches.systemFitRows()) bySystem.get(batch.systemName)?.push(batch);
     }

@@ -17,7 +17,7 @@ export class TemperatureSystems1765300000000 implements MigrationInterface {
           { name: 'system_name', type: 'varchar', length: '120', isPrimary: true },
           { name: 'generation', type: 'integer' },
           { name: 'answers_generation', type: 'integer', isNullable: true },
-          { name: 'answers_format', type: 'varchar', length: '40', isNullable: true },
+          { name: 'answers_format', type: 'varchar', length: '160', isNullable: true },
           { name: 'answers_json', type: 'text', isNullable: true },
         ],
       }),

@@ -14,7 +14,12 @@ import {
 import { Batch, type BatchState } from '../../batches/batch.entity';
 import { BatchSummaryStore } from '../../batches/batch-summary-store';
 import { TemperatureSystemRow } from '../temperature-system.entity';
-import { ANSWERS_FORMAT, type SystemAnswers, TemperatureSystemStore } from '../temperature-systems';
+import {
+  ANSWERS_FORMAT,
+  type SystemAnswers,
+  TemperatureSystemStore,
+  answersFormat,
+} from '../temperature-systems';
 import type { BatchResultSummary } from '../../contracts/batches';
 import type {
   SystemTemperatures,
@@ -517,7 +522,7 @@ describe("K across temperatures (van 't Hoff)", () => {
       expect(answer.counts).toEqual({ batches: 3, used: 3 });
       const row = await rowOf(S1);
       expect(row.answersGeneration).toBe(row.generation);
-      expect(row.answersFormat).toBe(ANSWERS_FORMAT);
+      expect(row.answersFormat).toBe(answersFormat(t.services.batches.engineVersion));
       const stored = JSON.parse(row.answersJson!) as SystemAnswers;
       expect(stored.approved).toEqual(answer);
       expect(stored.all).toEqual(await systemOf(S1, true));
@@ -574,7 +579,7 @@ describe("K across temperatures (van 't Hoff)", () => {
       expect((await systemOf('Invented pair S3')).counts).toEqual({ batches: 1, used: 1 });
     });
 
-    it('works the answers out again after a release that stores them in another format', async () => {
+    it('works the answers out again after a release that stores them in another format, or another analysis engine', async () => {
       await systemOf(S2);
       await markStored(S2);
       await t.dataSource.manager.update(
@@ -583,7 +588,15 @@ describe("K across temperatures (van 't Hoff)", () => {
         { answersFormat: 'older/0' },
       );
       expect((await systemOf(S2)).note).toBe("van 't Hoff fit over 3 batches at 3 temperatures (1:1).");
-      expect((await rowOf(S2)).answersFormat).toBe(ANSWERS_FORMAT);
+      expect((await rowOf(S2)).answersFormat).toBe(answersFormat(t.services.batches.engineVersion));
+      // The same shape worked out by another analysis engine (the fit is the analysis module's).
+      await markStored(S2);
+      await t.dataSource.manager.update(
+        TemperatureSystemRow,
+        { systemName: S2 },
+        { answersFormat: `${ANSWERS_FORMAT}@0.0.0+000000000000` },
+      );
+      expect((await systemOf(S2)).note).toBe("van 't Hoff fit over 3 batches at 3 temperatures (1:1).");
     });
 
     it('does not store answers worked out before a change that came in meanwhile', async () => {
@@ -594,7 +607,7 @@ describe("K across temperatures (van 't Hoff)", () => {
         { ...plan('S2', [310, 0, 0])[0]! },
       );
       // Answers of the generation before the change: not stored, the row stays stale.
-      await new TemperatureSystemStore(t.dataSource).save(S2, row.generation, {
+      await new TemperatureSystemStore(t.dataSource).save(S2, row.generation, row.answersFormat!, {
         ...answers,
         approved: { ...answers.approved, note: 'too old' },
       });
