@@ -117,8 +117,19 @@ export class BatchSummaryStore {
     batchId: number,
     options: { inputsChanged: boolean; sampleIds?: readonly string[]; now?: string },
   ): Promise<void> {
+    await this.touchRow(manager, batchId, options);
     // A new batch, a state change (approval, reopening) or new files move its system's Temperatures on.
+    // Last, as in every writer: the summary row is locked before the system's, so two changes of one batch
+    // (a review and a headline written in the background) cannot each hold what the other waits for.
     await markTemperatureSystemChanged(manager, batchId);
+  }
+
+  /** `touch`'s own row: made for a new batch, else updated. */
+  private async touchRow(
+    manager: EntityManager,
+    batchId: number,
+    options: { inputsChanged: boolean; sampleIds?: readonly string[]; now?: string },
+  ): Promise<void> {
     const now = options.now ?? new Date().toISOString();
     const files = await storedFilesOf(manager, batchId);
     const lastActivityAt = files.lastFileAt && files.lastFileAt > now ? files.lastFileAt : now;
