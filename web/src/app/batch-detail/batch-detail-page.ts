@@ -1,11 +1,9 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, Injector, computed, inject, input, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
-import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTab, MatTabContent, MatTabGroup } from '@angular/material/tabs';
 import { RouterLink } from '@angular/router';
 import type { Exclusion } from '@equilight/analysis';
@@ -58,6 +56,7 @@ import { type EpsilonSourceValue, type ExclusionRow, WhatIfPanel } from './what-
 import { WhatIfRunner } from './what-if-runner';
 import { DateTimePipe } from '../shared/format/date-format';
 import { TableScroll } from '../shared/table-scroll/table-scroll';
+import { Notice } from '../shared/page/notice';
 
 /** Quiet time after the last live event before the page asks again: a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -112,8 +111,8 @@ export class BatchDetailPage {
   /** Lab managers and admins reach the Intake page and the raw files (the intake routes' roles). */
   protected readonly seesIntake = computed(() => this.auth.hasRole('admin', 'lab_manager'));
   private readonly live = inject(LiveEventsService);
-  private readonly dialog = inject(MatDialog);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly injector = inject(Injector);
+  private readonly notice = inject(Notice);
   private readonly whatIfRunner = inject(WhatIfRunner);
 
   /** Route parameter `:id` (component input binding). */
@@ -385,8 +384,9 @@ export class BatchDetailPage {
     const sourceId = Number(value.replace('batch:', ''));
     const candidate = this.epsilonCandidates().find((c) => c.batchId === sourceId);
     if (!candidate) {
-      this.snackBar.open('That batch no longer offers a calibration at this wavelength.', 'OK', {
-        duration: 6000,
+      void this.notice.show('That batch no longer offers a calibration at this wavelength.', {
+        action: 'OK',
+        durationMs: 6000,
       });
       return;
     }
@@ -452,18 +452,7 @@ export class BatchDetailPage {
 
   /** The dialog (and its form fields) loads on first use, not with the page. */
   private askReason(data: ReasonDialogData) {
-    return from(import('./reason-dialog')).pipe(
-      switchMap(({ ReasonDialog }) =>
-        this.dialog
-          .open<InstanceType<typeof ReasonDialog>, ReasonDialogData, string>(ReasonDialog, {
-            data,
-            width: '480px',
-            maxWidth: '95vw',
-          })
-          .afterClosed(),
-      ),
-      filter((text): text is string => !!text),
-    );
+    return from(import('./reason-dialog')).pipe(switchMap((m) => m.askReason(this.injector, data)));
   }
 
   private run(request: ReturnType<BatchDetailService['review']>, done: string, after?: () => void): void {
@@ -472,12 +461,12 @@ export class BatchDetailPage {
       next: () => {
         this.busy.set(false);
         after?.();
-        this.snackBar.open(done, undefined, { duration: 3000 });
+        void this.notice.show(done, { durationMs: 3000 });
         this.reload$.next();
       },
       error: (err: unknown) => {
         this.busy.set(false);
-        this.snackBar.open(apiErrorMessage(err), 'OK');
+        void this.notice.show(apiErrorMessage(err), { action: 'OK' });
       },
     });
   }

@@ -1,9 +1,10 @@
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { ChangeDetectionStrategy, Component, type Injector, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialog, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { type Observable, filter } from 'rxjs';
 
 export interface ReasonDialogData {
   title: string;
@@ -77,4 +78,16 @@ export class ReasonDialog {
     }
     this.ref.close(value);
   }
+}
+
+/**
+ * Opens the dialog and gives the text written, or nothing when it is cancelled. A page imports this file
+ * on first use, so the dialog, its overlay and its form fields do not load with the page.
+ */
+export function askReason(injector: Injector, data: ReasonDialogData): Observable<string> {
+  return injector
+    .get(MatDialog)
+    .open<ReasonDialog, ReasonDialogData, string>(ReasonDialog, { data, width: '480px', maxWidth: '95vw' })
+    .afterClosed()
+    .pipe(filter((text): text is string => !!text));
 }
