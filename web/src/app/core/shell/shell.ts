@@ -56,9 +56,10 @@ export class Shell {
   );
   protected readonly dark = signal(isDark());
   /**
-   * The routed page comes a task after the frame's first render: each render then stays well under 50 ms
-   * on a busy 2-core machine, and the side navigation measures its width (a forced layout) while the
-   * page is not there yet. The outlet then shows the route already activated.
+   * The navigation's links and the routed page come a task after the frame's first render: each render
+   * then stays well under 50 ms on a busy 2-core machine, and the side navigation measures its width (a
+   * forced layout; the drawer's width is fixed in CSS) while neither is there yet. The outlet then shows
+   * the route already activated.
    */
   protected readonly pageShown = signal(false);
 
