@@ -134,7 +134,8 @@ describe('the batch page arrives compressed, with its icons, and analyses what-i
     // render: the analysis module is marked free of side effects, so importing one helper from it does not
     // bring the rest. Its error text survives minification.
     const withMatrices: string[] = [];
-    for (const res of scripts) if ((await res.text()).includes('Matrix must be square')) withMatrices.push(res.url());
+    for (const res of scripts)
+      if ((await res.text()).includes('Matrix must be square')) withMatrices.push(res.url());
     expect(withMatrices).toEqual([]);
     expect(fontUrls.size).toBeGreaterThan(0);
     for (const url of fontUrls) {
