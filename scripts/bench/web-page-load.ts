@@ -140,6 +140,14 @@ const PAGE_PROBE = `(() => {
     new PerformanceObserver((list) => list.getEntries().forEach((e) => { w.__eqLong.push(e.duration); w.__eqLongAt.push(Math.round(e.startTime)); }))
       .observe({ type: 'longtask', buffered: true });
   } catch (e) {}
+  // Long animation frames with what ran in them (script, how it was called, ms), for BENCH_TASKS=1.
+  w.__eqLoaf = [];
+  try {
+    new PerformanceObserver((list) => list.getEntries().forEach((e) => w.__eqLoaf.push(
+      Math.round(e.startTime) + '+' + Math.round(e.duration) + ' (render ' + Math.round(e.startTime + e.duration - e.renderStart) + '): ' +
+      e.scripts.map((s) => (s.invoker || s.invokerType) + ' ' + (s.sourceURL.split('/').pop() || '') + ' ' + Math.round(s.duration)).join(', '))))
+      .observe({ type: 'long-animation-frame', buffered: true });
+  } catch (e) {}
   // No layout read in the mutation callback (it would force one inside the page's own task): once K and
   // the map are in the document, the map's size is read in the next frame, where the frame lays out anyway.
   let waiting = false;
@@ -243,7 +251,7 @@ async function measureOnce(browser: Browser, page: Page, url: string, traced: bo
       `      K at ${k.toFixed(0)} ms; long tasks (start+duration): ${await page.evaluate(() => {
         const w = window as unknown as { __eqLong: number[]; __eqLongAt: number[] };
         return w.__eqLongAt.map((at, i) => `${at}+${w.__eqLong[i].toFixed(0)}`).join(', ');
-      })}`,
+      })}\n        long frames: ${await page.evaluate(() => (window as unknown as { __eqLoaf: string[] }).__eqLoaf.join(' | '))}`,
     );
   await cdp.detach();
   const cpu = trace ? longCpuTasks(trace) : { page: [], browser: [] };

@@ -1,6 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
+import { inNextTask } from '../routing/in-next-task';
 import type { Role, User } from './user';
 
 /**
@@ -23,12 +24,15 @@ export class AuthService {
     return !!user && roles.includes(user.role);
   }
 
-  /** Ask the server who we are; a 401 simply means nobody. */
+  /**
+   * Ask the server who we are; a 401 simply means nobody. At the app's start the check is handed over in
+   * the next task, so the app starts after, not in, the task that evaluated the schema library.
+   */
   async refresh(): Promise<User | null> {
     try {
       const [me, isUser] = await Promise.all([
         firstValueFrom(this.http.get<unknown>('/api/auth/me')),
-        userCheck(),
+        userCheck().then(inNextTask),
       ]);
       this.user.set(isUser(me) ? me : null);
     } catch {

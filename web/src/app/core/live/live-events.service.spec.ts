@@ -129,8 +129,8 @@ describe('LiveEventsService', () => {
   });
 
   it('when the connection keeps failing then waits 1 s, 2 s, 4 s … up to 30 s between attempts', async () => {
+    const service = await setup(true); // signing in waits a real task (AuthService.refresh)
     jest.useFakeTimers();
-    const service = await setup(true);
     const waits = [1000, 2000, 4000, 8000, 16000, 30000, 30000];
     for (const wait of waits) {
       const before = FakeSocket.all.length;
@@ -144,8 +144,8 @@ describe('LiveEventsService', () => {
   });
 
   it('when a reconnect succeeds then the next failure waits 1 s again', async () => {
+    const service = await setup(true); // signing in waits a real task (AuthService.refresh)
     jest.useFakeTimers();
-    const service = await setup(true);
     FakeSocket.last.drop();
     jest.advanceTimersByTime(1000);
     FakeSocket.last.drop();
@@ -161,8 +161,8 @@ describe('LiveEventsService', () => {
   });
 
   it('when the person signs out then closes the socket and stops reconnecting', async () => {
+    const service = await setup(true); // signing in waits a real task (AuthService.refresh)
     jest.useFakeTimers();
-    const service = await setup(true);
     const socket = FakeSocket.last;
     socket.open();
     auth.clear();
