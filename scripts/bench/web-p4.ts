@@ -57,6 +57,8 @@ interface Summary {
   /** The browser's own long tasks (navigation commit), not the page's code. */
   browserTasks?: number;
   maxBrowserTaskMs?: number;
+  /** Median CPU of the renderer's main thread per load (absent in figures recorded before it was measured). */
+  mainThreadCpuMs?: number;
 }
 
 function summarise(runs: readonly LoadRun[]): Summary {
@@ -71,6 +73,7 @@ function summarise(runs: readonly LoadRun[]): Summary {
     maxLongCpuTaskMs: cpu.length ? Math.max(...cpu) : 0,
     browserTasks: runs.flatMap((r) => r.browserTasksCpuMs).length,
     maxBrowserTaskMs: Math.max(0, ...runs.flatMap((r) => r.browserTasksCpuMs)),
+    mainThreadCpuMs: median(runs.map((r) => r.mainThreadCpuMs)),
   };
 }
 
@@ -108,10 +111,13 @@ function printLoad(figures: LoadFigures, sameRun: LoadFigures | null): void {
     console.log(
       `          the browser's own tasks over ${AIM.longTaskMs} ms of CPU (navigation commit, no page work inside): ${now.browserTasks}, longest ${now.maxBrowserTaskMs?.toFixed(0)} ms`,
     );
+    console.log(
+      `          the page's main thread: ${now.mainThreadCpuMs?.toFixed(0)} ms of CPU per load (median; navigation → 1 s after K)`,
+    );
     const b = before?.[kind];
     if (b)
       console.log(
-        `          before (${before?.measured}): K ${b.kMs.toFixed(0)} ms, ${b.kb.toFixed(1)} kB, ${b.longTasks} long tasks (longest ${b.maxLongTaskMs.toFixed(0)} ms)${b.longCpuTasks === undefined ? '' : `, ${b.longCpuTasks} by CPU (longest ${b.maxLongCpuTaskMs?.toFixed(0)} ms)`} → K ${(b.kMs / now.kMs).toFixed(1)}× sooner, ${(b.kb / Math.max(now.kb, 0.1)).toFixed(1)}× fewer bytes`,
+        `          before (${before?.measured}): K ${b.kMs.toFixed(0)} ms, ${b.kb.toFixed(1)} kB, ${b.longTasks} long tasks (longest ${b.maxLongTaskMs.toFixed(0)} ms)${b.longCpuTasks === undefined ? '' : `, ${b.longCpuTasks} by CPU (longest ${b.maxLongCpuTaskMs?.toFixed(0)} ms)`}${b.mainThreadCpuMs === undefined ? '' : `, main thread ${b.mainThreadCpuMs.toFixed(0)} ms of CPU`} → K ${(b.kMs / now.kMs).toFixed(1)}× sooner, ${(b.kb / Math.max(now.kb, 0.1)).toFixed(1)}× fewer bytes`,
       );
   }
   if (RECORD_BEFORE) {
