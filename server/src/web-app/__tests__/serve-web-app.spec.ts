@@ -128,6 +128,18 @@ describe('serving the built web app', () => {
     expect(icon.headers['cache-control']).toBe('no-cache');
   });
 
+  it('when a script of an earlier build is asked for, then it is a 404, not the index page', async () => {
+    for (const url of ['/chunk-ZZZZ9999.js', '/media/gone-AAAA0000.woff2', '/styles-QQQQ1111.css']) {
+      const res = await request(t.app).get(url).set('Accept', '*/*');
+      expect(res.status).toBe(404);
+      expect(res.headers['content-type']).toMatch(/^text\/plain/);
+      expect(res.text).not.toContain('<eq-root>');
+    }
+    // A client route with a dot inside a segment, not at its end, is still a page.
+    const page = await request(t.app).get('/batches/7/x.y/z');
+    expect(page.text).toContain('<eq-root>');
+  });
+
   it('when an API answer is large JSON, then it goes out compressed', async () => {
     const res = await get(base, '/api/openapi.json', 'gzip');
     expect(res.headers['content-encoding']).toBe('gzip');
