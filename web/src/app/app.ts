@@ -18,10 +18,13 @@ export class App {
       idle(() => getSupportedInputTypes());
       idle(
         () =>
-          void import('./shared/format/date-format').then((m) => {
-            const next = () => idle(() => m.warmDateFormat() && next());
-            next();
-          }),
+          void import('./shared/format/date-format').then(
+            (m) => {
+              const next = () => idle(() => m.warmDateFormat() && next());
+              next();
+            },
+            () => undefined, // only a head start: the first date shown makes the formatters instead
+          ),
       );
     });
   }

@@ -17,6 +17,7 @@ import { LiveEventsService } from '../core/live/live-events.service';
 import { type BatchComment, BatchCommentsService } from './batch-comments.service';
 import { CommentForm } from './comment-form';
 import { CommentItem } from './comment-item';
+import { PartNotLoaded } from '../shared/page/part-not-loaded';
 
 /** Quiet time after the last live comment event before the list is asked again. */
 export const COMMENTS_LIVE_DEBOUNCE_MS = 300;
@@ -51,7 +52,7 @@ export function threadsOf(comments: readonly BatchComment[]): CommentThread[] {
  */
 @Component({
   selector: 'eq-batch-comments',
-  imports: [CommentForm, CommentItem],
+  imports: [CommentForm, CommentItem, PartNotLoaded],
   templateUrl: './batch-comments.html',
   styleUrl: './batch-comments.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

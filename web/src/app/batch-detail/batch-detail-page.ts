@@ -57,6 +57,8 @@ import { WhatIfRunner } from './what-if-runner';
 import { DateTimePipe } from '../shared/format/date-format';
 import { TableScroll } from '../shared/table-scroll/table-scroll';
 import { Notice } from '../shared/page/notice';
+import { loadOrOfferReload } from '../core/routing/app-updated';
+import { PartNotLoaded } from '../shared/page/part-not-loaded';
 
 /** Quiet time after the last live event before the page asks again: a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -79,6 +81,7 @@ export function concernsBatch(event: LiveEvent, batchId: number): boolean {
 @Component({
   selector: 'eq-batch-detail-page',
   imports: [
+    PartNotLoaded,
     DateTimePipe,
     TableScroll,
     RouterLink,
@@ -450,9 +453,14 @@ export class BatchDetailPage {
     }).subscribe((reason) => this.run(this.service.reopen(batch.id, reason), 'Reopened.'));
   }
 
-  /** The dialog (and its form fields) loads on first use, not with the page. */
+  /**
+   * The dialog (and its form fields) loads on first use, not with the page; when its script cannot be
+   * fetched, the person is offered a reload and the action does not go ahead.
+   */
   private askReason(data: ReasonDialogData) {
-    return from(import('./reason-dialog')).pipe(switchMap((m) => m.askReason(this.injector, data)));
+    return from(loadOrOfferReload(() => import('./reason-dialog'))).pipe(
+      switchMap((m) => (m ? m.askReason(this.injector, data) : EMPTY)),
+    );
   }
 
   private run(request: ReturnType<BatchDetailService['review']>, done: string, after?: () => void): void {

@@ -19,6 +19,7 @@ import { CANDIDATE_STOICHIOMETRIES } from '../batches/batch';
 import type { EpsilonCandidate } from './batch-analysis';
 import { formatNumber } from '../shared/format/number-format';
 import { REASON_MIN_LENGTH } from './reason-dialog';
+import { PartNotLoaded } from '../shared/page/part-not-loaded';
 
 export interface ExclusionRow extends Exclusion {
   /** True for an exclusion made in this what-if and not saved yet. */
@@ -42,6 +43,7 @@ export type EpsilonSourceValue = string;
 @Component({
   selector: 'eq-what-if-panel',
   imports: [
+    PartNotLoaded,
     ReactiveFormsModule,
     MatFormFieldModule,
     MatInputModule,

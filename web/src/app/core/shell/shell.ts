@@ -16,6 +16,7 @@ import { LiveEventsService } from '../live/live-events.service';
 import { ROLE_LABELS } from '../auth/user';
 import { isDark, setDark } from './theme';
 import { navItemsFor } from './navigation';
+import { loadOrOfferReload } from '../routing/app-updated';
 
 @Component({
   selector: 'eq-shell',
@@ -73,8 +74,8 @@ export class Shell {
   }
 
   protected async openNotificationSettings(): Promise<void> {
-    const { NotificationSettingsDialog } = await import('../../notifications/notification-settings-dialog');
-    this.dialog.open(NotificationSettingsDialog, { width: '480px' });
+    const loaded = await loadOrOfferReload(() => import('../../notifications/notification-settings-dialog'));
+    if (loaded) this.dialog.open(loaded.NotificationSettingsDialog, { width: '480px' });
   }
 
   protected async signOut(): Promise<void> {

@@ -1,4 +1,5 @@
 import { Injectable, Injector, inject } from '@angular/core';
+import { loadOrOfferReload } from '../../core/routing/app-updated';
 
 export interface NoticeOptions {
   /** The button's text ("OK"); none, and the notice has no button. */
@@ -10,14 +11,16 @@ export interface NoticeOptions {
 /**
  * A short message at the foot of the screen (Material's snack-bar). The snack-bar and its overlay load on
  * the first message, not with the page that may show one: a page that rarely speaks pays nothing for it
- * while it renders.
+ * while it renders. When the snack-bar's script cannot be fetched (the app was updated since the page
+ * opened), the message comes with the offer to reload, not lost.
  */
 @Injectable({ providedIn: 'root' })
 export class Notice {
   private readonly injector = inject(Injector);
 
   async show(message: string, options: NoticeOptions = {}): Promise<void> {
-    const { MatSnackBar } = await import('@angular/material/snack-bar');
-    this.injector.get(MatSnackBar).open(message, options.action, { duration: options.durationMs });
+    const loaded = await loadOrOfferReload(() => import('@angular/material/snack-bar'), message);
+    if (!loaded) return;
+    this.injector.get(loaded.MatSnackBar).open(message, options.action, { duration: options.durationMs });
   }
 }
