@@ -15,7 +15,6 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatSelectModule } from '@angular/material/select';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { EMPTY, catchError, distinctUntilChanged, forkJoin, of, switchMap } from 'rxjs';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
@@ -33,6 +32,7 @@ import {
 import { BatchesService } from './batches.service';
 import { CONCENTRATION_UNITS, type ConcentrationUnit, isMassUnit } from '../shared/format/number-format';
 import { DateTimePipe } from '../shared/format/date-format';
+import { Notice } from '../shared/page/notice';
 
 function positive(control: AbstractControl<number | null>): ValidationErrors | null {
   const v = control.value;
@@ -85,7 +85,7 @@ function reportingChecks(group: AbstractControl): ValidationErrors | null {
 export class BatchFormPage {
   private readonly batches = inject(BatchesService);
   private readonly router = inject(Router);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly notice = inject(Notice);
   private readonly fb = inject(FormBuilder).nonNullable;
 
   protected readonly candidateOptions = CANDIDATE_STOICHIOMETRIES;
@@ -299,8 +299,9 @@ export class BatchFormPage {
     this.batches.create(this.body()).subscribe({
       next: (batch) => {
         this.saving.set(false);
-        this.snackBar.open(`Batch "${batch.name}" created; it waits for its files.`, 'OK', {
-          duration: 5000,
+        void this.notice.show(`Batch "${batch.name}" created; it waits for its files.`, {
+          action: 'OK',
+          durationMs: 5000,
         });
         void this.router.navigate(['/batches']);
       },

@@ -5,7 +5,6 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatMenuModule } from '@angular/material/menu';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
@@ -28,6 +27,7 @@ import { TokenDialog, type TokenDialogData } from './token-dialog';
 import { type WatcherCredential, type WatcherPresence, WatchersService } from './watchers.service';
 import { DateTimePipe, formatDateTime } from '../shared/format/date-format';
 import { TableScroll } from '../shared/table-scroll/table-scroll';
+import { Notice } from '../shared/page/notice';
 
 /**
  * The instruments whose exports Equilight accepts, how they are read, whether a watcher watches each
@@ -55,7 +55,7 @@ import { TableScroll } from '../shared/table-scroll/table-scroll';
 export class InstrumentsPage implements OnInit {
   private readonly instruments = inject(InstrumentsService);
   private readonly dialog = inject(MatDialog);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly notice = inject(Notice);
   private readonly watchers = inject(WatchersService);
   /** Admins change profiles and tokens; lab managers only read them. */
   protected readonly canEdit = inject(AuthService).hasRole('admin');
@@ -182,7 +182,7 @@ export class InstrumentsPage implements OnInit {
         });
         this.load();
       },
-      error: (err: unknown) => this.snackBar.open(apiErrorMessage(err), 'OK'),
+      error: (err: unknown) => void this.notice.show(apiErrorMessage(err), { action: 'OK' }),
     });
   }
 
@@ -196,10 +196,10 @@ export class InstrumentsPage implements OnInit {
       .pipe(switchMap(() => this.watchers.revoke(watcher.id)))
       .subscribe({
         next: () => {
-          this.snackBar.open(`${watcher.name} revoked`, 'OK', { duration: 4000 });
+          void this.notice.show(`${watcher.name} revoked`, { action: 'OK', durationMs: 4000 });
           this.load();
         },
-        error: (err: unknown) => this.snackBar.open(apiErrorMessage(err), 'OK'),
+        error: (err: unknown) => void this.notice.show(apiErrorMessage(err), { action: 'OK' }),
       });
   }
 
@@ -221,7 +221,7 @@ export class InstrumentsPage implements OnInit {
         if (result.kind === 'created') {
           this.showToken(result.created.profile, result.created.token);
         } else {
-          this.snackBar.open(`${result.profile.name} saved`, 'OK', { duration: 4000 });
+          void this.notice.show(`${result.profile.name} saved`, { action: 'OK', durationMs: 4000 });
         }
         this.load();
       });
@@ -241,7 +241,7 @@ export class InstrumentsPage implements OnInit {
           this.showToken(updated, token);
           this.load();
         },
-        error: (err: unknown) => this.snackBar.open(apiErrorMessage(err), 'OK'),
+        error: (err: unknown) => void this.notice.show(apiErrorMessage(err), { action: 'OK' }),
       });
   }
 
@@ -255,10 +255,10 @@ export class InstrumentsPage implements OnInit {
       .pipe(switchMap(() => this.instruments.revokeToken(profile.id)))
       .subscribe({
         next: (updated) => {
-          this.snackBar.open(`Token of ${updated.name} revoked`, 'OK', { duration: 4000 });
+          void this.notice.show(`Token of ${updated.name} revoked`, { action: 'OK', durationMs: 4000 });
           this.load();
         },
-        error: (err: unknown) => this.snackBar.open(apiErrorMessage(err), 'OK'),
+        error: (err: unknown) => void this.notice.show(apiErrorMessage(err), { action: 'OK' }),
       });
   }
 

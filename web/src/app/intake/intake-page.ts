@@ -9,7 +9,6 @@ import { MatInputModule } from '@angular/material/input';
 import { MatPaginatorModule, type PageEvent } from '@angular/material/paginator';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSortModule, type Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
@@ -48,6 +47,7 @@ import { IntakeStatusLabel } from './intake-status-label';
 import { UploadDialog, type UploadDialogData, type UploadProfileChoice } from './upload-dialog';
 import { DateTimePipe } from '../shared/format/date-format';
 import { TableScroll } from '../shared/table-scroll/table-scroll';
+import { Notice } from '../shared/page/notice';
 
 /** Quiet time after the last live event before the page asks again; a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -83,7 +83,7 @@ export class IntakePage {
   private readonly instruments = inject(InstrumentsService);
   private readonly live = inject(LiveEventsService);
   private readonly dialog = inject(MatDialog);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly notice = inject(Notice);
 
   protected readonly columns = [
     'status',
@@ -247,8 +247,9 @@ export class IntakePage {
       .afterClosed()
       .subscribe((assigned) => {
         if (!assigned) return;
-        this.snackBar.open(`${file.originalName} assigned to batch #${assigned.batchId}`, 'OK', {
-          duration: 4000,
+        void this.notice.show(`${file.originalName} assigned to batch #${assigned.batchId}`, {
+          action: 'OK',
+          durationMs: 4000,
         });
         this.reload$.next();
       });
@@ -265,12 +266,15 @@ export class IntakePage {
     this.intake.requeue(file.id).subscribe({
       next: () => {
         done();
-        this.snackBar.open(`${file.originalName} (#${file.id}) re-queued`, 'OK', { duration: 4000 });
+        void this.notice.show(`${file.originalName} (#${file.id}) re-queued`, {
+          action: 'OK',
+          durationMs: 4000,
+        });
         this.reload$.next();
       },
       error: (err: unknown) => {
         done();
-        this.snackBar.open(apiErrorMessage(err), 'OK');
+        void this.notice.show(apiErrorMessage(err), { action: 'OK' });
       },
     });
   }

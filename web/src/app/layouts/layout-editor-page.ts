@@ -6,7 +6,6 @@ import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router } from '@angular/router';
 import { EMPTY, Subject, catchError, finalize, of, startWith, switchMap } from 'rxjs';
 import { AuthService } from '../core/auth/auth.service';
@@ -29,6 +28,7 @@ import { RoleBadge } from '../shared/role-code/role-badge';
 import { VersionHistory } from '../shared/version-history/version-history';
 import type { Layout, LayoutPosition } from './layout';
 import { LayoutsService } from './layouts.service';
+import { Notice } from '../shared/page/notice';
 
 export function positionsToCells(positions: readonly LayoutPosition[]): Record<string, PlateCell> {
   const cells: Record<string, PlateCell> = {};
@@ -70,7 +70,7 @@ export function cellsToPositions(cells: Readonly<Record<string, PlateCell>>): La
 export class LayoutEditorPage {
   private readonly layouts = inject(LayoutsService);
   private readonly router = inject(Router);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly notice = inject(Notice);
   protected readonly canEdit = inject(AuthService).hasRole('admin', 'lab_manager');
 
   /** Route parameter; absent for a new layout. */
@@ -277,7 +277,10 @@ export class LayoutEditorPage {
       next: (saved) => {
         this.saving.set(false);
         this.applyLayout(saved);
-        this.snackBar.open(`${saved.name} saved as version ${saved.version}`, 'OK', { duration: 4000 });
+        void this.notice.show(`${saved.name} saved as version ${saved.version}`, {
+          action: 'OK',
+          durationMs: 4000,
+        });
         if (!existing) void this.router.navigate(['/layouts', saved.id], { replaceUrl: true });
       },
       error: (err: unknown) => {

@@ -23,7 +23,6 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router } from '@angular/router';
 import {
   EMPTY,
@@ -71,6 +70,7 @@ import {
 } from './manifest-review';
 import { type ManifestInput, ManifestsService } from './manifests.service';
 import { TableScroll } from '../shared/table-scroll/table-scroll';
+import { Notice } from '../shared/page/notice';
 
 type RowGroup = FormGroup<Record<ManifestColumn, FormControl<string>>>;
 
@@ -115,7 +115,7 @@ export class ManifestPage {
   private readonly manifests = inject(ManifestsService);
   private readonly layoutsApi = inject(LayoutsService);
   private readonly router = inject(Router);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly notice = inject(Notice);
   private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
   private readonly fb = inject(FormBuilder).nonNullable;
   protected readonly canEdit = inject(AuthService).hasRole('admin', 'lab_manager');
@@ -375,7 +375,10 @@ export class ManifestPage {
       next: (saved) => {
         this.busy.set(false);
         this.applyManifest(saved);
-        this.snackBar.open(`${saved.name} saved as version ${saved.version}`, 'OK', { duration: 4000 });
+        void this.notice.show(`${saved.name} saved as version ${saved.version}`, {
+          action: 'OK',
+          durationMs: 4000,
+        });
         if (!existing) void this.router.navigate(['/manifests', saved.id], { replaceUrl: true });
       },
       error: (err: unknown) => {

@@ -5,7 +5,6 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { ROLE_LABELS, type User } from '../core/auth/user';
@@ -15,6 +14,7 @@ import { sortedDataSource } from '../shared/page/sorted-data-source';
 import { PeopleService } from './people.service';
 import { PersonDialog, type PersonDialogData, type PersonDialogResult } from './person-dialog';
 import { TableScroll } from '../shared/table-scroll/table-scroll';
+import { Notice } from '../shared/page/notice';
 
 /**
  * What a person's account is now: invited (no password set yet, so they cannot sign in), active, or
@@ -58,7 +58,7 @@ export function personStatus(user: User): {
 export class PeoplePage implements OnInit {
   private readonly people = inject(PeopleService);
   private readonly dialog = inject(MatDialog);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly notice = inject(Notice);
 
   protected readonly columns = ['displayName', 'email', 'role', 'active', 'actions'];
   private readonly sort = viewChild(MatSort);
@@ -102,9 +102,12 @@ export class PeoplePage implements OnInit {
         if (!result) return;
         if (result.kind === 'created') {
           this.inviteLink.set(result.created.setPasswordUrl ?? null);
-          this.snackBar.open(`${result.created.user.displayName} added`, 'OK', { duration: 4000 });
+          void this.notice.show(`${result.created.user.displayName} added`, {
+            action: 'OK',
+            durationMs: 4000,
+          });
         } else {
-          this.snackBar.open(`${result.user.displayName} saved`, 'OK', { duration: 4000 });
+          void this.notice.show(`${result.user.displayName} saved`, { action: 'OK', durationMs: 4000 });
         }
         this.load();
       });

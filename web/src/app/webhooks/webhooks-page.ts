@@ -6,7 +6,6 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatPaginatorModule, type PageEvent } from '@angular/material/paginator';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { ConfirmDialog, type ConfirmDialogData } from '../instruments/confirm-dialog';
 import { DeliveriesTable } from './deliveries-table';
@@ -18,6 +17,7 @@ import {
   type WebhookDelivery,
   WebhooksService,
 } from './webhooks.service';
+import { Notice } from '../shared/page/notice';
 
 /** Admins: the lab's LIMS/ELN receivers, and the log of what was sent to them. */
 @Component({
@@ -38,7 +38,7 @@ import {
 export class WebhooksPage implements OnInit {
   private readonly webhooks = inject(WebhooksService);
   private readonly dialog = inject(MatDialog);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly notice = inject(Notice);
 
   protected readonly eventLabels = WEBHOOK_EVENT_LABELS;
   protected readonly hooks = signal<Webhook[]>([]);
@@ -114,7 +114,7 @@ export class WebhooksPage implements OnInit {
       .afterClosed()
       .subscribe((created) => {
         if (!created) return;
-        this.snackBar.open(`Webhook ${created.url} added`, 'OK', { duration: 4000 });
+        void this.notice.show(`Webhook ${created.url} added`, { action: 'OK', durationMs: 4000 });
         this.loadHooks();
       });
   }
@@ -155,7 +155,7 @@ export class WebhooksPage implements OnInit {
       next: (updated) => {
         done();
         this.deliveries.update((list) => list.map((d) => (d.id === updated.id ? updated : d)));
-        this.snackBar.open('Queued to be sent again', 'OK', { duration: 3000 });
+        void this.notice.show('Queued to be sent again', { action: 'OK', durationMs: 3000 });
       },
       error: (err: unknown) => {
         done();
