@@ -59,6 +59,8 @@ interface Summary {
   maxBrowserTaskMs?: number;
   /** Median CPU of the renderer's main thread per load (absent in figures recorded before it was measured). */
   mainThreadCpuMs?: number;
+  /** Median over the loads of each load's longest page task by CPU time. */
+  longestTaskCpuMs?: number;
 }
 
 function summarise(runs: readonly LoadRun[]): Summary {
@@ -74,6 +76,7 @@ function summarise(runs: readonly LoadRun[]): Summary {
     browserTasks: runs.flatMap((r) => r.browserTasksCpuMs).length,
     maxBrowserTaskMs: Math.max(0, ...runs.flatMap((r) => r.browserTasksCpuMs)),
     mainThreadCpuMs: median(runs.map((r) => r.mainThreadCpuMs)),
+    longestTaskCpuMs: median(runs.map((r) => r.longestTaskCpuMs)),
   };
 }
 
@@ -112,7 +115,7 @@ function printLoad(figures: LoadFigures, sameRun: LoadFigures | null): void {
       `          the browser's own tasks over ${AIM.longTaskMs} ms of CPU (navigation commit, no page work inside): ${now.browserTasks}, longest ${now.maxBrowserTaskMs?.toFixed(0)} ms`,
     );
     console.log(
-      `          the page's main thread: ${now.mainThreadCpuMs?.toFixed(0)} ms of CPU per load (median; navigation → 1 s after K)`,
+      `          the page's main thread: ${now.mainThreadCpuMs?.toFixed(0)} ms of CPU per load, its longest task ${now.longestTaskCpuMs?.toFixed(0)} ms of CPU (medians; navigation → 1 s after K)`,
     );
     const b = before?.[kind];
     if (b)
