@@ -120,7 +120,7 @@ function printLoad(figures: LoadFigures, sameRun: LoadFigures | null): void {
     const b = before?.[kind];
     if (b)
       console.log(
-        `          before (${before?.measured}): K ${b.kMs.toFixed(0)} ms, ${b.kb.toFixed(1)} kB, ${b.longTasks} long tasks (longest ${b.maxLongTaskMs.toFixed(0)} ms)${b.longCpuTasks === undefined ? '' : `, ${b.longCpuTasks} by CPU (longest ${b.maxLongCpuTaskMs?.toFixed(0)} ms)`}${b.mainThreadCpuMs === undefined ? '' : `, main thread ${b.mainThreadCpuMs.toFixed(0)} ms of CPU`} → K ${(b.kMs / now.kMs).toFixed(1)}× sooner, ${(b.kb / Math.max(now.kb, 0.1)).toFixed(1)}× fewer bytes`,
+        `          before (${before?.measured}): K ${b.kMs.toFixed(0)} ms, ${b.kb.toFixed(1)} kB, ${b.longTasks} long tasks (longest ${b.maxLongTaskMs.toFixed(0)} ms)${b.longCpuTasks === undefined ? '' : `, ${b.longCpuTasks} by CPU (longest ${b.maxLongCpuTaskMs?.toFixed(0)} ms)`}${b.mainThreadCpuMs === undefined ? '' : `, main thread ${b.mainThreadCpuMs.toFixed(0)} ms of CPU`}${b.longestTaskCpuMs === undefined ? '' : ` (longest task ${b.longestTaskCpuMs.toFixed(0)})`} → K ${(b.kMs / now.kMs).toFixed(1)}× sooner, ${(b.kb / Math.max(now.kb, 0.1)).toFixed(1)}× fewer bytes`,
       );
   }
   if (RECORD_BEFORE) {

@@ -125,6 +125,25 @@ export function longCpuTasks(trace: Buffer): {
     if (ownWork && cpuMs > longestPageMs) [longestPageMs, longestPage] = [cpuMs, task];
     if (cpuMs > 50) (ownWork ? page : browser).push(cpuMs);
   }
+  // BENCH_TIMELINE=1: every page task of 15 ms of CPU or more, in order (ms from the first, CPU/wall).
+  const shown = process.env['BENCH_TIMELINE']
+    ? onMain.filter((t) => t.name === 'RunTask' && (t.tdur ?? 0) >= 15_000 && hasOwnWork(t))
+    : [];
+  if (shown.length)
+    console.log(
+      `      tasks: ${shown
+        .map((task) => {
+          const end = task.ts + (task.dur ?? 0);
+          const top = work
+            .filter((e) => e.pid === task.pid && e.tid === task.tid && e.ts >= task.ts && e.ts <= end)
+            .filter((e) => e.name !== 'v8.callFunction' && e.name !== 'FunctionCall')
+            .sort((a, b) => (b.tdur ?? 0) - (a.tdur ?? 0))
+            .slice(0, 4)
+            .map((e) => `${e.name} ${((e.tdur ?? 0) / 1000).toFixed(0)}`);
+          return `${((task.ts - onMain[0].ts) / 1000).toFixed(0)}: ${((task.tdur ?? 0) / 1000).toFixed(0)}/${((task.dur ?? 0) / 1000).toFixed(0)} (${top.join(', ')})`;
+        })
+        .join('\n             ')}`,
+    );
   if (process.env['BENCH_TASKS'] && longestPage) {
     const task = longestPage;
     const end = task.ts + (task.dur ?? 0);

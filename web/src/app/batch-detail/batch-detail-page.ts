@@ -59,6 +59,7 @@ import { TableScroll } from '../shared/table-scroll/table-scroll';
 import { Notice } from '../shared/page/notice';
 import { loadOrOfferReload } from '../core/routing/app-updated';
 import { PartNotLoaded } from '../shared/page/part-not-loaded';
+import { prepareRoleImages } from '../shared/role-code/role-style';
 
 /** Quiet time after the last live event before the page asks again: a burst of files costs one request. */
 export const LIVE_REFRESH_DEBOUNCE_MS = 300;
@@ -293,6 +294,7 @@ export class BatchDetailPage {
   protected readonly kUnit = kUnitOf;
 
   constructor() {
+    prepareRoleImages();
     toObservable(this.batchId)
       .pipe(
         switchMap((id) =>
