@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { lazySchema } from './lazy-schema';
 import { ROLES } from './roles';
 
 /**
@@ -7,11 +8,11 @@ import { ROLES } from './roles';
  */
 
 /** Who a signed-in person is (the words themselves are in roles.ts). */
-export const roleSchema = z.enum(ROLES);
+export const roleSchema = /* @__PURE__ */ lazySchema(() => z.enum(ROLES));
 
 /** How positions are laid out: a plate of 96 or 384 wells, or a numbered sequence of cuvettes. */
 export const PLATE_FORMATS = ['96', '384', 'cuvette'] as const;
-export const plateFormatSchema = z.enum(PLATE_FORMATS);
+export const plateFormatSchema = /* @__PURE__ */ lazySchema(() => z.enum(PLATE_FORMATS));
 export type PlateFormat = z.infer<typeof plateFormatSchema>;
 export const PLATE_FORMAT_LABELS: Record<PlateFormat, string> = {
   '96': '96-well plate',
@@ -20,7 +21,7 @@ export const PLATE_FORMAT_LABELS: Record<PlateFormat, string> = {
 };
 
 export const INSTRUMENT_KINDS = ['plate_reader', 'cuvette_spectrophotometer'] as const;
-export const instrumentKindSchema = z.enum(INSTRUMENT_KINDS);
+export const instrumentKindSchema = /* @__PURE__ */ lazySchema(() => z.enum(INSTRUMENT_KINDS));
 export type InstrumentKind = z.infer<typeof instrumentKindSchema>;
 export const KIND_LABELS: Record<InstrumentKind, string> = {
   plate_reader: 'Plate reader',
@@ -29,7 +30,7 @@ export const KIND_LABELS: Record<InstrumentKind, string> = {
 
 /** How an instrument writes its readings. */
 export const FILE_FORMATS = ['long_table', 'plate_grid', 'spectrum', 'jcamp_dx'] as const;
-export const fileFormatSchema = z.enum(FILE_FORMATS);
+export const fileFormatSchema = /* @__PURE__ */ lazySchema(() => z.enum(FILE_FORMATS));
 export type FileFormat = z.infer<typeof fileFormatSchema>;
 export const FILE_FORMAT_LABELS: Record<FileFormat, string> = {
   long_table: 'Long table',
@@ -72,7 +73,7 @@ export const ENCODING_LABELS: Record<TextEncoding, string> = {
 
 /** Where a batch stands. Every state has its own icon and word, so colour is never the only cue. */
 export const BATCH_STATES = ['open', 'reviewed', 'approved'] as const;
-export const batchStateSchema = z.enum(BATCH_STATES);
+export const batchStateSchema = /* @__PURE__ */ lazySchema(() => z.enum(BATCH_STATES));
 export type BatchState = z.infer<typeof batchStateSchema>;
 export const BATCH_STATE_DISPLAY: Record<BatchState, { label: string; icon: string }> = {
   open: { label: 'Open', icon: 'pending' },
@@ -92,7 +93,7 @@ export const INTAKE_STATUSES = [
   'quarantined',
   'unassigned',
 ] as const;
-export const intakeStatusSchema = z.enum(INTAKE_STATUSES);
+export const intakeStatusSchema = /* @__PURE__ */ lazySchema(() => z.enum(INTAKE_STATUSES));
 export type IntakeStatus = z.infer<typeof intakeStatusSchema>;
 export const INTAKE_STATUS_DISPLAY: Record<IntakeStatus, { label: string; icon: string; hint: string }> = {
   queued: { label: 'Queued', icon: 'schedule', hint: 'Waiting to be parsed' },
@@ -124,7 +125,7 @@ export const AUDIT_ENTITIES = [
   'webhook',
   'watcher',
 ] as const;
-export const auditEntitySchema = z.enum(AUDIT_ENTITIES);
+export const auditEntitySchema = /* @__PURE__ */ lazySchema(() => z.enum(AUDIT_ENTITIES));
 export type AuditEntity = z.infer<typeof auditEntitySchema>;
 export const AUDIT_ENTITY_LABELS: Record<AuditEntity, string> = {
   batch: 'Batch',
@@ -143,7 +144,7 @@ export type ManifestSource = (typeof MANIFEST_SOURCES)[number];
 
 /** What a webhook receiver may subscribe to. */
 export const WEBHOOK_EVENTS = ['batch.approved', 'batch.qc_failed', 'file.quarantined'] as const;
-export const webhookEventSchema = z.enum(WEBHOOK_EVENTS);
+export const webhookEventSchema = /* @__PURE__ */ lazySchema(() => z.enum(WEBHOOK_EVENTS));
 export type WebhookEvent = z.infer<typeof webhookEventSchema>;
 export const WEBHOOK_EVENT_LABELS: Record<WebhookEvent, string> = {
   'batch.approved': 'Batch approved',
@@ -151,11 +152,13 @@ export const WEBHOOK_EVENT_LABELS: Record<WebhookEvent, string> = {
   'file.quarantined': 'File quarantined',
 };
 export const DELIVERY_STATUSES = ['pending', 'delivered', 'failed'] as const;
-export const deliveryStatusSchema = z.enum(DELIVERY_STATUSES);
+export const deliveryStatusSchema = /* @__PURE__ */ lazySchema(() => z.enum(DELIVERY_STATUSES));
 export type DeliveryStatus = z.infer<typeof deliveryStatusSchema>;
 
 /** A drop sub-folder's name: letters, digits, - or _ (no slashes or dots), so it is never a path. */
-export const dropFolderNameSchema = z
-  .string()
-  .trim()
-  .regex(/^[A-Za-z0-9][A-Za-z0-9_-]{0,79}$/, 'must be letters, digits, - or _ (no slashes or dots)');
+export const dropFolderNameSchema = /* @__PURE__ */ lazySchema(() =>
+  z
+    .string()
+    .trim()
+    .regex(/^[A-Za-z0-9][A-Za-z0-9_-]{0,79}$/, 'must be letters, digits, - or _ (no slashes or dots)'),
+);

@@ -21,13 +21,13 @@ import { apiErrorMessage } from '../core/http/auth.interceptor';
 import {
   CANDIDATE_STOICHIOMETRIES,
   type CalibrationModel,
-  DEFAULT_SETTINGS,
   FORMAT_LABELS,
   type InstrumentChoice,
   type LayoutChoice,
   type ManifestChoice,
   type NewBatch,
   type VersionChoice,
+  defaultFormSettings,
 } from './batch';
 import { BatchesService } from './batches.service';
 import { CONCENTRATION_UNITS, type ConcentrationUnit, isMassUnit } from '../shared/format/number-format';
@@ -91,6 +91,7 @@ export class BatchFormPage {
   protected readonly candidateOptions = CANDIDATE_STOICHIOMETRIES;
   protected readonly formatLabels = FORMAT_LABELS;
 
+  private readonly defaults = defaultFormSettings();
   protected readonly form = this.fb.group({
     name: this.fb.control('', [Validators.required, Validators.maxLength(120)]),
     profileId: this.fb.control<number | null>(null, Validators.required),
@@ -107,36 +108,36 @@ export class BatchFormPage {
       {
         wavelengthNm: this.fb.control<number | null>(null, [Validators.min(100), Validators.max(3300)]),
         pathLengthCm: this.fb.control<number | null>(null, [positive, Validators.max(100)]),
-        candidates: this.fb.control<string[]>([...DEFAULT_SETTINGS.candidates], atLeastOne),
-        calibrationModel: this.fb.control<CalibrationModel>(DEFAULT_SETTINGS.calibrationModel),
-        linearRangeMaxAbsorbance: this.fb.control(DEFAULT_SETTINGS.linearRangeMaxAbsorbance, [
+        candidates: this.fb.control<string[]>([...this.defaults.candidates], atLeastOne),
+        calibrationModel: this.fb.control<CalibrationModel>(this.defaults.calibrationModel),
+        linearRangeMaxAbsorbance: this.fb.control(this.defaults.linearRangeMaxAbsorbance, [
           Validators.required,
           positive,
           Validators.max(10),
         ]),
-        r2Min: this.fb.control(DEFAULT_SETTINGS.r2Min, [
+        r2Min: this.fb.control(this.defaults.r2Min, [
           Validators.required,
           Validators.min(0),
           Validators.max(1),
         ]),
-        replicateCvMaxPercent: this.fb.control(DEFAULT_SETTINGS.replicateCvMaxPercent, [
+        replicateCvMaxPercent: this.fb.control(this.defaults.replicateCvMaxPercent, [
           Validators.required,
           positive,
           Validators.max(100),
         ]),
-        kCvMaxPercent: this.fb.control(DEFAULT_SETTINGS.kCvMaxPercent, [
+        kCvMaxPercent: this.fb.control(this.defaults.kCvMaxPercent, [
           Validators.required,
           positive,
           Validators.max(1000),
         ]),
-        concentrationUnit: this.fb.control<ConcentrationUnit>(DEFAULT_SETTINGS.concentrationUnit),
+        concentrationUnit: this.fb.control<ConcentrationUnit>(this.defaults.concentrationUnit),
         molarMassGPerMol: this.fb.control<number | null>(null, [positive, Validators.max(1e7)]),
-        recoveryLowPct: this.fb.control<number | null>(DEFAULT_SETTINGS.recoveryLimitsPct[0], [
+        recoveryLowPct: this.fb.control<number | null>(this.defaults.recoveryLimitsPct[0], [
           Validators.required,
           Validators.min(0),
           Validators.max(1000),
         ]),
-        recoveryHighPct: this.fb.control<number | null>(DEFAULT_SETTINGS.recoveryLimitsPct[1], [
+        recoveryHighPct: this.fb.control<number | null>(this.defaults.recoveryLimitsPct[1], [
           Validators.required,
           Validators.min(0),
           Validators.max(1000),
@@ -149,7 +150,7 @@ export class BatchFormPage {
   private readonly unitChoice = toSignal(
     this.form.controls.settings.controls.concentrationUnit.valueChanges,
     {
-      initialValue: DEFAULT_SETTINGS.concentrationUnit,
+      initialValue: this.defaults.concentrationUnit,
     },
   );
   /** mg/L and µg/L need the analyte's molar mass. */

@@ -72,15 +72,17 @@ export interface ManifestVersions {
   versions: VersionChoice[];
 }
 
-/** The defaults the server applies, shown in the form (CVs in per cent). */
-export const DEFAULT_SETTINGS = {
-  candidates: DEFAULT_BATCH_SETTINGS.candidates,
-  calibrationModel: DEFAULT_BATCH_SETTINGS.calibrationModel as CalibrationModel,
-  linearRangeMaxAbsorbance: DEFAULT_BATCH_SETTINGS.linearRangeMaxAbsorbance,
-  r2Min: DEFAULT_BATCH_SETTINGS.r2Min,
-  replicateCvMaxPercent: DEFAULT_BATCH_SETTINGS.replicateCvMax * 100,
-  kCvMaxPercent: DEFAULT_BATCH_SETTINGS.kCvMax * 100,
-  concentrationUnit: DEFAULT_BATCH_SETTINGS.concentrationUnit,
-  /** Per cent [low, high]. */
-  recoveryLimitsPct: DEFAULT_BATCH_SETTINGS.recoveryLimitsPct,
-};
+/** The defaults the server applies, shown in the form (CVs in per cent); built when a form asks. */
+export function defaultFormSettings() {
+  return {
+    candidates: DEFAULT_BATCH_SETTINGS.candidates,
+    calibrationModel: DEFAULT_BATCH_SETTINGS.calibrationModel as CalibrationModel,
+    linearRangeMaxAbsorbance: DEFAULT_BATCH_SETTINGS.linearRangeMaxAbsorbance,
+    r2Min: DEFAULT_BATCH_SETTINGS.r2Min,
+    replicateCvMaxPercent: DEFAULT_BATCH_SETTINGS.replicateCvMax * 100,
+    kCvMaxPercent: DEFAULT_BATCH_SETTINGS.kCvMax * 100,
+    concentrationUnit: DEFAULT_BATCH_SETTINGS.concentrationUnit,
+    /** Per cent [low, high]. */
+    recoveryLimitsPct: DEFAULT_BATCH_SETTINGS.recoveryLimitsPct,
+  };
+}

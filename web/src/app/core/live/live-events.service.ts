@@ -19,7 +19,6 @@ import { type LiveEventOf, type LiveEventType, liveEventSchema } from '@equiligh
 import { AuthService } from '../auth/auth.service';
 
 export type { LiveEventType } from '@equilight/contracts';
-export { LIVE_EVENT_TYPES } from '@equilight/contracts';
 
 /** One message of /api/events (of one type, or any). `data` always names the record by id. */
 export type LiveEvent<T extends LiveEventType = LiveEventType> = LiveEventOf<T>;
