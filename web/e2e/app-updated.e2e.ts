@@ -3,7 +3,7 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { launchChromium } from './support/browser';
 import { type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
-import { signIn } from './support/session';
+import { apiAs, signIn } from './support/session';
 
 jest.setTimeout(180_000);
 
@@ -11,7 +11,7 @@ jest.setTimeout(180_000);
 // script request is answered as the server answers for a file of an earlier build (a 404), and the app
 // says so and offers to load the page afresh, instead of doing nothing.
 
-const SCRIPT = /\/chunk-[A-Za-z0-9_-]+\.js$/;
+const SCRIPT = /\/(?:chunk|worker)-[A-Za-z0-9_-]+\.js$/;
 
 describe('an open tab after the app was updated', () => {
   let server: RunningServer;
@@ -35,7 +35,7 @@ describe('an open tab after the app was updated', () => {
   async function newBuildOnServer(page: Page): Promise<{ refused: string[]; reloaded(): void }> {
     const refused: string[] = [];
     let stale = true;
-    await page.route(SCRIPT, async (route) => {
+    await page.context().route(SCRIPT, async (route) => {
       if (!stale) return route.continue();
       refused.push(route.request().url());
       const gone = await page.request.get(`${server.url}/chunk-GONE0000.js`);
@@ -87,6 +87,47 @@ describe('an open tab after the app was updated', () => {
     expect(await asked).toContain('Reload the page now?');
     expect(page.url()).toBe(before);
     expect(await page.locator('mat-dialog-container').count()).toBe(0);
+    await page.context().close();
+  });
+
+  it('when a what-if needs the worker and its scripts are gone, then the person is asked to reload', async () => {
+    const page = await signedInPage(1280, 800);
+    const res = await page.request.get(`${server.url}/api/batches?pageSize=500`);
+    const batches = ((await res.json()) as { items: { id: number; fileCount: number; state: string }[] })
+      .items;
+    const batch = batches.find((b) => b.fileCount > 0);
+    if (!batch) throw new Error('the demo scenario has no batch with readings');
+    if (batch.state === 'approved') {
+      const manager = await apiAs(browser, server.url, 'manager@equilight.test');
+      await manager.call('POST', `/api/batches/${batch.id}/reopen`, {
+        reason: 'reopened so that a what-if can be tried',
+      });
+    }
+    await page.goto(`${server.url}/batches/${batch.id}`);
+    await page.getByTestId('exclude-form').waitFor();
+    await newBuildOnServer(page);
+    const asked = new Promise<string>((resolve) =>
+      page.once('dialog', async (dialog) => {
+        resolve(dialog.message());
+        await dialog.dismiss();
+      }),
+    );
+    // The first what-if starts the worker: its script, and the same analysis's script for this thread,
+    // are those of an earlier build.
+    await page.locator('[data-testid^="well-"]:not(.eq-map__cell--empty)').first().click();
+    await page.getByTestId('exclude-reason').fill('air bubble seen in the light path');
+    await page.getByTestId('exclude-submit').click();
+    expect(await asked).toContain('Reload the page now?');
+    const banner = page.getByTestId('unsaved-banner');
+    await banner.getByRole('alert').waitFor();
+    expect(await banner.getByRole('alert').innerText()).toContain(
+      'Equilight has been updated since this page was opened',
+    );
+    await banner.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'app-updated-what-if-1280.png') });
+    await page.setViewportSize({ width: 390, height: 844 });
+    await banner.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'app-updated-what-if-390.png') });
     await page.context().close();
   });
 

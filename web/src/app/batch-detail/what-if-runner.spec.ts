@@ -7,6 +7,7 @@ import { runWhatIf } from './what-if-compute';
 import { type WhatIfRequest, type WorkerResponse, answerWhatIf } from './what-if-protocol';
 import { WHAT_IF_WORKER, WhatIfRunner } from './what-if-runner';
 import type { WhatIfWorker } from './what-if-worker';
+import { APP_UPDATED_TEXT } from '../core/routing/app-updated';
 
 // The runner talks to the worker through real message passing (Node's MessageChannel clones every
 // message the way a browser Worker does); the far port answers with the function what-if.worker.ts runs.
@@ -131,6 +132,46 @@ describe('what-if runner and its worker messages', () => {
     const next = await firstValueFrom(run(runner));
     expect(started).toBe(2);
     expect(next.error).toBeNull();
+  });
+
+  it("when the worker's own script cannot be loaded, then this and later edits run in this thread", async () => {
+    let started = 0;
+    const unloadable = channel(() => undefined);
+    ports.push(unloadable.far);
+    const runner = runnerWith(() => {
+      started += 1;
+      return unloadable.worker;
+    });
+    const pending = firstValueFrom(run(runner));
+    await new Promise((r) => setTimeout(r, 10));
+    // What a browser dispatches for a module worker whose script answered 404: an error with no message.
+    unloadable.worker.onerror?.({} as ErrorEvent);
+    const inThread = runWhatIf(analysis.readings, analysis.samples, analysis.settings, edits);
+    const first = await pending;
+    expect(first.error).toBeNull();
+    expect(bestK(first)).toBe(bestK(inThread));
+
+    const next = await firstValueFrom(run(runner));
+    expect(started).toBe(1);
+    expect(unloadable.requests).toHaveLength(1);
+    expect(bestK(next)).toBe(bestK(inThread));
+  });
+
+  it('when neither the worker nor the in-thread code can be loaded (a new build), then reloading is offered', async () => {
+    jest.doMock('./what-if-compute', () => {
+      throw new TypeError('Failed to fetch dynamically imported module: /chunk-gone.js');
+    });
+    const confirm = jest.spyOn(window, 'confirm').mockReturnValue(false);
+    try {
+      const outcome = await firstValueFrom(run(runnerWith(() => null)));
+      expect(confirm).toHaveBeenCalledTimes(1);
+      expect(confirm.mock.calls[0][0]).toContain(APP_UPDATED_TEXT);
+      expect(outcome.result).toBeNull();
+      expect(outcome.error).toBe(APP_UPDATED_TEXT);
+    } finally {
+      confirm.mockRestore();
+      jest.dontMock('./what-if-compute');
+    }
   });
 
   it('when the platform has no Worker, then the same analysis runs in this thread', async () => {

@@ -5,6 +5,7 @@ import type { SpectraOutcome } from './spectra-compute';
 import type { WhatIfEdits, WhatIfOutcome } from './what-if';
 import type { WorkerRequest, WorkerResponse } from './what-if-protocol';
 import { type WhatIfWorker, startWhatIfWorker } from './what-if-worker';
+import { APP_UPDATED_TEXT, loadOrOfferReload } from '../core/routing/app-updated';
 
 /** Starts the what-if worker; null where the platform has none, and the analysis runs in-thread. */
 export const WHAT_IF_WORKER = new InjectionToken<() => WhatIfWorker | null>('what-if worker', {
@@ -16,11 +17,15 @@ export const WHAT_IF_WORKER = new InjectionToken<() => WhatIfWorker | null>('wha
 interface Waiting {
   answer(response: WorkerResponse): void;
   fail(error: string): void;
+  /** The same analysis in this thread, for when the worker's own script could not be loaded. */
+  runInThread(): void;
 }
 
 /**
  * Runs what-if and whole-spectrum analyses in a Web Worker, one worker per page, started on the first
- * request. An answer that arrives after its caller unsubscribed (a newer edit) is dropped.
+ * request. An answer that arrives after its caller unsubscribed (a newer edit) is dropped. Where the
+ * worker's script cannot be loaded (a tab opened before a new build), the analyses run in this thread,
+ * as where there is no Worker at all.
  */
 @Injectable()
 export class WhatIfRunner {
@@ -76,18 +81,27 @@ export class WhatIfRunner {
         subscriber.next(value);
         subscriber.complete();
       };
+      // The same analysis in this thread, its code loaded only when needed; when that script is gone too
+      // (a new build), the offer to reload, and the reason as the answer.
+      const runInThread = () =>
+        void loadOrOfferReload(inThread).then(
+          (value) => {
+            if (!subscriber.closed) done(value ?? failed(APP_UPDATED_TEXT));
+          },
+          (err: unknown) => {
+            if (!subscriber.closed) done(failed(err instanceof Error ? err.message : String(err)));
+          },
+        );
       const worker = this.ensureWorker();
       if (worker) {
         this.waiting.set(id, {
           answer: (response) => done(read(response) ?? failed('The worker answered another question.')),
           fail: (error) => done(failed(error)),
+          runInThread,
         });
         worker.postMessage(request(id));
       } else {
-        // No Worker here: the same analysis in this thread, loaded only when needed.
-        void inThread().then((value) => {
-          if (!subscriber.closed) done(value);
-        });
+        runInThread();
       }
       return () => this.waiting.delete(id);
     });
@@ -103,12 +117,19 @@ export class WhatIfRunner {
         waiting?.answer(data);
       };
       worker.onerror = (event) => {
-        const error = `The what-if analysis stopped: ${event.message || 'worker error'}`;
         const waiting = [...this.waiting.values()];
         this.waiting.clear();
-        // A broken worker is replaced on the next request rather than left to swallow requests.
         worker.terminate?.();
+        if (!event.message) {
+          // An error with no message: the worker's script itself could not be loaded (an error thrown by
+          // the analysis always carries one). No worker for this page: its analyses run in this thread.
+          this.worker = null;
+          for (const w of waiting) w.runInThread();
+          return;
+        }
+        // A broken worker is replaced on the next request rather than left to swallow requests.
         this.worker = undefined;
+        const error = `The what-if analysis stopped: ${event.message}`;
         for (const w of waiting) w.fail(error);
       };
     }
