@@ -278,7 +278,7 @@ async function main(): Promise<void> {
     await page.waitForTimeout(3000);
     let refetches = 0;
     page.on('response', (res) => {
-      if (res.url().endsWith(`/api/batches/${batch.id}/analysis`)) refetches++;
+      if (new URL(res.url()).pathname === `/api/batches/${batch.id}/analysis`) refetches++;
     });
 
     const quiet = await longTasksDuring(page, SECONDS * 1000, async () => undefined);
