@@ -161,6 +161,17 @@ describe('the batch page arrives compressed, with its icons, and analyses what-i
     ).toBe(true);
   });
 
+  it('when the pointer rests on a well, then its tooltip shows, and leaving the map hides it', async () => {
+    const well = page.locator('[data-position="C12"]');
+    await well.hover();
+    const tooltip = page.getByTestId('plate-tooltip');
+    await tooltip.waitFor();
+    expect(await tooltip.innerText()).toContain('C12');
+    expect(await well.getAttribute('aria-describedby')).toBe(await tooltip.getAttribute('id'));
+    await page.getByTestId('batch-name').hover();
+    await tooltip.waitFor({ state: 'detached' });
+  });
+
   it('when a what-if is made, then a worker computes it and K changes', async () => {
     const workers: string[] = [];
     page.on('worker', (w) => workers.push(w.url()));

@@ -34,6 +34,8 @@ export interface PlateCell {
   exclusionReason: string | null;
   fill: string | null;
   ink: string | null;
+  /** What a screen reader says for the cell (`describeCell`), made with the model, not at every check. */
+  label: string;
 }
 
 export interface PlateModel {
@@ -126,7 +128,7 @@ export function buildPlateModel(
       const cellFlags = flags.get(position) ?? [];
       const corrected = p?.absorbanceCorrected ?? null;
       const fill = corrected !== null && range ? colourFor(corrected, range) : null;
-      return {
+      const cell: Omit<PlateCell, 'label'> = {
         position,
         row: r,
         col: c,
@@ -144,13 +146,14 @@ export function buildPlateModel(
         fill,
         ink: fill ? textColourOn(fill) : null,
       };
+      return { ...cell, label: describeCell(cell) };
     }),
   );
   return { format, rowLabels, colLabels, rows, range };
 }
 
 /** The words a screen reader and the tooltip give for a cell. */
-export function describeCell(cell: PlateCell): string {
+export function describeCell(cell: Omit<PlateCell, 'label'>): string {
   if (cell.empty) return `${cell.position}, empty`;
   const parts = [cell.position];
   if (cell.role) parts.push(cell.role);

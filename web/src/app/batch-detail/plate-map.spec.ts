@@ -216,6 +216,35 @@ describe('PlateMap', () => {
     expect(document.activeElement).toBe(cell('B12'));
   });
 
+  it('shows the tooltip while the pointer is over a cell, its badge included, and hides it when it leaves', async () => {
+    const { cell, fixture, el } = await setup('96', [
+      position('A1', { role: 'standard', sampleId: 'ST-3' }),
+      position('A2', { sampleId: 'ST-4' }),
+    ]);
+    const tooltip = () => el.querySelector('[data-testid="plate-tooltip"]');
+    const pointer = (type: 'mouseover' | 'mouseout', target: Element, relatedTarget: Element | null) =>
+      target.dispatchEvent(new MouseEvent(type, { bubbles: true, relatedTarget }));
+    const badge = cell('A1').querySelector('eq-role-badge')!;
+    expect(badge).not.toBeNull();
+
+    pointer('mouseover', badge, el); // enters A1 straight onto its badge
+    await fixture.whenStable();
+    expect(tooltip()!.textContent).toContain('ST-3');
+    pointer('mouseout', badge, cell('A1')); // from the badge to the cell around it: still inside A1
+    await fixture.whenStable();
+    expect(tooltip()!.textContent).toContain('ST-3');
+    pointer('mouseover', cell('A1'), badge);
+    await fixture.whenStable();
+    expect(tooltip()!.textContent).toContain('ST-3');
+    pointer('mouseout', cell('A1'), cell('A2')); // leaves A1 for A2
+    pointer('mouseover', cell('A2'), cell('A1'));
+    await fixture.whenStable();
+    expect(tooltip()!.textContent).toContain('ST-4');
+    pointer('mouseout', cell('A2'), el); // leaves the grid
+    await fixture.whenStable();
+    expect(tooltip()).toBeNull();
+  });
+
   it('shows the path length of a well from the water peak in its tooltip and says so in the legend', async () => {
     const { cell, fixture, el, host } = await setup('96', [
       position('A1', { pathLengthCm: 0.5239 }),

@@ -1,6 +1,7 @@
 import {
   ChangeDetectionStrategy,
   Component,
+  DestroyRef,
   ElementRef,
   computed,
   inject,
@@ -14,14 +15,7 @@ import { VIRIDIS_NAME, legendGradient } from '../shared/chart/colour-scale';
 import { formatAbsorbance, formatNumber } from '../shared/format/number-format';
 import { PlateLegend } from '../shared/plate-grid/plate-legend';
 import { RoleBadge } from '../shared/role-code/role-badge';
-import {
-  type CellMarker,
-  MARKERS,
-  type PlateCell,
-  buildPlateModel,
-  describeCell,
-  statusWord,
-} from './plate-map-model';
+import { type CellMarker, MARKERS, type PlateCell, buildPlateModel, statusWord } from './plate-map-model';
 import { TableScroll } from '../shared/table-scroll/table-scroll';
 
 let nextId = 0;
@@ -30,6 +24,11 @@ interface Hover {
   cell: PlateCell;
   left: number;
   top: number;
+}
+
+interface CellHit {
+  cell: PlateCell;
+  el: HTMLElement;
 }
 
 /**
@@ -102,7 +101,6 @@ export class PlateMap {
     return parts.join(', ');
   });
 
-  protected readonly describe = describeCell;
   protected readonly abs = formatAbsorbance;
   protected readonly statusWord = statusWord;
   /** "0.52 cm (water peak)" for a well whose path length came from the water peak, else null. */
@@ -111,18 +109,52 @@ export class PlateMap {
     return l === undefined ? null : `${formatNumber(l, 2)} cm (water peak)`;
   }
 
-  protected show(cell: PlateCell, event: Event): void {
-    const el = event.currentTarget as HTMLElement;
+  private readonly cellsByPosition = computed(() => new Map(this.flatCells().map((c) => [c.position, c])));
+
+  constructor() {
+    // One listener of each kind on the map, not five on every cell (96 to 384 of them, made in the frame
+    // that shows the map): the cell is found from the event's target. Outside the template, so a pointer
+    // moving over the map checks the view only when the tooltip changes.
+    const host = this.host.nativeElement;
+    const destroyRef = inject(DestroyRef);
+    const on = <K extends 'click' | 'focusin' | 'focusout' | 'mouseover' | 'mouseout'>(
+      type: K,
+      handle: (hit: CellHit, event: HTMLElementEventMap[K]) => void,
+    ) => {
+      const listener = (event: HTMLElementEventMap[K]) => {
+        const hit = this.cellAt(event.target);
+        if (hit) handle(hit, event);
+      };
+      host.addEventListener(type, listener);
+      destroyRef.onDestroy(() => host.removeEventListener(type, listener));
+    };
+    // mouseover/mouseout also fire between a cell's own children: only entering or leaving the cell counts.
+    const within = (hit: CellHit, other: EventTarget | null) =>
+      other instanceof Node && hit.el.contains(other);
+    on('click', ({ cell }) => this.choose(cell));
+    on('focusin', ({ cell, el }) => {
+      this.active.set(cell.position);
+      this.show(cell, el);
+    });
+    on('focusout', ({ cell }) => this.hide(cell));
+    on('mouseover', (hit, e) => within(hit, e.relatedTarget) || this.show(hit.cell, hit.el));
+    on('mouseout', (hit, e) => within(hit, e.relatedTarget) || this.hide(hit.cell));
+  }
+
+  /** The cell an event happened in (or in one of its children), with its element. */
+  private cellAt(target: EventTarget | null): CellHit | null {
+    const el = target instanceof Element ? target.closest<HTMLElement>('[data-position]') : null;
+    const cell =
+      el && this.host.nativeElement.contains(el) ? this.cellsByPosition().get(el.dataset['position']!) : null;
+    return el && cell ? { cell, el } : null;
+  }
+
+  private show(cell: PlateCell, el: HTMLElement): void {
     this.hover.set({ cell, left: el.offsetLeft + el.offsetWidth / 2, top: el.offsetTop + el.offsetHeight });
   }
 
-  protected hide(cell: PlateCell): void {
+  private hide(cell: PlateCell): void {
     if (this.hover()?.cell.position === cell.position) this.hover.set(null);
-  }
-
-  protected focusCell(cell: PlateCell, event: Event): void {
-    this.active.set(cell.position);
-    this.show(cell, event);
   }
 
   protected choose(cell: PlateCell): void {
