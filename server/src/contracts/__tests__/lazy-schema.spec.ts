@@ -5,19 +5,19 @@ import { lazySchema } from '../lazy-schema';
 
 type Contracts = typeof eager;
 
-/** The contracts as a browser loads them: a fresh copy of the modules with a `window` in sight. */
-function loadAsInBrowser(): Contracts {
-  let contracts: Contracts | undefined;
+/** `load()` run on fresh copies of the modules, as in a browser: with a `window` in sight. */
+function asInBrowser<T>(load: () => T): T {
+  let loaded: T | undefined;
   const scope = globalThis as { window?: unknown };
   scope.window = globalThis;
   try {
     jest.isolateModules(() => {
-      contracts = jest.requireActual<Contracts>('../index');
+      loaded = load();
     });
   } finally {
     delete scope.window;
   }
-  return contracts!;
+  return loaded!;
 }
 
 const isSchema = (value: unknown): value is z.ZodType =>
@@ -45,7 +45,7 @@ const outcome = (result: z.ZodSafeParseResult<unknown>) =>
   result.success ? { data: result.data } : { issues: result.error.issues };
 
 describe('schemas built on first use (as in a browser)', () => {
-  const browser = loadAsInBrowser();
+  const browser = asInBrowser(() => jest.requireActual<Contracts>('../index'));
   const schemaNames = Object.keys(eager).filter((k) => isSchema(eager[k as keyof Contracts]));
 
   it('the contracts declare their schemas through it', () => {
@@ -101,19 +101,9 @@ describe('schemas built on first use (as in a browser)', () => {
 
   it('builds once, on first use, and not before', () => {
     const build = jest.fn(() => z.object({ a: z.number() }));
-    const schema = (() => {
-      const scope = globalThis as { window?: unknown };
-      scope.window = globalThis;
-      try {
-        let made: z.ZodObject<{ a: z.ZodNumber }> | undefined;
-        jest.isolateModules(() => {
-          made = jest.requireActual<{ lazySchema: typeof lazySchema }>('../lazy-schema').lazySchema(build);
-        });
-        return made!;
-      } finally {
-        delete scope.window;
-      }
-    })();
+    const schema = asInBrowser(() =>
+      jest.requireActual<{ lazySchema: typeof lazySchema }>('../lazy-schema').lazySchema(build),
+    );
     expect(build).not.toHaveBeenCalled();
     expect(schema.parse({ a: 1 })).toEqual({ a: 1 });
     expect(schema.safeParse({ a: 'x' }).success).toBe(false);
