@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, afterNextRender } from '@angular/core';
 import { getSupportedInputTypes } from '@angular/cdk/platform';
 import { RouterOutlet } from '@angular/router';
+import { runWhenIdle } from './core/tasks/when-idle';
 
 @Component({
   selector: 'eq-root',
@@ -14,13 +15,12 @@ export class App {
     // field asks the browser which input types it supports (an input element probed ~20 times), and the
     // first date shown makes the locale's date formatters.
     afterNextRender(() => {
-      const idle = globalThis.requestIdleCallback ?? ((run: () => void) => setTimeout(run, 1));
-      idle(() => getSupportedInputTypes());
-      idle(
+      runWhenIdle(() => getSupportedInputTypes());
+      runWhenIdle(
         () =>
           void import('./shared/format/date-format').then(
             (m) => {
-              const next = () => idle(() => m.warmDateFormat() && next());
+              const next = () => runWhenIdle(() => m.warmDateFormat() && next());
               next();
             },
             () => undefined, // only a head start: the first date shown makes the formatters instead

@@ -63,8 +63,11 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     await fixture.whenStable();
     http.expectOne(ANALYSIS_URL).flush(analysis);
     await fixture.whenStable();
-    http.expectOne('/api/batches/7/epsilon-sources').flush(candidates);
     http.expectOne('/api/layouts/3').flush({ id: 3, format: 'cuvette' });
+    // The ε candidates are asked for in an idle moment, after the result and the map (a timer in jsdom).
+    http.expectNone('/api/batches/7/epsilon-sources');
+    await wait(5);
+    http.expectOne('/api/batches/7/epsilon-sources').flush(candidates);
     await fixture.whenStable();
     // The what-if panel and its analysis fields render in idle moments (two nested deferred blocks).
     for (let i = 0; i < 2; i++) {
@@ -357,6 +360,7 @@ describe('BatchDetailPage what-if flow (real analysis module)', () => {
     await fixture.whenStable();
     http.expectOne(ANALYSIS_URL).flush(saved);
     await fixture.whenStable();
+    await wait(5);
     http.expectOne('/api/batches/7/epsilon-sources').flush([candidate]);
     await settle(fixture);
     expect(text(el.querySelector('[data-testid="epsilon-source"]'))).toBe(

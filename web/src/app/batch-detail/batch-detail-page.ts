@@ -25,6 +25,7 @@ import { BatchStateLabel } from '../shared/batch-state/batch-state-label';
 import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
+import { whenIdle } from '../core/tasks/when-idle';
 import { type BatchAnalysis, type EpsilonCandidate, guessFormat } from './batch-analysis';
 import { ApprovalRecordPanel } from './approval-record-panel';
 import { BatchComments } from './batch-comments';
@@ -147,7 +148,11 @@ export class BatchDetailPage {
     { initialValue: null },
   );
 
-  /** Calibrations that can lend ε: asked again when the batch's settings change (its wavelength may). */
+  /**
+   * Calibrations that can lend ε: asked again when the batch's settings change (its wavelength may). Only
+   * the what-if panel (rendered in an idle moment) lists them, so they are asked for in an idle moment too,
+   * not while the result and the plate map render.
+   */
   protected readonly epsilonCandidates = toSignal(
     toObservable(
       computed(() => {
@@ -157,6 +162,7 @@ export class BatchDetailPage {
     ).pipe(
       distinctUntilChanged(),
       filter((key): key is string => key !== null),
+      switchMap(() => whenIdle()),
       switchMap(() =>
         this.service.epsilonSources(this.batchId()).pipe(catchError(() => of([] as EpsilonCandidate[]))),
       ),
