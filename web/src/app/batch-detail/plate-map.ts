@@ -68,12 +68,13 @@ export class PlateMap {
     buildPlateModel(this.format(), this.positions(), this.layoutPositions(), this.qc()),
   );
   protected readonly flatCells = computed(() => this.model().rows.flat());
+  private readonly cellsByPosition = computed(() => new Map(this.flatCells().map((c) => [c.position, c])));
   private readonly active = signal<string | null>(null);
   /** The cell holding the tab stop: the one last focused, else the selected one, else the first used. */
   protected readonly activePosition = computed(() => {
-    const cells = this.flatCells();
     const wanted = this.active() ?? this.selected();
-    if (wanted && cells.some((c) => c.position === wanted)) return wanted;
+    if (wanted && this.cellsByPosition().has(wanted)) return wanted;
+    const cells = this.flatCells();
     return (cells.find((c) => !c.empty) ?? cells[0])?.position ?? null;
   });
   protected readonly hover = signal<Hover | null>(null);
@@ -108,8 +109,6 @@ export class PlateMap {
     const l = this.waterPeakPathsCm()?.[position.toUpperCase()];
     return l === undefined ? null : `${formatNumber(l, 2)} cm (water peak)`;
   }
-
-  private readonly cellsByPosition = computed(() => new Map(this.flatCells().map((c) => [c.position, c])));
 
   constructor() {
     // One listener of each kind on the map, not five on every cell (96 to 384 of them, made in the frame
@@ -164,7 +163,8 @@ export class PlateMap {
 
   protected onKeydown(event: KeyboardEvent): void {
     const rows = this.model().rows;
-    const current = this.flatCells().find((c) => c.position === this.activePosition());
+    const position = this.activePosition();
+    const current = position === null ? undefined : this.cellsByPosition().get(position);
     if (!current) return;
     let { row, col } = current;
     switch (event.key) {
