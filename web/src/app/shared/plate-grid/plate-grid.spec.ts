@@ -8,6 +8,7 @@ import {
   comparePositions,
   plateGeometry,
 } from './plate-geometry';
+import { ROLE_PATTERN_TILE } from '@equilight/contracts';
 
 @Component({
   imports: [PlateGrid],
@@ -67,7 +68,7 @@ describe('PlateGrid', () => {
       expect(w.getAttribute('data-role')).toBe(role);
       const svg = decodeURIComponent(w.style.backgroundImage);
       expect(svg).toContain(`fill="${code.fill}"`);
-      expect(svg).toContain('<pattern');
+      expect(w.style.backgroundSize).toBe(`${ROLE_PATTERN_TILE}px ${ROLE_PATTERN_TILE}px`);
       expect(w.style.getPropertyValue('--eq-role-ink')).toBe(code.ink);
       expect(w.querySelector('.eq-letter')!.getAttribute('data-letter')).toBe(code.letter);
     }

@@ -10,6 +10,7 @@ import { ROLE_STYLE, type SampleRole } from './role-style';
   host: {
     '[attr.data-role]': 'role()',
     '[style.background-image]': 'style()?.backgroundImage ?? null',
+    '[style.background-size]': 'style()?.backgroundSize ?? null',
     '[style.--eq-role-ink]': 'style()?.ink ?? null',
     '[style.--eq-role-fill]': 'style()?.fill ?? null',
   },

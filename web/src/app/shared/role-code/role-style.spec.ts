@@ -1,13 +1,19 @@
-import { ROLE_STYLE, SAMPLE_ROLES, prepareRoleImages } from './role-style';
+import { ROLE_PATTERN_TILE } from '@equilight/contracts';
+import { ROLE_CODE, ROLE_STYLE, SAMPLE_ROLES, prepareRoleImages } from './role-style';
 
 describe('role images', () => {
   afterEach(() => jest.useRealTimers());
 
-  it('each role is painted with the SVG its image URL holds', () => {
+  it('each role is painted with one pattern tile, repeated at its own size (the drawing: role-pattern.e2e.ts)', () => {
     for (const role of SAMPLE_ROLES) {
       const style = ROLE_STYLE[role];
       expect(style.imageUrl).toMatch(/^data:image\/svg\+xml,/);
       expect(style.backgroundImage).toBe(`url("${style.imageUrl}")`);
+      const t = ROLE_PATTERN_TILE;
+      expect(style.backgroundSize).toBe(`${t}px ${t}px`);
+      const svg = decodeURIComponent(style.imageUrl);
+      expect(svg).toContain(`width="${t}" height="${t}" viewBox="0 0 ${t} ${t}"`);
+      expect(svg).toContain(`fill="${ROLE_CODE[role].fill}"`);
     }
   });
 

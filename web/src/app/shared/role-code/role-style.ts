@@ -9,19 +9,27 @@ import {
 
 export { ROLE_CODE, SAMPLE_ROLES, type RoleCode, type SampleRole } from '@equilight/contracts';
 
-/** How the web draws one role: the contracts' colours, and the pattern as an SVG `<pattern>` fill. */
+/** How the web draws one role: the contracts' colours, and the pattern as an SVG tile repeated over the box. */
 export interface RoleStyle {
-  /** A CSS `background-image`: an SVG that fills its box with the role's colour and pattern. */
+  /** A CSS `background-image`: one tile of the role's colour and pattern, repeated (see `backgroundSize`). */
   backgroundImage: string;
-  /** That SVG as a `data:` URL. */
+  /** That tile's SVG as a `data:` URL. */
   imageUrl: string;
+  /** A CSS `background-size`: the tile's size, so the pattern keeps its scale in a box of any size. */
+  backgroundSize: string;
   fill: string;
   ink: string;
 }
 
 const round = (v: number) => Number(v.toFixed(3));
 
-/** The SVG (as text) of a box filled with the role's colour and covered with its pattern. */
+/**
+ * The SVG (as text) of one pattern tile (`ROLE_PATTERN_TILE` px square): the role's colour covered with its
+ * pattern's marks, which continue into the neighbouring tiles. Repeated as a background, a box shows the
+ * pattern from its top left corner at the same scale whatever its size, and the browser lays the image out
+ * and records its drawing once for every box (an image sized to each box cost each one a layout and a
+ * drawing of its own: about half of the style, layout and paint time of the frame that shows a plate map).
+ */
 export function rolePatternSvg(code: RoleCode): string {
   const t = ROLE_PATTERN_TILE;
   const marks = rolePatternMarks(code.pattern, t);
@@ -33,19 +41,23 @@ export function rolePatternSvg(code: RoleCode): string {
   const dots = marks.dots
     .map(([cx, cy, r]) => `<circle cx="${round(cx)}" cy="${round(cy)}" r="${round(r)}"/>`)
     .join('');
-  const pattern =
-    `<pattern id="p" width="${t}" height="${t}" patternUnits="userSpaceOnUse">` +
-    `<g stroke="${code.ink}" fill="${code.ink}" stroke-width="${round(marks.lineWidth)}" ` +
-    `opacity="${ROLE_PATTERN_OPACITY}">${lines}${dots}</g></pattern>`;
   return (
-    `<svg xmlns="http://www.w3.org/2000/svg" width="100%" height="100%"><defs>${pattern}</defs>` +
-    `<rect width="100%" height="100%" fill="${code.fill}"/><rect width="100%" height="100%" fill="url(#p)"/></svg>`
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${t}" height="${t}" viewBox="0 0 ${t} ${t}">` +
+    `<rect width="${t}" height="${t}" fill="${code.fill}"/>` +
+    `<g stroke="${code.ink}" fill="${code.ink}" stroke-width="${round(marks.lineWidth)}" ` +
+    `opacity="${ROLE_PATTERN_OPACITY}">${lines}${dots}</g></svg>`
   );
 }
 
 function styleOf(code: RoleCode): RoleStyle {
   const imageUrl = `data:image/svg+xml,${encodeURIComponent(rolePatternSvg(code))}`;
-  return { backgroundImage: `url("${imageUrl}")`, imageUrl, fill: code.fill, ink: code.ink };
+  return {
+    backgroundImage: `url("${imageUrl}")`,
+    imageUrl,
+    backgroundSize: `${ROLE_PATTERN_TILE}px ${ROLE_PATTERN_TILE}px`,
+    fill: code.fill,
+    ink: code.ink,
+  };
 }
 
 /** Each role's drawing, built once from the contracts' role code. */
