@@ -1,4 +1,4 @@
-import { IDLE_TIMEOUT_MS, runWhenIdle, whenIdle } from './when-idle';
+import { runWhenIdle, whenIdle } from './when-idle';
 
 describe('runWhenIdle / whenIdle', () => {
   const original = { request: globalThis.requestIdleCallback, cancel: globalThis.cancelIdleCallback };
@@ -28,15 +28,12 @@ describe('runWhenIdle / whenIdle', () => {
     };
   }
 
-  it('waits for the browser to be idle, with a deadline, and can be cancelled', () => {
+  it('waits for the browser to be idle, with no deadline, and can be cancelled', () => {
     const browser = fakeIdleCallbacks();
     const ran: string[] = [];
     runWhenIdle(() => ran.push('first'));
     const cancel = runWhenIdle(() => ran.push('cancelled'));
-    expect([...browser.waiting.values()].map((w) => w.options?.timeout)).toEqual([
-      IDLE_TIMEOUT_MS,
-      IDLE_TIMEOUT_MS,
-    ]);
+    expect([...browser.waiting.values()].map((w) => w.options?.timeout)).toEqual([undefined, undefined]);
     cancel();
     expect(ran).toEqual([]);
     browser.idle();
