@@ -10,7 +10,7 @@ import { signIn } from './support/session';
 jest.setTimeout(180_000);
 
 // Every routed page, as every role that may open it, scanned by axe-core in Chromium: no serious or
-// critical violation, all content inside landmarks, and no skipped heading level.
+// critical violation, all content inside landmarks, and no skipped heading level; and no icon squeezed.
 
 type Role = 'admin' | 'lab_manager' | 'scientist';
 
@@ -133,6 +133,24 @@ async function open(page: Page, url: string, inFlight: () => number): Promise<vo
   await quiet(page, inFlight);
 }
 
+/**
+ * Shown icons whose box is narrower than the glyph (0.8 em): an icon beside text in a flex row shrinks
+ * unless told not to, and then shows as a sliver (the what-if panel's lock did).
+ */
+async function squeezedIcons(page: Page): Promise<string[]> {
+  return page.$$eval('mat-icon', (icons) =>
+    icons
+      .filter((el) => (el as HTMLElement).offsetParent !== null)
+      .map((el) => ({
+        name: (el.textContent ?? '').trim(),
+        width: el.getBoundingClientRect().width,
+        em: parseFloat(getComputedStyle(el).fontSize),
+      }))
+      .filter((i) => i.width < i.em * 0.8)
+      .map((i) => `${i.name} ${i.width.toFixed(1)}px wide at ${i.em}px`),
+  );
+}
+
 describe('every page passes an axe scan as every role', () => {
   let server: RunningServer;
   let browser: Browser;
@@ -202,6 +220,7 @@ describe('every page passes an axe scan as every role', () => {
         problems.push(`${role} ${url}: did not show a heading (${String(e).split('\n')[0]})`);
       }
       for (const v of await axeSerious(page, undefined, ALSO_RULES)) problems.push(`${role} ${url}: ${v}`);
+      for (const icon of await squeezedIcons(page)) problems.push(`${role} ${url}: icon squeezed: ${icon}`);
     }
     await ctx.close();
     return problems;
