@@ -9,16 +9,10 @@
  *
  * Run: npm run bench:role-marks [-- --marks 96,384 --rounds 3]
  */
-import {
-  ROLE_CODE,
-  ROLE_PATTERN_OPACITY,
-  ROLE_PATTERN_TILE,
-  type RoleCode,
-  SAMPLE_ROLES,
-  rolePatternMarks,
-} from '@equilight/contracts';
+import { ROLE_CODE, SAMPLE_ROLES } from '@equilight/contracts';
 import { ROLE_STYLE } from '../../web/src/app/shared/role-code/role-style';
 import { launchChromium } from '../../web/e2e/support/browser';
+import { perBoxPatternSvg } from '../../web/e2e/support/role-pattern-reference';
 import { TRACE_CATEGORIES } from './web-page-load';
 
 const arg = (name: string, fallback: string) => {
@@ -29,26 +23,11 @@ const COUNTS = arg('marks', '96,384').split(',').map(Number);
 const ROUNDS = Number(arg('rounds', '3'));
 const SHOWINGS = 20;
 
-/** The drawing before the tile: an SVG sized to the box with a <pattern> of the contracts' marks. */
-function perBoxSvg(code: RoleCode): string {
-  const t = ROLE_PATTERN_TILE;
-  const marks = rolePatternMarks(code.pattern, t);
-  const lines = marks.lines.map(([x1, y1, x2, y2]) => `<line x1="${x1}" y1="${y1}" x2="${x2}" y2="${y2}"/>`);
-  const dots = marks.dots.map(([cx, cy, r]) => `<circle cx="${cx}" cy="${cy}" r="${r}"/>`);
-  return (
-    `<svg xmlns="http://www.w3.org/2000/svg" width="100%" height="100%"><defs>` +
-    `<pattern id="p" width="${t}" height="${t}" patternUnits="userSpaceOnUse">` +
-    `<g stroke="${code.ink}" fill="${code.ink}" stroke-width="${marks.lineWidth}" opacity="${ROLE_PATTERN_OPACITY}">` +
-    `${lines.join('')}${dots.join('')}</g></pattern></defs>` +
-    `<rect width="100%" height="100%" fill="${code.fill}"/><rect width="100%" height="100%" fill="url(#p)"/></svg>`
-  );
-}
-
 const KINDS = {
   tile: (role: (typeof SAMPLE_ROLES)[number]) =>
     `background-image:${ROLE_STYLE[role].backgroundImage.replace(/"/g, "'")};background-size:${ROLE_STYLE[role].backgroundSize}`,
   'per box': (role: (typeof SAMPLE_ROLES)[number]) =>
-    `background-image:url('data:image/svg+xml,${encodeURIComponent(perBoxSvg(ROLE_CODE[role]))}');background-size:100% 100%`,
+    `background-image:url('data:image/svg+xml,${encodeURIComponent(perBoxPatternSvg(ROLE_CODE[role]))}');background-size:100% 100%`,
   plain: (role: (typeof SAMPLE_ROLES)[number]) => `background-color:${ROLE_CODE[role].fill}`,
 } as const;
 type Kind = keyof typeof KINDS;

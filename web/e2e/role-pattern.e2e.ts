@@ -1,14 +1,8 @@
 import type { Browser, Page } from 'playwright-core';
-import {
-  ROLE_CODE,
-  ROLE_PATTERN_OPACITY,
-  ROLE_PATTERN_TILE,
-  type RoleCode,
-  SAMPLE_ROLES,
-  rolePatternMarks,
-} from '@equilight/contracts';
+import { ROLE_CODE, SAMPLE_ROLES } from '@equilight/contracts';
 import { ROLE_STYLE } from '../src/app/shared/role-code/role-style';
 import { launchChromium } from './support/browser';
+import { perBoxPatternSvg } from './support/role-pattern-reference';
 
 jest.setTimeout(120_000);
 
@@ -18,21 +12,6 @@ jest.setTimeout(120_000);
 // the role's fill, drawn at the box's own size.
 
 const SIZES = [16, 22, 26, 34, 47];
-
-/** The definition: an SVG the size of the box, filled with the role's colour and its <pattern>. */
-function referenceSvg(code: RoleCode): string {
-  const t = ROLE_PATTERN_TILE;
-  const marks = rolePatternMarks(code.pattern, t);
-  const lines = marks.lines.map(([x1, y1, x2, y2]) => `<line x1="${x1}" y1="${y1}" x2="${x2}" y2="${y2}"/>`);
-  const dots = marks.dots.map(([cx, cy, r]) => `<circle cx="${cx}" cy="${cy}" r="${r}"/>`);
-  return (
-    `<svg xmlns="http://www.w3.org/2000/svg" width="100%" height="100%"><defs>` +
-    `<pattern id="p" width="${t}" height="${t}" patternUnits="userSpaceOnUse">` +
-    `<g stroke="${code.ink}" fill="${code.ink}" stroke-width="${marks.lineWidth}" opacity="${ROLE_PATTERN_OPACITY}">` +
-    `${lines.join('')}${dots.join('')}</g></pattern></defs>` +
-    `<rect width="100%" height="100%" fill="${code.fill}"/><rect width="100%" height="100%" fill="url(#p)"/></svg>`
-  );
-}
 
 /** Largest difference of any colour channel of any pixel between two element screenshots (0–255). */
 async function largestDifference(page: Page, a: Buffer, b: Buffer): Promise<number> {
@@ -80,7 +59,7 @@ describe('role patterns in Chromium', () => {
           .join(';')}"></div>`;
       let html = '<body style="margin:0;background:#fff">';
       for (const role of SAMPLE_ROLES) {
-        const reference = `url('data:image/svg+xml,${encodeURIComponent(referenceSvg(ROLE_CODE[role]))}')`;
+        const reference = `url('data:image/svg+xml,${encodeURIComponent(perBoxPatternSvg(ROLE_CODE[role]))}')`;
         for (const size of SIZES)
           html +=
             `<div style="--s:${size}px;display:flex;gap:8px;margin:4px">` +
