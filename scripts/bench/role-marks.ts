@@ -13,14 +13,11 @@ import { ROLE_CODE, SAMPLE_ROLES } from '@equilight/contracts';
 import { ROLE_STYLE } from '../../web/src/app/shared/role-code/role-style';
 import { launchChromium } from '../../web/e2e/support/browser';
 import { perBoxPatternSvg } from '../../web/e2e/support/role-pattern-reference';
-import { TRACE_CATEGORIES } from './web-page-load';
+import { median, option } from './bench-kit';
+import { TRACE_CATEGORIES, type TraceEvent, onRendererMain } from './web-page-load';
 
-const arg = (name: string, fallback: string) => {
-  const i = process.argv.indexOf(`--${name}`);
-  return i >= 0 ? process.argv[i + 1]! : fallback;
-};
-const COUNTS = arg('marks', '96,384').split(',').map(Number);
-const ROUNDS = Number(arg('rounds', '3'));
+const COUNTS = option('marks', '96,384').split(',').map(Number);
+const ROUNDS = Number(option('rounds', '3'));
 const SHOWINGS = 20;
 
 const KINDS = {
@@ -31,18 +28,6 @@ const KINDS = {
   plain: (role: (typeof SAMPLE_ROLES)[number]) => `background-color:${ROLE_CODE[role].fill}`,
 } as const;
 type Kind = keyof typeof KINDS;
-
-interface TraceEvent {
-  name: string;
-  ph: string;
-  pid: number;
-  tid: number;
-  dur?: number;
-  tdur?: number;
-  args?: { name?: string };
-}
-
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 
 async function main(): Promise<void> {
   const browser = await launchChromium();
@@ -70,16 +55,10 @@ async function main(): Promise<void> {
           const events = (
             JSON.parse((await browser.stopTracing()).toString('utf8')) as { traceEvents: TraceEvent[] }
           ).traceEvents;
-          const main = new Set(
-            events
-              .filter((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain')
-              .map((e) => `${e.pid}:${e.tid}`),
-          );
+          const main = onRendererMain(events);
           const cpu = (e: TraceEvent) => (e.tdur ?? e.dur ?? 0) / 1000;
           const onMain = (name: string) =>
-            events
-              .filter((e) => e.ph === 'X' && e.name === name && main.has(`${e.pid}:${e.tid}`))
-              .reduce((sum, e) => sum + cpu(e), 0);
+            main.filter((e) => e.name === name).reduce((sum, e) => sum + cpu(e), 0);
           const raster = events
             .filter((e) => e.ph === 'X' && e.name === 'RasterTask')
             .reduce((s, e) => s + cpu(e), 0);

@@ -35,7 +35,7 @@ export interface LoadRun {
   longestTaskCpuMs: number;
 }
 
-interface TraceEvent {
+export interface TraceEvent {
   name: string;
   ph: string;
   pid: number;
@@ -75,6 +75,16 @@ export const TRACE_CATEGORIES = [
   'v8',
 ];
 
+/** The complete (`X`) events that ran on a renderer's main thread. */
+export function onRendererMain(events: readonly TraceEvent[]): TraceEvent[] {
+  const mainThreads = new Set(
+    events
+      .filter((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain')
+      .map((e) => `${e.pid}:${e.tid}`),
+  );
+  return events.filter((e) => e.ph === 'X' && mainThreads.has(`${e.pid}:${e.tid}`));
+}
+
 /**
  * Main-thread tasks of renderer processes whose CPU time exceeds 50 ms, ms each: those running the page's
  * work, and the browser's own (no page work inside). BENCH_TASKS=1 prints what each long page task ran.
@@ -86,12 +96,7 @@ export function longCpuTasks(trace: Buffer): {
   longestPageMs: number;
 } {
   const events = (JSON.parse(trace.toString('utf8')) as { traceEvents: TraceEvent[] }).traceEvents;
-  const mainThreads = new Set(
-    events
-      .filter((e) => e.ph === 'M' && e.name === 'thread_name' && e.args?.name === 'CrRendererMain')
-      .map((e) => `${e.pid}:${e.tid}`),
-  );
-  const onMain = events.filter((e) => e.ph === 'X' && mainThreads.has(`${e.pid}:${e.tid}`));
+  const onMain = onRendererMain(events);
   const work = onMain.filter((e) => PAGE_WORK.has(e.name));
   const page: number[] = [];
   const browser: number[] = [];

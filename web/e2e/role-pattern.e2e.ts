@@ -75,7 +75,6 @@ describe('role patterns in Chromium', () => {
             `</div>`;
       }
       await page.setContent(html);
-      await page.evaluate(() => document.fonts.ready);
       const shot = (id: string) => page.locator(`#${id}`).screenshot();
       const unlike: { role: string; size: number; difference: number }[] = [];
       const unpatterned: { role: string; size: number }[] = [];

@@ -24,15 +24,11 @@ export interface RoleStyle {
 const round = (v: number) => Number(v.toFixed(3));
 
 /**
- * The SVG (as text) of one pattern tile (`ROLE_PATTERN_TILE` px square): the role's colour covered with its
- * pattern's marks, which continue into the neighbouring tiles. Repeated as a background, a box shows the
- * pattern from its top left corner at the same scale whatever its size, and the browser lays the image out
- * and records its drawing once for every box (an image sized to each box cost each one a layout and a
- * drawing of its own: about half of the style, layout and paint time of the frame that shows a plate map).
+ * A role's pattern marks for one tile (`ROLE_PATTERN_TILE` px square) as an SVG group in the role's ink;
+ * the marks continue into the neighbouring tiles.
  */
-export function rolePatternSvg(code: RoleCode): string {
-  const t = ROLE_PATTERN_TILE;
-  const marks = rolePatternMarks(code.pattern, t);
+export function rolePatternMarksSvg(code: RoleCode): string {
+  const marks = rolePatternMarks(code.pattern, ROLE_PATTERN_TILE);
   const lines = marks.lines
     .map(
       ([x1, y1, x2, y2]) => `<line x1="${round(x1)}" y1="${round(y1)}" x2="${round(x2)}" y2="${round(y2)}"/>`,
@@ -42,10 +38,22 @@ export function rolePatternSvg(code: RoleCode): string {
     .map(([cx, cy, r]) => `<circle cx="${round(cx)}" cy="${round(cy)}" r="${round(r)}"/>`)
     .join('');
   return (
-    `<svg xmlns="http://www.w3.org/2000/svg" width="${t}" height="${t}" viewBox="0 0 ${t} ${t}">` +
-    `<rect width="${t}" height="${t}" fill="${code.fill}"/>` +
     `<g stroke="${code.ink}" fill="${code.ink}" stroke-width="${round(marks.lineWidth)}" ` +
-    `opacity="${ROLE_PATTERN_OPACITY}">${lines}${dots}</g></svg>`
+    `opacity="${ROLE_PATTERN_OPACITY}">${lines}${dots}</g>`
+  );
+}
+
+/**
+ * The SVG (as text) of one pattern tile: the role's colour covered with its marks. Repeated as a background
+ * from a box's top left corner, it shows the pattern at the same scale whatever the box's size, and the
+ * browser lays the image out and records its drawing once for all boxes; an SVG sized to each box cost
+ * every box its own (npm run bench:role-marks: 3–4× the style, layout, paint and raster time).
+ */
+export function rolePatternSvg(code: RoleCode): string {
+  const t = ROLE_PATTERN_TILE;
+  return (
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${t}" height="${t}" viewBox="0 0 ${t} ${t}">` +
+    `<rect width="${t}" height="${t}" fill="${code.fill}"/>${rolePatternMarksSvg(code)}</svg>`
   );
 }
 
