@@ -25,7 +25,7 @@ import { BatchStateLabel } from '../shared/batch-state/batch-state-label';
 import { AuthService } from '../core/auth/auth.service';
 import { apiErrorMessage } from '../core/http/auth.interceptor';
 import { type LiveEvent, LiveEventsService } from '../core/live/live-events.service';
-import { inNextFrame } from '../core/tasks/next-frame';
+import { inOwnTask } from '../core/tasks/own-task';
 import { whenIdle } from '../core/tasks/when-idle';
 import { type BatchAnalysis, type EpsilonCandidate, guessFormat } from './batch-analysis';
 import { ApprovalRecordPanel } from './approval-record-panel';
@@ -145,7 +145,7 @@ export class BatchDetailPage {
             catchError(() => of(guessFormat(this.data()?.result.positions.map((p) => p.position) ?? []))),
           ),
       ),
-      inNextFrame(),
+      inOwnTask(),
     ),
     { initialValue: null },
   );
@@ -325,7 +325,7 @@ export class BatchDetailPage {
             ),
           ),
         ),
-        inNextFrame(),
+        inOwnTask(),
         takeUntilDestroyed(),
       )
       .subscribe((analysis) => {
