@@ -25,6 +25,20 @@ describe('inOwnTask', () => {
     expect(seen).toEqual(['a', 'b']);
   });
 
+  it('brings the views up to date in the same task, right after passing the value on', () => {
+    jest.useFakeTimers();
+    const tick = jest.spyOn(TestBed.inject(ApplicationRef), 'tick');
+    const source = new Subject<number>();
+    const received = jest.fn();
+    source.pipe(operator<number>()).subscribe(received);
+    source.next(1);
+    expect(tick).not.toHaveBeenCalled();
+    jest.runOnlyPendingTimers();
+    expect(received).toHaveBeenCalledWith(1);
+    expect(tick).toHaveBeenCalled();
+    expect(tick.mock.invocationCallOrder[0]).toBeGreaterThan(received.mock.invocationCallOrder[0]);
+  });
+
   it('keeps the app busy while a value waits, and unsubscribing cancels it', () => {
     jest.useFakeTimers();
     const states: boolean[] = [];
