@@ -13,6 +13,7 @@ async function frame() {
   const fixture = TestBed.createComponent(TableScroll);
   fixture.componentRef.setInput('label', 'Received files');
   await fixture.whenStable();
+  await nextFrame(); // the observers start after the first render
   const host = fixture.nativeElement as HTMLElement;
   const scroller = host.querySelector<HTMLElement>('[data-testid="table-scroll"]')!;
   const shade = (edge: 'start' | 'end') => host.querySelector(`.eq-ts__shade--${edge}`)!;
@@ -21,8 +22,10 @@ async function frame() {
     scroller.dispatchEvent(new Event('scroll'));
     await fixture.whenStable();
   };
-  return { scroller, shade, scrollTo };
+  return { scroller, shade, scrollTo, fixture };
 }
+
+const nextFrame = () => new Promise<void>((resolve) => requestAnimationFrame(() => resolve()));
 
 describe('TableScroll', () => {
   it('is a plain frame while the table fits: no region, no tab stop, no shade', async () => {
@@ -52,5 +55,29 @@ describe('TableScroll', () => {
     expect(scroller.dataset['cut']).toBe('start');
     expect(shade('end').classList).not.toContain('eq-ts__shade--on');
     expect(shade('start').classList).toContain('eq-ts__shade--on');
+  });
+
+  it('measures again when the content changes inside without resizing (a mark that sticks out goes)', async () => {
+    // jsdom has no ResizeObserver; a browser's would not call back here, as no box changes size.
+    const globals = globalThis as { ResizeObserver?: unknown };
+    const original = globals.ResizeObserver;
+    globals.ResizeObserver = class {
+      observe(): void {}
+      disconnect(): void {}
+    };
+    const { scroller, scrollTo, fixture } = await frame().finally(() => (globals.ResizeObserver = original));
+    await scrollTo(626, 622, 0);
+    expect(scroller.dataset['cut']).toBe('end');
+    // The mark is removed: no box changes size, only the width to scroll.
+    const mark = document.createElement('span');
+    scroller.appendChild(mark);
+    await new Promise((r) => setTimeout(r));
+    setWidths(scroller, 622, 622, 0);
+    mark.remove();
+    await new Promise((r) => setTimeout(r)); // mutation records are delivered
+    await nextFrame();
+    await fixture.whenStable();
+    expect(scroller.dataset['cut']).toBeUndefined();
+    expect(scroller.getAttribute('role')).toBeNull();
   });
 });

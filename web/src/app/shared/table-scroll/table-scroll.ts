@@ -72,11 +72,25 @@ export class TableScroll {
         for (const child of Array.from(el.children)) observer.observe(child);
       };
       watchChildren();
-      const mutations = new MutationObserver(watchChildren);
-      mutations.observe(el, { childList: true });
+      // What sticks out of the table (a mark placed outside its cell) changes the width to scroll without
+      // resizing any box: measured again in the next frame after the content changes, where the browser
+      // lays the page out anyway.
+      let frame: number | null = null;
+      const measureNextFrame = () => {
+        frame ??= requestAnimationFrame(() => {
+          frame = null;
+          this.measure();
+        });
+      };
+      const mutations = new MutationObserver((records) => {
+        if (records.some((r) => r.target === el)) watchChildren();
+        measureNextFrame();
+      });
+      mutations.observe(el, { childList: true, subtree: true });
       destroyRef.onDestroy(() => {
         observer.disconnect();
         mutations.disconnect();
+        if (frame !== null) cancelAnimationFrame(frame);
       });
     });
   }
