@@ -55,10 +55,10 @@ async function main(): Promise<void> {
           const events = (
             JSON.parse((await browser.stopTracing()).toString('utf8')) as { traceEvents: TraceEvent[] }
           ).traceEvents;
-          const main = onRendererMain(events);
+          const mainThread = onRendererMain(events);
           const cpu = (e: TraceEvent) => (e.tdur ?? e.dur ?? 0) / 1000;
           const onMain = (name: string) =>
-            main.filter((e) => e.name === name).reduce((sum, e) => sum + cpu(e), 0);
+            mainThread.filter((e) => e.name === name).reduce((sum, e) => sum + cpu(e), 0);
           const raster = events
             .filter((e) => e.ph === 'X' && e.name === 'RasterTask')
             .reduce((s, e) => s + cpu(e), 0);

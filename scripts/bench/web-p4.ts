@@ -24,25 +24,19 @@ import zlib from 'node:zlib';
 import type { Page } from 'playwright-core';
 import { launchChromium } from '../../web/e2e/support/browser';
 import { DEMO_PASSWORD, REPO_ROOT, startServer } from '../../web/e2e/support/server-process';
-import { type LoadFigures, type LoadRun, measureBatchPageLoad, median } from './web-page-load';
+import { median, option } from './bench-kit';
+import { type LoadFigures, type LoadRun, measureBatchPageLoad } from './web-page-load';
 
 const BUDGET_KB = 300;
-const option = (name: string, fallback: number): number => {
-  const i = process.argv.indexOf(`--${name}`);
-  return i >= 0 ? Number(process.argv[i + 1]) : fallback;
-};
-const SECONDS = option('seconds', 30);
-const RATE = option('rate', 10);
-const RUNS = option('runs', 3);
+const SECONDS = Number(option('seconds', '30'));
+const RATE = Number(option('rate', '10'));
+const RUNS = Number(option('runs', '3'));
 const SKIP_STREAM = process.argv.includes('--skip-stream');
 /** Writes this run's page-load figures as the "before" file (run once on the code before a change). */
 const RECORD_BEFORE = process.argv.includes('--record-before');
 const BEFORE_FILE = path.join(__dirname, 'web-p4-before.json');
 /** A build of the code before a change (its own server/dist and dist/web), measured in the same run. */
-const BEFORE_ROOT = (() => {
-  const i = process.argv.indexOf('--before');
-  return i >= 0 ? path.resolve(process.argv[i + 1]) : null;
-})();
+const BEFORE_ROOT = option('before', '') ? path.resolve(option('before', '')) : null;
 
 const AIM = { warmMs: 800, coldMs: 1200, coldKb: 600, longTaskMs: 50 };
 

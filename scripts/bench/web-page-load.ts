@@ -7,6 +7,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { DEMO_PASSWORD, REPO_ROOT } from '../../web/e2e/support/server-process';
+import { median } from './bench-kit';
 
 export interface LoadRun {
   /** ms from the navigation's time origin until K and the plate map were in the DOM and a frame ran. */
@@ -216,12 +217,6 @@ const PAGE_PROBE = `(() => {
   };
   new MutationObserver(check).observe(document, { childList: true, subtree: true, characterData: true });
 })();`;
-
-export const median = (xs: readonly number[]): number => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = Math.floor(s.length / 2);
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 async function signedInContext(browser: Browser, url: string, email: string): Promise<BrowserContext> {
   const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
