@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import type { Redis } from 'ioredis';
 import { type RedisConfig, redactUrl } from '../config';
-import { closeRedis, openRedis } from '../redis/redis-connection';
+import { closeRedis, openRedis, whenReady } from '../redis/redis-connection';
 import { EventBus, type SharedMessage } from './event-bus';
 
 /** What travels on the channel: a message and the process it comes from. */
@@ -45,6 +45,7 @@ export class RedisEventBus extends EventBus {
   }
 
   override async start(): Promise<void> {
+    await whenReady(this.subscriber);
     await this.subscriber.subscribe(this.channel);
   }
 

@@ -30,6 +30,17 @@ export function openRedis(
   return connection;
 }
 
+/**
+ * Wait until a connection has finished its handshake (status `ready`); fails as a command does when
+ * Redis does not answer. A SUBSCRIBE sent before then can overtake the client's own ready check (ioredis
+ * writes it during the handshake); the check is then refused in subscriber mode, the client reconnects
+ * and the subscription is lost without a word. A PING waits in the client's queue until the connection is
+ * ready, so once it is answered a SUBSCRIBE goes out after the handshake.
+ */
+export async function whenReady(connection: Redis): Promise<void> {
+  while (connection.status !== 'ready') await connection.ping();
+}
+
 /** Close a connection: politely when Redis answers, at once when it does not. */
 export async function closeRedis(connection: Redis): Promise<void> {
   if (connection.status === 'end') return;

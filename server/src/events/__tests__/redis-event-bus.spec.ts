@@ -1,3 +1,4 @@
+import { once } from 'node:events';
 import type { Redis } from 'ioredis';
 import { closeRedis, openRedis } from '../../redis/redis-connection';
 import { describeWithRedis, removeRedisKeys, testRedisConfig } from '../../testing/redis';
@@ -112,6 +113,27 @@ describeWithRedis('live events across processes through Redis', () => {
       expect(b.all.map((e) => e.data.id)).toEqual([9]);
     } finally {
       await closeRedis(stranger);
+    }
+  });
+
+  it('when started while its connection is still in its handshake then it hears the other processes', async () => {
+    // A server's first requests can keep it busy until the listening connection is past "connect" but not
+    // yet ready: a SUBSCRIBE written then used to be undone by the client's own ready check (lost, silently).
+    for (let round = 1; round <= 5; round++) {
+      const late = new RedisEventBus(connections[0]!, redis, log);
+      await once(late['subscriber'], 'connect');
+      await late.start();
+      try {
+        const heard = record(late);
+        // Long enough for a refused ready check to end in a reconnection.
+        await new Promise((r) => setTimeout(r, 200));
+        two.publish('file.stored', { id: round });
+        await until('the other process’s event', () => heard.all.length === 1, 3_000);
+        expect(heard.all[0]!.data.id).toBe(round);
+        expect(log).not.toHaveBeenCalled();
+      } finally {
+        await late.close();
+      }
     }
   });
 
