@@ -1,13 +1,10 @@
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { extractPdfText } from '../../server/src/testing/pdf-text';
-import { parseWatcherConfig } from '../../watcher/src/config';
-import { silentLogger } from '../../watcher/src/logger';
-import { createWatcher, type DropFolderWatcher } from '../../watcher/src/watcher';
 import { axeSerious } from './support/axe';
 import { launchChromium } from './support/browser';
+import { type RunningDropWatcher, startDropWatcher } from './support/drop-watcher';
 import { eventually, expectEventually } from './support/eventually';
 import { REPO_ROOT, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
 import { apiAs, sampleManifestRows, signIn } from './support/session';
@@ -24,8 +21,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
   let page: Page;
   let batchId: number;
   let token: string;
-  let watcher: DropFolderWatcher;
-  let dropDir: string;
+  let drop: RunningDropWatcher;
 
   beforeAll(async () => {
     server = await startServer();
@@ -50,18 +46,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     await admin.ctx.close();
 
     // The real watcher on a drop folder of its own, sending with the instrument's token.
-    dropDir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-e2e-drop-'));
-    watcher = createWatcher(
-      parseWatcherConfig({
-        serverUrl: server.url,
-        dropDir,
-        spoolDir: path.join(dropDir, '..', `${path.basename(dropDir)}-spool`),
-        settleMs: 300,
-        instruments: [{ folder: 'browser-test-cuvettes', token }],
-      }),
-      { logger: silentLogger },
-    );
-    await watcher.start();
+    drop = await startDropWatcher(server.url, { instruments: [{ folder: 'browser-test-cuvettes', token }] });
 
     const manager = await apiAs(browser, server.url, 'manager@equilight.test');
     const rows = sampleManifestRows();
@@ -103,7 +88,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
   });
 
   afterAll(async () => {
-    await watcher?.stop();
+    await drop?.stop();
     await browser?.close();
     await server?.stop();
   });
@@ -119,7 +104,7 @@ describe('a scientist watches a batch fill in live, excludes a mixture, and it g
     await page.evaluate(() => ((window as unknown as { eqNoReload: boolean }).eqNoReload = true));
 
     // The instrument writes its export into the drop folder; the watcher sends it in.
-    const target = path.join(dropDir, 'browser-test-cuvettes', `${RUN_ID}.csv`);
+    const target = path.join(drop.dropDir, 'browser-test-cuvettes', `${RUN_ID}.csv`);
     fs.writeFileSync(`${target}.tmp`, fs.readFileSync(path.join(SAMPLES, 'readings.csv')));
     fs.renameSync(`${target}.tmp`, target);
 

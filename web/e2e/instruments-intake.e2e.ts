@@ -1,11 +1,8 @@
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import type { Browser } from 'playwright-core';
-import { parseWatcherConfig } from '../../watcher/src/config';
-import { silentLogger } from '../../watcher/src/logger';
-import { createWatcher, type DropFolderWatcher } from '../../watcher/src/watcher';
 import { launchChromium } from './support/browser';
+import { type RunningDropWatcher, startDropWatcher } from './support/drop-watcher';
 import { eventually } from './support/eventually';
 import { REPO_ROOT, type RunningServer, SCREENSHOT_DIR, startServer } from './support/server-process';
 import { apiAs, sampleManifestRows, signIn } from './support/session';
@@ -19,8 +16,7 @@ const FOLDER = 'cuvette-bench-4';
 describe('a watcher joins a new profile live; a lab manager assigns its unassigned file from Intake', () => {
   let server: RunningServer;
   let browser: Browser;
-  let watcher: DropFolderWatcher;
-  let dropDir: string;
+  let drop: RunningDropWatcher;
   let profileId: number;
 
   beforeAll(async () => {
@@ -31,28 +27,18 @@ describe('a watcher joins a new profile live; a lab manager assigns its unassign
     const admin = await apiAs(browser, server.url, 'admin@equilight.test');
     const credential = (await admin.call('POST', '/api/watchers', { name: 'Bench PC 4' }))['token'] as string;
     await admin.ctx.close();
-    dropDir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-e2e-drop-'));
-    watcher = createWatcher(
-      parseWatcherConfig({
-        serverUrl: server.url,
-        dropDir,
-        spoolDir: path.join(dropDir, '..', `${path.basename(dropDir)}-spool`),
-        settleMs: 300,
-        watcherToken: credential,
-        folderPollMs: 300,
-        heartbeatMs: 1000,
-        statusPollMs: 200,
-      }),
-      { logger: silentLogger },
-    );
-    await watcher.start();
+    drop = await startDropWatcher(server.url, {
+      watcherToken: credential,
+      folderPollMs: 300,
+      heartbeatMs: 1000,
+      statusPollMs: 200,
+    });
   });
 
   afterAll(async () => {
-    await watcher?.stop();
+    await drop?.stop();
     await browser?.close();
     await server?.stop();
-    if (dropDir) fs.rmSync(dropDir, { recursive: true, force: true });
   });
 
   it('shows the new profile watched on Instruments without restarting the watcher', async () => {
@@ -85,7 +71,7 @@ describe('a watcher joins a new profile live; a lab manager assigns its unassign
     );
     expect(watched).toMatch(/Watched\s+(just now|\d+ s ago) · v0\.1\.0/);
     expect(watched).toContain('v0.1.0');
-    expect(fs.existsSync(path.join(dropDir, FOLDER))).toBe(true);
+    expect(fs.existsSync(path.join(drop.dropDir, FOLDER))).toBe(true);
     await expect(page.getByTestId('watchers').innerText()).resolves.toContain('Bench PC 4');
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'instruments-1280x800.png'), fullPage: true });
     await page.setViewportSize({ width: 390, height: 844 });
@@ -113,11 +99,11 @@ describe('a watcher joins a new profile live; a lab manager assigns its unassign
 
   it('assigns an unassigned file to a batch from Intake, then links file and batch both ways', async () => {
     // The instrument exports run MLX-8; no batch waits for it, so it is stored unassigned.
-    const target = path.join(dropDir, FOLDER, 'MLX-8.csv');
+    const target = path.join(drop.dropDir, FOLDER, 'MLX-8.csv');
     fs.writeFileSync(`${target}.tmp`, fs.readFileSync(path.join(SAMPLES, 'readings.csv')));
     fs.renameSync(`${target}.tmp`, target);
     await eventually(
-      async () => fs.existsSync(path.join(dropDir, FOLDER, 'done', 'MLX-8.csv')),
+      async () => fs.existsSync(path.join(drop.dropDir, FOLDER, 'done', 'MLX-8.csv')),
       (done) => done,
       30_000,
     );
