@@ -160,6 +160,11 @@ module.exports = async () => {
   // 30 s a test or hook, not jest's 5 s: on a loaded 2-core machine starting a test app alone took over 15 s.
   return {
     testTimeout: 30_000,
+    // A test worker is replaced once its heap passes 1 GB after a file. The web project's workers ended a full
+    // run at ~1.3 GB of memory and took over half a second to tear down after their last file, so jest killed
+    // them and said "A worker process has failed to exit gracefully" (nothing leaked: both had no timers or
+    // sockets left and had already run their exit handlers).
+    workerIdleMemoryLimit: '1GB',
     globalSetup: '<rootDir>/server/src/testing/bundle-worker-tasks.js',
     projects: pg ? [projects[0], pg, ...projects.slice(1)] : projects,
   };
