@@ -36,7 +36,8 @@ const SKIP_STREAM = process.argv.includes('--skip-stream');
 const RECORD_BEFORE = process.argv.includes('--record-before');
 const BEFORE_FILE = path.join(__dirname, 'web-p4-before.json');
 /** A build of the code before a change (its own server/dist and dist/web), measured in the same run. */
-const BEFORE_ROOT = option('before', '') ? path.resolve(option('before', '')) : null;
+const BEFORE_DIR = option('before', '');
+const BEFORE_ROOT = BEFORE_DIR ? path.resolve(BEFORE_DIR) : null;
 
 const AIM = { warmMs: 800, coldMs: 1200, coldKb: 600, longTaskMs: 50 };
 

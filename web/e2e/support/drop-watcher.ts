@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { parseWatcherConfig } from '../../../watcher/src/config';
+import { parseWatcherConfig, type WatcherConfigInput } from '../../../watcher/src/config';
 import { silentLogger } from '../../../watcher/src/logger';
 import { createWatcher, type DropFolderWatcher } from '../../../watcher/src/watcher';
 
@@ -15,16 +15,17 @@ export interface RunningDropWatcher {
 
 /**
  * Start the real watcher against a test server, sending as an instrument (`instruments`) or as a watcher
- * credential (`watcherToken`); settling and polling are shortened so a test does not wait on them.
+ * credential (`watcherToken`), with any other settings of the watcher's own; settling is shortened so a
+ * test does not wait on it.
  */
 export async function startDropWatcher(
   serverUrl: string,
-  credentials: Record<string, unknown>,
+  settings: Omit<WatcherConfigInput, 'serverUrl' | 'dropDir' | 'spoolDir'>,
 ): Promise<RunningDropWatcher> {
   const dropDir = fs.mkdtempSync(path.join(os.tmpdir(), 'equilight-e2e-drop-'));
   const spoolDir = `${dropDir}-spool`;
   const watcher = createWatcher(
-    parseWatcherConfig({ serverUrl, dropDir, spoolDir, settleMs: 300, ...credentials }),
+    parseWatcherConfig({ serverUrl, dropDir, spoolDir, settleMs: 300, ...settings }),
     { logger: silentLogger },
   );
   await watcher.start();
