@@ -6,6 +6,7 @@ import { openDatabase } from './database/data-source';
 import { exclusively } from './database/exclusive';
 import { DatabaseProblemError } from './database/integrity';
 import { attachLiveEvents } from './events/live-events';
+import { RedisUnavailableError } from './redis/redis-connection';
 import { seedDemoInstruments } from './seed/demo-instruments';
 import { seedDemoScenario } from './seed/demo-scenario';
 import { seedDemoPeople } from './seed/demo-people';
@@ -63,6 +64,8 @@ async function main(): Promise<void> {
 }
 
 main().catch((err: unknown) => {
-  console.error(err instanceof ConfigError || err instanceof DatabaseProblemError ? err.message : err);
+  const explained =
+    err instanceof ConfigError || err instanceof DatabaseProblemError || err instanceof RedisUnavailableError;
+  console.error(explained ? err.message : err);
   process.exit(1);
 });

@@ -45,7 +45,7 @@ export class RedisEventBus extends EventBus {
   }
 
   override async start(): Promise<void> {
-    await whenReady(this.subscriber);
+    await whenReady(this.subscriber, this.redis);
     await this.subscriber.subscribe(this.channel);
   }
 

@@ -30,15 +30,25 @@ export function openRedis(
   return connection;
 }
 
+/** Redis did not answer when the server needed it to start; its message says what to do. */
+export class RedisUnavailableError extends Error {}
+
 /**
- * Wait until a connection has finished its handshake (status `ready`); fails as a command does when
- * Redis does not answer. A SUBSCRIBE sent before then can overtake the client's own ready check (ioredis
- * writes it during the handshake); the check is then refused in subscriber mode, the client reconnects
- * and the subscription is lost without a word. A PING waits in the client's queue until the connection is
- * ready, so once it is answered a SUBSCRIBE goes out after the handshake.
+ * Wait until a connection has finished its handshake (status `ready`); when Redis does not answer, fails
+ * as a command does, with a RedisUnavailableError. A SUBSCRIBE sent before then can overtake the client's
+ * own ready check (ioredis writes it during the handshake); the check is then refused in subscriber mode,
+ * the client reconnects and the subscription is lost without a word. A PING waits in the client's queue
+ * until the connection is ready, so once it is answered a SUBSCRIBE goes out after the handshake.
  */
-export async function whenReady(connection: Redis): Promise<void> {
-  while (connection.status !== 'ready') await connection.ping();
+export async function whenReady(connection: Redis, redis: RedisConfig): Promise<void> {
+  try {
+    while (connection.status !== 'ready') await connection.ping();
+  } catch (err) {
+    const reason = err instanceof Error ? err.message : String(err);
+    throw new RedisUnavailableError(
+      `Redis at ${redactUrl(redis.url)} does not answer (${reason}). Start it, or leave REDIS_URL and QUEUE_URL unset to run a single server process without Redis.`,
+    );
+  }
 }
 
 /** Close a connection: politely when Redis answers, at once when it does not. */

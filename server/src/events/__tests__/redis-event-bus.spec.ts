@@ -1,6 +1,7 @@
 import { once } from 'node:events';
 import type { Redis } from 'ioredis';
-import { closeRedis, openRedis } from '../../redis/redis-connection';
+import { closeRedis, openRedis, RedisUnavailableError } from '../../redis/redis-connection';
+import { freePort } from '../../testing/free-port';
 import { describeWithRedis, removeRedisKeys, testRedisConfig } from '../../testing/redis';
 import type { AccessChange, LiveEvent } from '../event-bus';
 import { RedisEventBus } from '../redis-event-bus';
@@ -134,6 +135,28 @@ describeWithRedis('live events across processes through Redis', () => {
       } finally {
         await late.close();
       }
+    }
+  });
+
+  it('when Redis does not answer then start fails with a message that says so and what to do', async () => {
+    const away = { url: `redis://:secret-word@127.0.0.1:${await freePort()}`, prefix: redis.prefix };
+    const quiet = () => undefined;
+    const connection = openRedis(away, 'commands', quiet);
+    const bus = new RedisEventBus(connection, away, quiet);
+    try {
+      const failure = await bus.start().then(
+        () => null,
+        (err: unknown) => err,
+      );
+      expect(failure).toBeInstanceOf(RedisUnavailableError);
+      const message = (failure as Error).message;
+      expect(message).toMatch(
+        /^Redis at redis:\/\/.*127\.0\.0\.1:\d+ does not answer \(.+\)\. Start it, or leave REDIS_URL/,
+      );
+      expect(message).not.toContain('secret-word');
+    } finally {
+      await bus.close();
+      await closeRedis(connection);
     }
   });
 
